@@ -1,0 +1,136 @@
+package org.roundtable.job;
+
+import jakarta.enterprise.context.ApplicationScoped;
+import jakarta.persistence.EntityManager;
+import jakarta.transaction.Transactional;
+
+import java.time.Clock;
+import java.time.Duration;
+import java.time.OffsetDateTime;
+import java.time.ZoneOffset;
+import java.util.List;
+import java.util.Optional;
+
+/**
+ * The database-backed job queue. Claiming uses {@code FOR UPDATE SKIP LOCKED}, so two instances
+ * polling at the same moment never claim the same job; a job whose instance stops sending heartbeats
+ * is put back in the queue.
+ */
+@ApplicationScoped
+public class JobService {
+
+    /** A running job whose heartbeat is older than this is considered abandoned. */
+    static final Duration ABANDONED_AFTER = Duration.ofMinutes(5);
+    private static final int MAX_ERROR_LENGTH = 4000;
+
+    private final JobRepository jobs;
+    private final EntityManager entityManager;
+    private final Clock clock;
+
+    public JobService(JobRepository jobs, EntityManager entityManager, Clock clock) {
+        this.jobs = jobs;
+        this.entityManager = entityManager;
+        this.clock = clock;
+    }
+
+    @Transactional
+    public Job enqueue(String kind, String payload, String createdBy) {
+        Job job = new Job();
+        job.kind = kind;
+        job.payload = payload == null ? "{}" : payload;
+        job.createdBy = createdBy;
+        job.createdAt = now();
+        job.notBefore = job.createdAt;
+        jobs.persist(job);
+        return job;
+    }
+
+    @Transactional
+    public Optional<Job> find(long id) {
+        return jobs.findByIdOptional(id);
+    }
+
+    /**
+     * Claims the oldest due job for {@code worker}, or nothing. The claim is committed before the
+     * work starts, so a crash mid-work leaves a RUNNING row that {@link #requeueAbandoned()} recovers.
+     */
+    @Transactional(Transactional.TxType.REQUIRES_NEW)
+    public Optional<Long> claimNext(String worker) {
+        @SuppressWarnings("unchecked")
+        List<Number> claimed = entityManager.createNativeQuery("""
+                UPDATE job SET status = 'RUNNING', claimed_by = :worker, claimed_at = :now,
+                               heartbeat_at = :now, attempts = attempts + 1, version = version + 1
+                 WHERE id = (SELECT id FROM job
+                              WHERE status = 'QUEUED' AND not_before <= :now
+                              ORDER BY not_before, id
+                              LIMIT 1
+                              FOR UPDATE SKIP LOCKED)
+                RETURNING id
+                """)
+                .setParameter("worker", worker)
+                .setParameter("now", now())
+                .getResultList();
+        return claimed.stream().findFirst().map(Number::longValue);
+    }
+
+    @Transactional(Transactional.TxType.REQUIRES_NEW)
+    public void reportProgress(long id, int done, int total) {
+        entityManager.createNativeQuery("""
+                UPDATE job SET progress_done = :done, progress_total = :total, heartbeat_at = :now,
+                               version = version + 1
+                 WHERE id = :id AND status = 'RUNNING'
+                """)
+                .setParameter("done", Math.max(0, done))
+                .setParameter("total", Math.max(0, total))
+                .setParameter("now", now())
+                .setParameter("id", id)
+                .executeUpdate();
+    }
+
+    @Transactional(Transactional.TxType.REQUIRES_NEW)
+    public void succeed(long id, String result) {
+        Job job = jobs.findById(id);
+        job.status = JobStatus.SUCCEEDED.name();
+        job.result = result;
+        job.error = null;
+        job.claimedBy = null;
+        job.finishedAt = now();
+        if (job.progressTotal > 0) {
+            job.progressDone = job.progressTotal;
+        }
+    }
+
+    /** Records a failure: back to the queue with a growing delay, or FAILED when attempts are used up. */
+    @Transactional(Transactional.TxType.REQUIRES_NEW)
+    public void fail(long id, String error) {
+        Job job = jobs.findById(id);
+        job.claimedBy = null;
+        job.error = error == null ? "failed" : truncate(error);
+        if (job.attempts >= job.maxAttempts) {
+            job.status = JobStatus.FAILED.name();
+            job.finishedAt = now();
+        } else {
+            job.status = JobStatus.QUEUED.name();
+            job.notBefore = now().plusSeconds(10L * job.attempts);
+        }
+    }
+
+    /** Puts jobs whose instance stopped sending heartbeats back in the queue. Safe on many instances. */
+    @Transactional(Transactional.TxType.REQUIRES_NEW)
+    public int requeueAbandoned() {
+        return entityManager.createNativeQuery("""
+                UPDATE job SET status = 'QUEUED', claimed_by = NULL, version = version + 1
+                 WHERE status = 'RUNNING' AND heartbeat_at < :limit
+                """)
+                .setParameter("limit", now().minus(ABANDONED_AFTER))
+                .executeUpdate();
+    }
+
+    private OffsetDateTime now() {
+        return OffsetDateTime.now(clock).withOffsetSameInstant(ZoneOffset.UTC);
+    }
+
+    private static String truncate(String text) {
+        return text.length() <= MAX_ERROR_LENGTH ? text : text.substring(0, MAX_ERROR_LENGTH);
+    }
+}

@@ -1,0 +1,108 @@
+package org.roundtable.web;
+
+import io.quarkus.qute.Location;
+import io.quarkus.qute.Template;
+import jakarta.validation.ConstraintViolationException;
+import org.roundtable.platform.DomainException;
+import jakarta.ws.rs.WebApplicationException;
+import jakarta.ws.rs.core.HttpHeaders;
+import jakarta.ws.rs.core.MediaType;
+import jakarta.ws.rs.core.Response;
+import org.jboss.logging.Logger;
+import org.jboss.resteasy.reactive.server.ServerExceptionMapper;
+
+import java.util.List;
+
+/**
+ * The one place where failures become HTTP answers: a {@link Problem} body for API clients, the error
+ * page for browsers. Unexpected failures are logged with the request id and answered with a generic
+ * message, never with a class name or stack trace.
+ */
+public class ProblemMapper {
+
+    private static final Logger LOG = Logger.getLogger(ProblemMapper.class);
+
+    private final Template error;
+
+    public ProblemMapper(@Location("web/error.html") Template error) {
+        this.error = error;
+    }
+
+    @ServerExceptionMapper
+    public Response domain(DomainException e, HttpHeaders headers) {
+        return answer(e.status(), e.title(), e.detail(), List.of(), headers);
+    }
+
+    @ServerExceptionMapper
+    public Response validation(ConstraintViolationException e, HttpHeaders headers) {
+        List<Problem.FieldError> errors = e.getConstraintViolations().stream()
+                .map(v -> new Problem.FieldError(lastNode(v.getPropertyPath().toString()), "invalid", v.getMessage()))
+                .sorted((a, b) -> a.field().compareTo(b.field()))
+                .toList();
+        return answer(400, "Invalid request", "Some fields are not valid.", errors, headers);
+    }
+
+    @ServerExceptionMapper
+    public Response web(WebApplicationException e, HttpHeaders headers) {
+        int status = e.getResponse().getStatus();
+        if (status >= 500) {
+            LOG.errorf(e, "request %s failed", RequestIds.current());
+            return answer(status, "Server error", "Something went wrong on our side.", List.of(), headers);
+        }
+        String title = switch (status) {
+            case 401 -> "Sign-in required";
+            case 403 -> "Not allowed";
+            case 404 -> "Not found";
+            case 405 -> "Method not allowed";
+            case 406 -> "Not acceptable";
+            case 413 -> "Too large";
+            case 415 -> "Unsupported media type";
+            default -> "Request failed";
+        };
+        String detail = switch (status) {
+            case 401 -> "Please sign in.";
+            case 403 -> "You are not allowed to do this.";
+            case 404 -> "Nothing was found at this address.";
+            case 413 -> "The request body is larger than allowed.";
+            default -> title + ".";
+        };
+        return answer(status, title, detail, List.of(), headers);
+    }
+
+    @ServerExceptionMapper(priority = 10_000)
+    public Response unexpected(Throwable e, HttpHeaders headers) {
+        LOG.errorf(e, "request %s failed", RequestIds.current());
+        return answer(500, "Server error", "Something went wrong on our side.", List.of(), headers);
+    }
+
+    private Response answer(int status, String title, String detail, List<Problem.FieldError> errors, HttpHeaders headers) {
+        String requestId = RequestIds.current();
+        if (wantsHtml(headers)) {
+            String page = error.data("status", status).data("title", title).data("detail", detail)
+                    .data("errors", errors).data("requestId", requestId).render();
+            return Response.status(status).type(MediaType.TEXT_HTML_TYPE.withCharset("UTF-8")).entity(page).build();
+        }
+        return Response.status(status).type(MediaType.APPLICATION_JSON_TYPE)
+                .entity(new Problem(status, title, detail, requestId, errors)).build();
+    }
+
+    static boolean wantsHtml(HttpHeaders headers) {
+        if (headers == null) {
+            return false;
+        }
+        for (MediaType type : headers.getAcceptableMediaTypes()) {
+            if (type.isCompatible(MediaType.APPLICATION_JSON_TYPE) && !type.isWildcardType()) {
+                return false;
+            }
+            if (type.isCompatible(MediaType.TEXT_HTML_TYPE) && !type.isWildcardType()) {
+                return true;
+            }
+        }
+        return false;
+    }
+
+    private static String lastNode(String path) {
+        int dot = path.lastIndexOf('.');
+        return dot < 0 ? path : path.substring(dot + 1);
+    }
+}

@@ -1,0 +1,83 @@
+package org.roundtable.testing;
+
+import org.junit.jupiter.api.Assumptions;
+import org.openqa.selenium.OutputType;
+import org.openqa.selenium.TakesScreenshot;
+import org.openqa.selenium.WebDriver;
+import org.openqa.selenium.chrome.ChromeDriver;
+import org.openqa.selenium.chrome.ChromeDriverService;
+import org.openqa.selenium.chrome.ChromeOptions;
+
+import java.io.File;
+import java.io.IOException;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.time.Duration;
+
+/**
+ * Headless Chromium for page tests. Where no browser is installed the test is skipped visibly (a JUnit
+ * assumption names what is missing) — unless {@code REQUIRE_BROWSER=true}, as in CI, where a missing
+ * browser fails the run.
+ */
+public final class Browser {
+
+    private static final String[] CHROMIUM = {"/usr/bin/chromium", "/usr/bin/chromium-browser", "/usr/bin/google-chrome"};
+    private static final String[] DRIVER = {"/usr/bin/chromedriver", "/usr/lib/chromium/chromedriver"};
+
+    private Browser() {
+    }
+
+    /** Starts a fresh headless browser; the caller quits it. */
+    public static WebDriver start() {
+        String chromium = firstExisting(CHROMIUM);
+        String driver = firstExisting(DRIVER);
+        if (chromium == null || driver == null) {
+            String missing = "Chromium or ChromeDriver is not installed (apt-get install chromium chromium-driver)";
+            if ("true".equalsIgnoreCase(System.getenv("REQUIRE_BROWSER"))) {
+                throw new IllegalStateException(missing + " but REQUIRE_BROWSER=true");
+            }
+            Assumptions.abort("Browser test skipped: " + missing);
+        }
+        ChromeOptions options = new ChromeOptions();
+        options.setBinary(chromium);
+        options.addArguments("--headless=new", "--no-sandbox", "--disable-gpu", "--disable-dev-shm-usage",
+                "--disable-background-networking", "--disable-component-update", "--disable-sync",
+                "--no-first-run", "--disable-quic", "--window-size=1280,900", "--user-data-dir=" + tempProfile());
+        ChromeDriverService service = new ChromeDriverService.Builder()
+                .usingDriverExecutable(new File(driver))
+                .usingAnyFreePort()
+                .build();
+        ChromeDriver chrome = new ChromeDriver(service, options);
+        chrome.manage().timeouts().pageLoadTimeout(Duration.ofSeconds(30));
+        return chrome;
+    }
+
+    /** Saves a screenshot under target/screenshots for a person to look at. */
+    public static void screenshot(WebDriver driver, String name) {
+        try {
+            Path dir = Path.of("target", "screenshots");
+            Files.createDirectories(dir);
+            byte[] png = ((TakesScreenshot) driver).getScreenshotAs(OutputType.BYTES);
+            Files.write(dir.resolve(name + ".png"), png);
+        } catch (IOException e) {
+            throw new IllegalStateException("could not save screenshot " + name, e);
+        }
+    }
+
+    private static String tempProfile() {
+        try {
+            return Files.createTempDirectory("roundtable-chromium").toString();
+        } catch (IOException e) {
+            throw new IllegalStateException(e);
+        }
+    }
+
+    private static String firstExisting(String[] candidates) {
+        for (String candidate : candidates) {
+            if (new File(candidate).canExecute()) {
+                return candidate;
+            }
+        }
+        return null;
+    }
+}
