@@ -63,7 +63,11 @@ public final class EmbeddedDatabase {
                     .setPort(port)
                     .setRegisterShutdownHook(true)
                     .setPGStartupWait(Duration.ofSeconds(60))
-                    // durability settings stay at PostgreSQL's defaults (fsync and synchronous_commit on)
+                    // The library starts PostgreSQL tuned for throw-away test data (-F, synchronous_commit=off).
+                    // The server keeps real data: restore PostgreSQL's durable defaults explicitly.
+                    .setServerConfig("fsync", "on")
+                    .setServerConfig("synchronous_commit", "on")
+                    .setServerConfig("full_page_writes", "on")
                     .setServerConfig("listen_addresses", "127.0.0.1")
                     .setServerConfig("max_connections", "100")
                     .start();

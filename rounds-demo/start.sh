@@ -1,0 +1,40 @@
+#!/usr/bin/env bash
+# Starts Roundtable with the demo scheme on an embedded PostgreSQL. Nothing to install but a JDK and Maven.
+#   PORT                  HTTP port (default 8080)
+#   ROUNDTABLE_DB_PORT    port of the embedded PostgreSQL (default 5488)
+#   ROUNDTABLE_DATA_DIR   where the database and the session key live (default: data/ in the repository)
+# Ctrl-C stops the server and the embedded PostgreSQL.
+set -euo pipefail
+
+repo="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
+cd "$repo"
+
+jar="target/quarkus-app/quarkus-run.jar"
+if [ ! -f "$jar" ] || [ -n "$(find pom.xml src -newer "$jar" -type f -print -quit)" ]; then
+  echo "Building Roundtable (tests skipped; run 'mvn verify' for those)..."
+  mvn -q -DskipTests package
+fi
+
+export ROUNDTABLE_DATA_DIR="${ROUNDTABLE_DATA_DIR:-$repo/data}"
+mkdir -p "$ROUNDTABLE_DATA_DIR"
+chmod 700 "$ROUNDTABLE_DATA_DIR"
+
+# The key that encrypts session cookies is generated once and kept with the data, so sessions survive restarts.
+key_file="$ROUNDTABLE_DATA_DIR/session.key"
+if [ ! -s "$key_file" ]; then
+  (umask 077; head -c 48 /dev/urandom | base64 | tr -d '\n=' > "$key_file")
+fi
+export QUARKUS_HTTP_AUTH_SESSION_ENCRYPTION_KEY="$(cat "$key_file")"
+
+export PORT="${PORT:-8080}"
+export ROUNDTABLE_DEMO=true
+
+cat <<MSG
+Roundtable demo
+  URL:        http://localhost:${PORT}/
+  API docs:   http://localhost:${PORT}/q/swagger-ui
+  Data:       ${ROUNDTABLE_DATA_DIR} (delete it to start the demo afresh)
+  The demo sign-ins are printed once the server is up. Stop with Ctrl-C.
+MSG
+
+exec java -Duser.timezone=UTC -jar "$jar"
