@@ -28,6 +28,8 @@ export QUARKUS_HTTP_AUTH_SESSION_ENCRYPTION_KEY="$(cat "$key_file")"
 
 export PORT="${PORT:-8080}"
 export ROUNDTABLE_DEMO=true
+# plain HTTP on localhost: cookies cannot be marked Secure
+export ROUNDTABLE_SECURE_COOKIES="${ROUNDTABLE_SECURE_COOKIES:-false}"
 
 cat <<MSG
 Roundtable demo

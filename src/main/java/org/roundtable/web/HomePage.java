@@ -2,6 +2,7 @@ package org.roundtable.web;
 
 import io.quarkus.qute.CheckedTemplate;
 import io.quarkus.qute.TemplateInstance;
+import jakarta.annotation.security.PermitAll;
 import jakarta.ws.rs.GET;
 import jakarta.ws.rs.Path;
 import jakarta.ws.rs.Produces;
@@ -17,6 +18,7 @@ public class HomePage {
     }
 
     @GET
+    @PermitAll
     @Produces(MediaType.TEXT_HTML)
     public TemplateInstance home() {
         return Templates.home();

@@ -2,7 +2,14 @@ package org.roundtable.web;
 
 import io.quarkus.qute.Location;
 import io.quarkus.qute.Template;
+import io.quarkus.security.AuthenticationFailedException;
+import io.quarkus.security.ForbiddenException;
+import io.quarkus.security.UnauthorizedException;
 import jakarta.validation.ConstraintViolationException;
+import jakarta.ws.rs.core.Request;
+import jakarta.ws.rs.core.UriInfo;
+import org.roundtable.account.CurrentUser;
+import org.roundtable.account.SecurityLog;
 import org.roundtable.platform.DomainException;
 import jakarta.ws.rs.WebApplicationException;
 import jakarta.ws.rs.core.HttpHeaders;
@@ -11,6 +18,9 @@ import jakarta.ws.rs.core.Response;
 import org.jboss.logging.Logger;
 import org.jboss.resteasy.reactive.server.ServerExceptionMapper;
 
+import java.net.URI;
+import java.net.URLEncoder;
+import java.nio.charset.StandardCharsets;
 import java.util.List;
 
 /**
@@ -23,13 +33,37 @@ public class ProblemMapper {
     private static final Logger LOG = Logger.getLogger(ProblemMapper.class);
 
     private final Template error;
+    private final CurrentUser currentUser;
 
-    public ProblemMapper(@Location("web/error.html") Template error) {
+    public ProblemMapper(@Location("web/error.html") Template error, CurrentUser currentUser) {
         this.error = error;
+        this.currentUser = currentUser;
+    }
+
+    /** Not signed in: browsers are sent to sign in (and back afterwards), API clients get 401. */
+    @ServerExceptionMapper({UnauthorizedException.class, AuthenticationFailedException.class})
+    public Response unauthenticated(RuntimeException e, HttpHeaders headers, UriInfo uri, Request request) {
+        SecurityLog.denied(currentUser.username(), request.getMethod(), uri.getPath(), 401);
+        if (wantsHtml(headers) && "GET".equals(request.getMethod())) {
+            String next = uri.getRequestUri().getRawPath()
+                    + (uri.getRequestUri().getRawQuery() == null ? "" : "?" + uri.getRequestUri().getRawQuery());
+            return Response.seeOther(URI.create("/login?next=" + URLEncoder.encode(next, StandardCharsets.UTF_8))).build();
+        }
+        Response problem = answer(401, "Sign-in required", "Please sign in.", List.of(), headers);
+        return Response.fromResponse(problem).header("WWW-Authenticate", "Bearer realm=\"roundtable\"").build();
     }
 
     @ServerExceptionMapper
-    public Response domain(DomainException e, HttpHeaders headers) {
+    public Response forbidden(ForbiddenException e, HttpHeaders headers, UriInfo uri, Request request) {
+        SecurityLog.denied(currentUser.username(), request.getMethod(), uri.getPath(), 403);
+        return answer(403, "Not allowed", "You are not allowed to do this.", List.of(), headers);
+    }
+
+    @ServerExceptionMapper
+    public Response domain(DomainException e, HttpHeaders headers, UriInfo uri, Request request) {
+        if (e.status() == 403) {
+            SecurityLog.denied(currentUser.username(), request.getMethod(), uri.getPath(), 403);
+        }
         return answer(e.status(), e.title(), e.detail(), List.of(), headers);
     }
 

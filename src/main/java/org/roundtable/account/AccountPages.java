@@ -1,0 +1,267 @@
+package org.roundtable.account;
+
+import io.quarkus.qute.CheckedTemplate;
+import io.quarkus.qute.TemplateInstance;
+import io.vertx.core.http.HttpServerRequest;
+import jakarta.annotation.security.RolesAllowed;
+import jakarta.ws.rs.Consumes;
+import jakarta.ws.rs.FormParam;
+import jakarta.ws.rs.GET;
+import jakarta.ws.rs.POST;
+import jakarta.ws.rs.Path;
+import jakarta.ws.rs.PathParam;
+import jakarta.ws.rs.Produces;
+import jakarta.ws.rs.core.MediaType;
+import jakarta.ws.rs.core.Response;
+import org.roundtable.platform.DomainException;
+
+import java.time.LocalDate;
+import java.time.LocalTime;
+import java.time.OffsetDateTime;
+import java.time.ZoneOffset;
+import java.time.format.DateTimeParseException;
+import java.util.List;
+import java.util.function.Supplier;
+
+/** Pages for administering users (admin), laboratories (coordinator, admin), one's own laboratory (lab manager) and an auditor's grants. */
+@Path("/")
+@Produces(MediaType.TEXT_HTML)
+public class AccountPages {
+
+    @CheckedTemplate(basePath = "account")
+    static class Templates {
+        static native TemplateInstance users(List<AccountService.UserView> users,
+                                             List<LaboratoryService.LaboratoryView> laboratories,
+                                             AccountService.UserWithLink link, String error, String baseUrl);
+
+        static native TemplateInstance laboratories(List<LaboratoryService.LaboratoryView> laboratories,
+                                                    LaboratoryService.CreatedLaboratory created, String error,
+                                                    String baseUrl);
+
+        static native TemplateInstance myLaboratory(LaboratoryService.LaboratoryView laboratory,
+                                                    List<AccountService.UserView> members,
+                                                    List<ApiTokenService.TokenView> tokens,
+                                                    List<AuditorGrantService.GrantView> grants,
+                                                    AccountService.UserWithLink link,
+                                                    ApiTokenService.CreatedToken newToken, String error, String baseUrl);
+
+        static native TemplateInstance auditor(List<AuditorGrantService.GrantedLaboratory> laboratories);
+    }
+
+    private final AccountService accounts;
+    private final LaboratoryService laboratories;
+    private final ApiTokenService tokens;
+    private final AuditorGrantService grants;
+    private final CurrentUser currentUser;
+    private final HttpServerRequest request;
+
+    public AccountPages(AccountService accounts, LaboratoryService laboratories, ApiTokenService tokens,
+                        AuditorGrantService grants, CurrentUser currentUser, HttpServerRequest request) {
+        this.accounts = accounts;
+        this.laboratories = laboratories;
+        this.tokens = tokens;
+        this.grants = grants;
+        this.currentUser = currentUser;
+        this.request = request;
+    }
+
+    // ---- admin: users ------------------------------------------------------------------------------------
+
+    @GET
+    @Path("admin/users")
+    @RolesAllowed(Role.ADMIN_NAME)
+    public TemplateInstance users() {
+        return usersPage(null, null);
+    }
+
+    @POST
+    @Path("admin/users")
+    @RolesAllowed(Role.ADMIN_NAME)
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response createUser(@FormParam("username") String username, @FormParam("displayName") String displayName,
+                               @FormParam("email") String email, @FormParam("role") String role,
+                               @FormParam("laboratoryId") String laboratoryId) {
+        return attempt(() -> usersPage(accounts.create(new AccountService.NewUser(username, displayName, email, role,
+                Role.fromName(role).map(Role::belongsToLaboratory).orElse(false) ? parseId(laboratoryId) : null)), null),
+                e -> usersPage(null, e));
+    }
+
+    @POST
+    @Path("admin/users/{userId}/enabled")
+    @RolesAllowed(Role.ADMIN_NAME)
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response setEnabled(@PathParam("userId") long userId, @FormParam("enabled") boolean enabled) {
+        return attempt(() -> {
+            accounts.setEnabled(userId, enabled);
+            return usersPage(null, null);
+        }, e -> usersPage(null, e));
+    }
+
+    @POST
+    @Path("admin/users/{userId}/password-link")
+    @RolesAllowed(Role.ADMIN_NAME)
+    public Response passwordLink(@PathParam("userId") long userId) {
+        return attempt(() -> usersPage(accounts.startPasswordReset(userId), null), e -> usersPage(null, e));
+    }
+
+    // ---- coordinator/admin: laboratories -----------------------------------------------------------------
+
+    @GET
+    @Path("laboratories")
+    @RolesAllowed({Role.COORDINATOR_NAME, Role.ADMIN_NAME})
+    public TemplateInstance laboratoriesPage() {
+        return Templates.laboratories(laboratories.listAll(), null, null, baseUrl());
+    }
+
+    @POST
+    @Path("laboratories")
+    @RolesAllowed({Role.COORDINATOR_NAME, Role.ADMIN_NAME})
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response enrol(@FormParam("organisation") String organisation, @FormParam("name") String name,
+                          @FormParam("country") String country, @FormParam("contactName") String contactName,
+                          @FormParam("contactEmail") String contactEmail,
+                          @FormParam("managerUsername") String managerUsername) {
+        return attempt(() -> {
+            LaboratoryService.CreatedLaboratory created = laboratories.create(new LaboratoryService.NewLaboratory(
+                    name, organisation, country, contactName, contactEmail, managerUsername, null));
+            return Templates.laboratories(laboratories.listAll(), created, null, baseUrl());
+        }, e -> Templates.laboratories(laboratories.listAll(), null, e, baseUrl()));
+    }
+
+    // ---- lab manager: my laboratory ---------------------------------------------------------------------
+
+    @GET
+    @Path("my-laboratory")
+    @RolesAllowed(Role.LAB_MANAGER_NAME)
+    public TemplateInstance myLaboratory() {
+        return myLaboratoryPage(null, null, null);
+    }
+
+    @POST
+    @Path("my-laboratory/members")
+    @RolesAllowed(Role.LAB_MANAGER_NAME)
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response addMember(@FormParam("username") String username, @FormParam("displayName") String displayName,
+                              @FormParam("email") String email, @FormParam("role") String role) {
+        return attempt(() -> myLaboratoryPage(accounts.createOwnLaboratoryMember(username, displayName, email, role),
+                null, null), e -> myLaboratoryPage(null, null, e));
+    }
+
+    @POST
+    @Path("my-laboratory/members/{userId}/enabled")
+    @RolesAllowed(Role.LAB_MANAGER_NAME)
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response setMemberEnabled(@PathParam("userId") long userId, @FormParam("enabled") boolean enabled) {
+        return attempt(() -> {
+            accounts.setOwnLaboratoryMemberEnabled(userId, enabled);
+            return myLaboratoryPage(null, null, null);
+        }, e -> myLaboratoryPage(null, null, e));
+    }
+
+    @POST
+    @Path("my-laboratory/members/{userId}/password-link")
+    @RolesAllowed(Role.LAB_MANAGER_NAME)
+    public Response memberPasswordLink(@PathParam("userId") long userId) {
+        return attempt(() -> myLaboratoryPage(accounts.startOwnLaboratoryMemberReset(userId), null, null),
+                e -> myLaboratoryPage(null, null, e));
+    }
+
+    @POST
+    @Path("my-laboratory/tokens")
+    @RolesAllowed(Role.LAB_MANAGER_NAME)
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response createToken(@FormParam("name") String name) {
+        return attempt(() -> myLaboratoryPage(null, tokens.create(name), null), e -> myLaboratoryPage(null, null, e));
+    }
+
+    @POST
+    @Path("my-laboratory/tokens/{tokenId}/revoke")
+    @RolesAllowed(Role.LAB_MANAGER_NAME)
+    public Response revokeToken(@PathParam("tokenId") long tokenId) {
+        return attempt(() -> {
+            tokens.revoke(tokenId);
+            return myLaboratoryPage(null, null, null);
+        }, e -> myLaboratoryPage(null, null, e));
+    }
+
+    @POST
+    @Path("my-laboratory/auditor-grants")
+    @RolesAllowed(Role.LAB_MANAGER_NAME)
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response grant(@FormParam("auditorUsername") String auditorUsername, @FormParam("validUntil") String validUntil) {
+        return attempt(() -> {
+            grants.grant(auditorUsername, endOfDay(validUntil));
+            return myLaboratoryPage(null, null, null);
+        }, e -> myLaboratoryPage(null, null, e));
+    }
+
+    @POST
+    @Path("my-laboratory/auditor-grants/{grantId}/revoke")
+    @RolesAllowed(Role.LAB_MANAGER_NAME)
+    public Response revokeGrant(@PathParam("grantId") long grantId) {
+        return attempt(() -> {
+            grants.revoke(grantId);
+            return myLaboratoryPage(null, null, null);
+        }, e -> myLaboratoryPage(null, null, e));
+    }
+
+    // ---- auditor ---------------------------------------------------------------------------------------------
+
+    @GET
+    @Path("auditor")
+    @RolesAllowed(Role.AUDITOR_NAME)
+    public TemplateInstance auditor() {
+        return Templates.auditor(grants.listGrantedToMe());
+    }
+
+    // ---- helpers --------------------------------------------------------------------------------------------
+
+    private TemplateInstance usersPage(AccountService.UserWithLink link, String error) {
+        return Templates.users(accounts.listAll(), laboratories.listAll(), link, error, baseUrl());
+    }
+
+    private TemplateInstance myLaboratoryPage(AccountService.UserWithLink link, ApiTokenService.CreatedToken newToken,
+                                              String error) {
+        return Templates.myLaboratory(laboratories.get(currentUser.requireLaboratoryId()),
+                accounts.listOwnLaboratoryMembers(), tokens.listOwn(), grants.listOwnLaboratory(), link, newToken,
+                error, baseUrl());
+    }
+
+    /**
+     * Runs a form action; a "not found" (another laboratory's object or no object) propagates as such, other
+     * domain failures re-render the page with the message and the failure's status.
+     */
+    private static Response attempt(Supplier<TemplateInstance> action,
+                                    java.util.function.Function<String, TemplateInstance> onError) {
+        try {
+            return Response.ok(action.get()).build();
+        } catch (DomainException.NotFound | DomainException.Forbidden e) {
+            throw e;
+        } catch (DomainException e) {
+            return Response.status(e.status()).entity(onError.apply(e.detail())).build();
+        }
+    }
+
+    private String baseUrl() {
+        return request.scheme() + "://" + request.authority();
+    }
+
+    private static Long parseId(String value) {
+        if (value == null || value.isBlank()) {
+            return null;
+        }
+        try {
+            return Long.parseLong(value.strip());
+        } catch (NumberFormatException e) {
+            throw new DomainException.BadRequest("The laboratory is not valid.");
+        }
+    }
+
+    private static OffsetDateTime endOfDay(String date) {
+        try {
+            return LocalDate.parse(date == null ? "" : date.strip()).atTime(LocalTime.of(23, 59, 59)).atOffset(ZoneOffset.UTC);
+        } catch (DateTimeParseException e) {
+            throw new DomainException.BadRequest("The date is not valid (yyyy-mm-dd).");
+        }
+    }
+}

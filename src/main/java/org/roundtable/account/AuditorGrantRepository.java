@@ -1,0 +1,8 @@
+package org.roundtable.account;
+
+import io.quarkus.hibernate.orm.panache.PanacheRepository;
+import jakarta.enterprise.context.ApplicationScoped;
+
+@ApplicationScoped
+public class AuditorGrantRepository implements PanacheRepository<AuditorGrant> {
+}

@@ -1,0 +1,130 @@
+package org.roundtable.account;
+
+import jakarta.enterprise.context.ApplicationScoped;
+import jakarta.transaction.Transactional;
+import org.roundtable.audit.AuditTrail;
+import org.roundtable.audit.ObjectHash;
+import org.roundtable.platform.DomainException;
+
+import java.time.Clock;
+import java.time.OffsetDateTime;
+import java.time.ZoneOffset;
+import java.util.List;
+import java.util.Map;
+
+/**
+ * A laboratory's grants to auditors: time-limited, revocable, audited. A grant lets one auditor see the
+ * laboratory's identity, history and per-laboratory reports; nothing else.
+ */
+@ApplicationScoped
+public class AuditorGrantService {
+
+    static final int MAX_GRANT_DAYS = 730;
+
+    private final AuditorGrantRepository grants;
+    private final UserAccountRepository users;
+    private final LaboratoryRepository laboratories;
+    private final AuditTrail audit;
+    private final CurrentUser currentUser;
+    private final Clock clock;
+
+    public AuditorGrantService(AuditorGrantRepository grants, UserAccountRepository users,
+                               LaboratoryRepository laboratories, AuditTrail audit, CurrentUser currentUser,
+                               Clock clock) {
+        this.grants = grants;
+        this.users = users;
+        this.laboratories = laboratories;
+        this.audit = audit;
+        this.currentUser = currentUser;
+        this.clock = clock;
+    }
+
+    public record GrantView(long id, long laboratoryId, String auditorUsername, String auditorName,
+                            OffsetDateTime grantedAt, OffsetDateTime validUntil, OffsetDateTime revokedAt, boolean active) {
+    }
+
+    /** A laboratory as an auditor sees it through a grant. */
+    public record GrantedLaboratory(long laboratoryId, String name, String organisation, String country,
+                                    OffsetDateTime validUntil) {
+    }
+
+    @Transactional
+    public GrantView grant(String auditorUsername, OffsetDateTime validUntil) {
+        long laboratoryId = currentUser.requireLaboratoryId();
+        UserAccount auditor = users.find("username", auditorUsername == null ? "" : auditorUsername.strip().toLowerCase())
+                .firstResultOptional()
+                .filter(u -> Role.AUDITOR.roleName().equals(u.role) && u.enabled)
+                .orElseThrow(() -> new DomainException.Unprocessable("There is no active auditor with this username."));
+        OffsetDateTime now = now();
+        if (validUntil == null || !validUntil.isAfter(now) || validUntil.isAfter(now.plusDays(MAX_GRANT_DAYS))) {
+            throw new DomainException.BadRequest("A grant ends in the future, within " + MAX_GRANT_DAYS + " days.");
+        }
+        AuditorGrant grant = new AuditorGrant();
+        grant.laboratoryId = laboratoryId;
+        grant.auditorId = auditor.id;
+        grant.grantedBy = currentUser.requireUserId();
+        grant.grantedAt = now;
+        grant.validUntil = validUntil.withOffsetSameInstant(ZoneOffset.UTC);
+        grants.persist(grant);
+        audit.record(new AuditTrail.Event(currentUser.actor(), "auditor-grant.created", "auditor-grant",
+                grant.id.toString(), null, hash(grant), "auditor=" + auditor.username + " until=" + grant.validUntil));
+        return view(grant, auditor, now);
+    }
+
+    @Transactional
+    public GrantView revoke(long grantId) {
+        long laboratoryId = currentUser.requireLaboratoryId();
+        AuditorGrant grant = grants.findByIdOptional(grantId).filter(g -> g.laboratoryId == laboratoryId)
+                .orElseThrow(() -> new DomainException.NotFound("The grant"));
+        OffsetDateTime now = now();
+        if (grant.revokedAt == null) {
+            String before = hash(grant);
+            grant.revokedAt = now;
+            grant.revokedBy = currentUser.requireUserId();
+            audit.record(new AuditTrail.Event(currentUser.actor(), "auditor-grant.revoked", "auditor-grant",
+                    grant.id.toString(), before, hash(grant), null));
+        }
+        return view(grant, users.findById(grant.auditorId), now);
+    }
+
+    @Transactional
+    public List<GrantView> listOwnLaboratory() {
+        OffsetDateTime now = now();
+        return grants.list("laboratoryId = ?1 order by grantedAt desc", currentUser.requireLaboratoryId()).stream()
+                .map(g -> view(g, users.findById(g.auditorId), now)).toList();
+    }
+
+    /** The laboratories that currently grant the signed-in auditor access. */
+    @Transactional
+    public List<GrantedLaboratory> listGrantedToMe() {
+        long auditorId = currentUser.requireUserId();
+        OffsetDateTime now = now();
+        return grants.list("auditorId = ?1 and revokedAt is null and validUntil > ?2 order by laboratoryId", auditorId, now)
+                .stream()
+                .map(g -> {
+                    Laboratory lab = laboratories.findById(g.laboratoryId);
+                    return new GrantedLaboratory(lab.id, lab.name, lab.organisation, lab.country, g.validUntil);
+                })
+                .toList();
+    }
+
+    @Transactional
+    public boolean hasActiveGrant(long auditorId, long laboratoryId) {
+        return grants.count("auditorId = ?1 and laboratoryId = ?2 and revokedAt is null and validUntil > ?3",
+                auditorId, laboratoryId, now()) > 0;
+    }
+
+    private static GrantView view(AuditorGrant g, UserAccount auditor, OffsetDateTime now) {
+        return new GrantView(g.id, g.laboratoryId, auditor.username, auditor.displayName, g.grantedAt, g.validUntil,
+                g.revokedAt, g.activeAt(now));
+    }
+
+    private static String hash(AuditorGrant g) {
+        return ObjectHash.of(Map.of("id", g.id, "laboratoryId", g.laboratoryId, "auditorId", g.auditorId,
+                "validUntil", g.validUntil.toString(), "revoked", String.valueOf(g.revokedAt)));
+    }
+
+    private OffsetDateTime now() {
+        return OffsetDateTime.now(clock).withOffsetSameInstant(ZoneOffset.UTC);
+    }
+}

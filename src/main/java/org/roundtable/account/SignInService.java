@@ -1,0 +1,101 @@
+package org.roundtable.account;
+
+import io.quarkus.narayana.jta.QuarkusTransaction;
+import jakarta.enterprise.context.ApplicationScoped;
+import jakarta.persistence.EntityManager;
+import org.roundtable.platform.DomainException;
+
+import java.time.Clock;
+import java.time.OffsetDateTime;
+import java.time.ZoneOffset;
+import java.util.Locale;
+import java.util.Optional;
+
+/**
+ * Sign-in with username and password, throttled per username in the database (ASVS v5.0.0-6.3.1): after
+ * {@code max-failed-sign-ins} failures within {@code throttle-window}, further attempts are refused until the
+ * window has passed. Unknown users, wrong passwords and disabled accounts get the same answer after the
+ * same work.
+ */
+@ApplicationScoped
+public class SignInService {
+
+    public static final String GENERIC_FAILURE = "The username or password is not correct.";
+    public static final String THROTTLED = "Too many failed sign-ins for this username. Try again in a few minutes.";
+
+    private final UserAccountRepository users;
+    private final Passwords passwords;
+    private final SessionService sessions;
+    private final SecuritySettings settings;
+    private final EntityManager entityManager;
+    private final Clock clock;
+
+    public SignInService(UserAccountRepository users, Passwords passwords, SessionService sessions,
+                         SecuritySettings settings, EntityManager entityManager, Clock clock) {
+        this.users = users;
+        this.passwords = passwords;
+        this.sessions = sessions;
+        this.settings = settings;
+        this.entityManager = entityManager;
+        this.clock = clock;
+    }
+
+    /** Thrown when sign-in is refused; the message is safe to show. */
+    public static class SignInRefused extends DomainException {
+        public SignInRefused(String message, int status) {
+            super(status, "Sign-in refused", message);
+        }
+    }
+
+    /** Checks the credentials and starts a session; returns the session cookie token. */
+    public String signIn(String username, String password, String remoteAddress) {
+        String name = username == null ? "" : username.strip().toLowerCase(Locale.ROOT);
+        if (name.isEmpty() || name.length() > 64) {
+            passwords.burnVerificationTime(password);
+            throw new SignInRefused(GENERIC_FAILURE, 401);
+        }
+        OffsetDateTime now = now();
+        long recentFailures = QuarkusTransaction.requiringNew().call(() -> ((Number) entityManager.createNativeQuery("""
+                SELECT count(*) FROM login_attempt
+                 WHERE username = :name AND NOT succeeded AND attempted_at > :since
+                """)
+                .setParameter("name", name)
+                .setParameter("since", now.minus(settings.throttleWindow()))
+                .getSingleResult()).longValue());
+        if (recentFailures >= settings.maxFailedSignIns()) {
+            record(name, false, remoteAddress);
+            SecurityLog.event("sign-in-throttled", name, "failures=" + recentFailures);
+            throw new SignInRefused(THROTTLED, 429);
+        }
+        Optional<UserAccount> user = QuarkusTransaction.requiringNew().call(() ->
+                users.find("username", name).firstResultOptional());
+        boolean ok = user.isPresent() && user.get().enabled && user.get().passwordHash != null
+                && passwords.matches(password, user.get().passwordHash);
+        if (user.isEmpty() || user.get().passwordHash == null) {
+            passwords.burnVerificationTime(password);
+        }
+        record(name, ok, remoteAddress);
+        if (!ok) {
+            SecurityLog.event("sign-in-failed", name, user.isPresent() && !user.get().enabled ? "reason=disabled" : "");
+            throw new SignInRefused(GENERIC_FAILURE, 401);
+        }
+        SecurityLog.event("sign-in", name, "role=" + user.get().role);
+        return sessions.start(user.get().id);
+    }
+
+    private void record(String name, boolean succeeded, String remoteAddress) {
+        QuarkusTransaction.requiringNew().run(() -> entityManager.createNativeQuery("""
+                INSERT INTO login_attempt (username, succeeded, attempted_at, remote_address)
+                VALUES (:name, :ok, :at, :address)
+                """)
+                .setParameter("name", name)
+                .setParameter("ok", succeeded)
+                .setParameter("at", now())
+                .setParameter("address", remoteAddress == null ? null : SecurityLog.safe(remoteAddress))
+                .executeUpdate());
+    }
+
+    private OffsetDateTime now() {
+        return OffsetDateTime.now(clock).withOffsetSameInstant(ZoneOffset.UTC);
+    }
+}

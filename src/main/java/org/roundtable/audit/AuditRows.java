@@ -1,0 +1,56 @@
+package org.roundtable.audit;
+
+import java.sql.Connection;
+import java.sql.PreparedStatement;
+import java.sql.ResultSet;
+import java.sql.SQLException;
+import java.time.OffsetDateTime;
+
+/** Streams the audit trail out of PostgreSQL in sequence order (plain JDBC, usable without the server). */
+public final class AuditRows {
+
+    private AuditRows() {
+    }
+
+    /** Verifies the whole chain on {@code connection}; {@code expectedHead} may be null. */
+    public static AuditChain.Verification verify(Connection connection, String expectedHead) throws SQLException {
+        AuditChain.Verifier verifier = new AuditChain.Verifier();
+        boolean autoCommit = connection.getAutoCommit();
+        if (autoCommit) {
+            connection.setAutoCommit(false); // a cursor (fetch size) needs a transaction in PostgreSQL
+        }
+        try (PreparedStatement statement = connection.prepareStatement("""
+                SELECT sequence_no, occurred_at, actor, actor_role, laboratory_id, action, object_type, object_id,
+                       before_hash, after_hash, detail, request_id, previous_hash, entry_hash
+                  FROM audit_event ORDER BY sequence_no
+                """)) {
+            statement.setFetchSize(5000);
+            try (ResultSet rs = statement.executeQuery()) {
+                while (rs.next()) {
+                    if (!verifier.accept(read(rs))) {
+                        break;
+                    }
+                }
+            }
+        } finally {
+            if (autoCommit) {
+                connection.commit();
+                connection.setAutoCommit(true);
+            }
+        }
+        return verifier.result(expectedHead);
+    }
+
+    static AuditEntry read(ResultSet rs) throws SQLException {
+        long lab = rs.getLong(5);
+        Long laboratoryId = rs.wasNull() ? null : lab;
+        return new AuditEntry(rs.getLong(1), rs.getObject(2, OffsetDateTime.class).toInstant(), rs.getString(3),
+                rs.getString(4), laboratoryId, rs.getString(6), rs.getString(7), rs.getString(8),
+                trimmed(rs.getString(9)), trimmed(rs.getString(10)), rs.getString(11), rs.getString(12),
+                trimmed(rs.getString(13)), trimmed(rs.getString(14)));
+    }
+
+    private static String trimmed(String fixedWidth) {
+        return fixedWidth == null ? null : fixedWidth.strip();
+    }
+}

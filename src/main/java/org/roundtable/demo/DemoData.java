@@ -1,0 +1,57 @@
+package org.roundtable.demo;
+
+import io.quarkus.runtime.StartupEvent;
+import jakarta.enterprise.context.ApplicationScoped;
+import jakarta.enterprise.context.control.ActivateRequestContext;
+import jakarta.enterprise.event.Observes;
+import jakarta.persistence.EntityManager;
+import jakarta.transaction.Transactional;
+import org.eclipse.microprofile.config.inject.ConfigProperty;
+import org.jboss.logging.Logger;
+import org.roundtable.account.DemoAccounts;
+
+/**
+ * Loads the demo scenario into an empty database when {@code roundtable.demo.enabled} is true (set by
+ * rounds-demo/start.sh). Everything in it is invented: the scheme office, the laboratories, the people.
+ * Two instances starting together load it once (advisory lock, then the emptiness check).
+ */
+@ApplicationScoped
+public class DemoData {
+
+    private static final Logger LOG = Logger.getLogger(DemoData.class);
+    static final long LOAD_LOCK = 0x52_54_44_45_4D_4FL; // "RTDEMO"
+
+    private final boolean enabled;
+    private final EntityManager entityManager;
+    private final DemoAccounts accounts;
+
+    public DemoData(@ConfigProperty(name = "roundtable.demo.enabled", defaultValue = "false") boolean enabled,
+                    EntityManager entityManager, DemoAccounts accounts) {
+        this.enabled = enabled;
+        this.entityManager = entityManager;
+        this.accounts = accounts;
+    }
+
+    void onStart(@Observes StartupEvent event) {
+        if (!enabled) {
+            return;
+        }
+        boolean loaded = load();
+        String logins = accounts.describeLogins();
+        String banner = (loaded ? "Demo data loaded." : "Demo data already present.") + " Demo sign-ins (password for all: "
+                + DemoAccounts.DEMO_PASSWORD + "):\n" + logins;
+        LOG.info(banner);
+    }
+
+    @Transactional
+    @ActivateRequestContext
+    boolean load() {
+        entityManager.createNativeQuery("SELECT pg_advisory_xact_lock(:key)").setParameter("key", LOAD_LOCK).getSingleResult();
+        long users = ((Number) entityManager.createNativeQuery("SELECT count(*) FROM app_user").getSingleResult()).longValue();
+        if (users > 0) {
+            return false;
+        }
+        accounts.load();
+        return true;
+    }
+}
