@@ -8,7 +8,8 @@ import io.quarkus.security.UnauthorizedException;
 import jakarta.validation.ConstraintViolationException;
 import jakarta.ws.rs.core.Request;
 import jakarta.ws.rs.core.UriInfo;
-import org.roundtable.account.CurrentUser;
+import io.quarkus.vertx.http.runtime.security.QuarkusHttpUser;
+import io.vertx.ext.web.RoutingContext;
 import org.roundtable.account.SecurityLog;
 import org.roundtable.platform.DomainException;
 import jakarta.ws.rs.WebApplicationException;
@@ -33,17 +34,29 @@ public class ProblemMapper {
     private static final Logger LOG = Logger.getLogger(ProblemMapper.class);
 
     private final Template error;
-    private final CurrentUser currentUser;
+    private final RoutingContext routing;
 
-    public ProblemMapper(@Location("web/error.html") Template error, CurrentUser currentUser) {
+    public ProblemMapper(@Location("web/error.html") Template error, RoutingContext routing) {
         this.error = error;
-        this.currentUser = currentUser;
+        this.routing = routing;
+    }
+
+    /** The caller's name without blocking: the identity already established for this request, if any. */
+    private String actor() {
+        try {
+            if (routing.user() instanceof QuarkusHttpUser user && !user.getSecurityIdentity().isAnonymous()) {
+                return user.getSecurityIdentity().getPrincipal().getName();
+            }
+        } catch (RuntimeException ignored) {
+            // no request context: nothing to name
+        }
+        return "anonymous";
     }
 
     /** Not signed in: browsers are sent to sign in (and back afterwards), API clients get 401. */
     @ServerExceptionMapper({UnauthorizedException.class, AuthenticationFailedException.class})
     public Response unauthenticated(RuntimeException e, HttpHeaders headers, UriInfo uri, Request request) {
-        SecurityLog.denied(currentUser.username(), request.getMethod(), uri.getPath(), 401);
+        SecurityLog.denied(actor(), request.getMethod(), uri.getPath(), 401);
         if (wantsHtml(headers) && "GET".equals(request.getMethod())) {
             String next = uri.getRequestUri().getRawPath()
                     + (uri.getRequestUri().getRawQuery() == null ? "" : "?" + uri.getRequestUri().getRawQuery());
@@ -55,14 +68,14 @@ public class ProblemMapper {
 
     @ServerExceptionMapper
     public Response forbidden(ForbiddenException e, HttpHeaders headers, UriInfo uri, Request request) {
-        SecurityLog.denied(currentUser.username(), request.getMethod(), uri.getPath(), 403);
+        SecurityLog.denied(actor(), request.getMethod(), uri.getPath(), 403);
         return answer(403, "Not allowed", "You are not allowed to do this.", List.of(), headers);
     }
 
     @ServerExceptionMapper
     public Response domain(DomainException e, HttpHeaders headers, UriInfo uri, Request request) {
         if (e.status() == 403) {
-            SecurityLog.denied(currentUser.username(), request.getMethod(), uri.getPath(), 403);
+            SecurityLog.denied(actor(), request.getMethod(), uri.getPath(), 403);
         }
         return answer(e.status(), e.title(), e.detail(), List.of(), headers);
     }

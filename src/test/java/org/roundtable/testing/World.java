@@ -1,0 +1,180 @@
+package org.roundtable.testing;
+
+import io.agroal.api.AgroalDataSource;
+import io.quarkus.elytron.security.common.BcryptUtil;
+import io.restassured.RestAssured;
+import io.restassured.response.Response;
+import jakarta.enterprise.context.ApplicationScoped;
+import org.roundtable.platform.Secrets;
+
+import java.nio.charset.StandardCharsets;
+import java.sql.Connection;
+import java.sql.PreparedStatement;
+import java.sql.ResultSet;
+import java.sql.SQLException;
+import java.util.Base64;
+import java.util.concurrent.atomic.AtomicInteger;
+import java.util.regex.Matcher;
+import java.util.regex.Pattern;
+
+import static io.restassured.RestAssured.given;
+
+/**
+ * Builds small worlds of laboratories, users, tokens and grants straight in the database for tests, and signs
+ * users in through the real form (cookie, CSRF token). Every name is unique, so tests never depend on each
+ * other or on order.
+ */
+@ApplicationScoped
+public class World {
+
+    public static final String PASSWORD = "correct-battery-staple-7";
+    private static final AtomicInteger COUNTER = new AtomicInteger();
+    private static final Pattern CSRF = Pattern.compile("name=\"_csrf\" value=\"([^\"]+)\"");
+    private static volatile String passwordHash;
+
+    private final AgroalDataSource dataSource;
+
+    public World(AgroalDataSource dataSource) {
+        this.dataSource = dataSource;
+    }
+
+    /** A signed-in browser: its session cookie and the CSRF token of its pages. */
+    public record Browser(String username, String sessionCookie, String csrfToken) {
+        public io.restassured.specification.RequestSpecification request() {
+            return given().cookie("rt_session", sessionCookie).redirects().follow(false);
+        }
+
+        public io.restassured.specification.RequestSpecification form() {
+            return request().contentType("application/x-www-form-urlencoded").formParam("_csrf", csrfToken);
+        }
+
+        public io.restassured.specification.RequestSpecification json() {
+            return request().contentType("application/json").header("X-CSRF-Token", csrfToken);
+        }
+    }
+
+    public static String unique(String stem) {
+        return stem + "-" + COUNTER.incrementAndGet() + "-" + Secrets.randomToken(16).substring(0, 6).toLowerCase()
+                .replaceAll("[^a-z0-9]", "x");
+    }
+
+    public long laboratory() {
+        String name = unique("Lab");
+        return insert("INSERT INTO laboratory (name, organisation, country) VALUES (?, ?, 'DE') RETURNING id",
+                name, "Org " + name);
+    }
+
+    /** A user with {@link #PASSWORD}; {@code laboratoryId} null for roles without a laboratory. */
+    public String user(String role, Long laboratoryId) {
+        String username = unique(role.replace("-", ""));
+        insert("INSERT INTO app_user (username, display_name, role, laboratory_id, password_hash) VALUES (?, ?, ?, ?, ?) RETURNING id",
+                username, "Test " + username, role, laboratoryId, hash());
+        return username;
+    }
+
+    public long userId(String username) {
+        return insert("SELECT id FROM app_user WHERE username = ?", username);
+    }
+
+    /** An API token of the laboratory; returns the secret. */
+    public String apiToken(long laboratoryId) {
+        String secret = "rt_" + Secrets.randomToken(32);
+        long creator = insert("INSERT INTO app_user (username, display_name, role, laboratory_id) VALUES (?, 'token creator', 'lab-manager', ?) RETURNING id",
+                unique("tokencreator"), laboratoryId);
+        insert("INSERT INTO api_token (laboratory_id, name, token_hash, token_prefix, created_by, created_at) VALUES (?, ?, ?, ?, ?, now()) RETURNING id",
+                laboratoryId, unique("token"), Secrets.sha256Hex(secret), secret.substring(0, 10), creator);
+        return secret;
+    }
+
+    public long apiTokenId(long laboratoryId) {
+        String secret = apiToken(laboratoryId);
+        return insert("SELECT id FROM api_token WHERE token_hash = ?", Secrets.sha256Hex(secret));
+    }
+
+    /** An active grant of {@code laboratoryId} to the auditor; returns the grant id. */
+    public long grant(long laboratoryId, String auditorUsername) {
+        long manager = insert("INSERT INTO app_user (username, display_name, role, laboratory_id) VALUES (?, 'grantor', 'lab-manager', ?) RETURNING id",
+                unique("grantor"), laboratoryId);
+        return insert("INSERT INTO auditor_grant (laboratory_id, auditor_id, granted_by, granted_at, valid_until) "
+                        + "VALUES (?, (SELECT id FROM app_user WHERE username = ?), ?, now(), now() + interval '30 days') RETURNING id",
+                laboratoryId, auditorUsername, manager);
+    }
+
+    /** Signs in through the sign-in form, as a browser would. */
+    public Browser signIn(String username) {
+        return signIn(username, PASSWORD);
+    }
+
+    public Browser signIn(String username, String password) {
+        Response form = given().get("/login");
+        String formCookie = form.getCookie("rt_form");
+        String token = csrfOf(form.asString());
+        Response login = given().redirects().follow(false)
+                .cookie("rt_form", formCookie)
+                .contentType("application/x-www-form-urlencoded")
+                .formParam("_csrf", token).formParam("username", username).formParam("password", password)
+                .post("/login");
+        if (login.statusCode() != 303) {
+            throw new IllegalStateException("sign-in of " + username + " failed with " + login.statusCode() + ": " + login.asString());
+        }
+        String session = login.getCookie("rt_session");
+        String csrf = csrfOf(given().cookie("rt_session", session).get("/account").asString());
+        return new Browser(username, session, csrf);
+    }
+
+    /** The anonymous form cookie and its CSRF token, as the sign-in page hands them out. */
+    public String[] anonymousForm() {
+        Response form = given().get("/login");
+        return new String[]{form.getCookie("rt_form"), csrfOf(form.asString())};
+    }
+
+    public static String csrfOf(String html) {
+        Matcher m = CSRF.matcher(html);
+        if (!m.find()) {
+            throw new IllegalStateException("no CSRF field in page");
+        }
+        return m.group(1);
+    }
+
+    public void sql(String sql, Object... params) {
+        try (Connection c = dataSource.getConnection(); PreparedStatement s = c.prepareStatement(sql)) {
+            bind(s, params);
+            s.execute();
+        } catch (SQLException e) {
+            throw new IllegalStateException(e);
+        }
+    }
+
+    public long insert(String sql, Object... params) {
+        try (Connection c = dataSource.getConnection(); PreparedStatement s = c.prepareStatement(sql)) {
+            bind(s, params);
+            try (ResultSet rs = s.executeQuery()) {
+                if (!rs.next()) {
+                    throw new IllegalStateException("no row from " + sql);
+                }
+                return rs.getLong(1);
+            }
+        } catch (SQLException e) {
+            throw new IllegalStateException(e);
+        }
+    }
+
+    private static void bind(PreparedStatement s, Object... params) throws SQLException {
+        for (int i = 0; i < params.length; i++) {
+            s.setObject(i + 1, params[i]);
+        }
+    }
+
+    /** Same scheme as Passwords: bcrypt over Base64(SHA-256(password)); cost 4 as in the test profile. */
+    private static String hash() {
+        if (passwordHash == null) {
+            passwordHash = BcryptUtil.bcryptHash(Base64.getEncoder().encodeToString(
+                    Secrets.sha256(PASSWORD.getBytes(StandardCharsets.UTF_8))), 4);
+        }
+        return passwordHash;
+    }
+
+    static {
+        RestAssured.enableLoggingOfRequestAndResponseIfValidationFails();
+    }
+}
