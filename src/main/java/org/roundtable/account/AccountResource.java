@@ -42,7 +42,7 @@ public class AccountResource {
     public record Me(String username, String displayName, String role, Long laboratoryId, boolean apiToken) {
     }
 
-    public record PasswordChange(@NotNull String currentPassword, @NotNull String newPassword) {
+    public record PasswordChange(String currentPassword, String newPassword) {
     }
 
     public record RoleChange(@NotBlank String role, Long laboratoryId) {
@@ -71,9 +71,13 @@ public class AccountResource {
     @POST
     @Path("/me/password")
     @Authenticated
-    public void changePassword(@Valid @NotNull PasswordChange change) {
+    public void changePassword(PasswordChange change) {
+        // checked before the body: an API token never changes a person's password
         if (currentUser.viaApiToken()) {
             throw new DomainException.Forbidden();
+        }
+        if (change == null) {
+            throw new DomainException.BadRequest("The current and the new password are required.");
         }
         accounts.changeOwnPassword(change.currentPassword(), change.newPassword());
     }

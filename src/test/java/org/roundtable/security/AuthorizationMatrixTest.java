@@ -1,0 +1,264 @@
+package org.roundtable.security;
+
+import io.quarkus.test.junit.QuarkusTest;
+import io.restassured.response.Response;
+import io.restassured.specification.RequestSpecification;
+import jakarta.inject.Inject;
+import org.junit.jupiter.api.BeforeEach;
+import org.junit.jupiter.api.Test;
+import org.roundtable.testing.World;
+
+import java.io.BufferedReader;
+import java.io.IOException;
+import java.io.InputStreamReader;
+import java.nio.charset.StandardCharsets;
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.Objects;
+import java.util.Set;
+import java.util.TreeSet;
+import java.util.function.Function;
+import java.util.stream.Collectors;
+
+import static io.restassured.RestAssured.given;
+import static org.assertj.core.api.Assertions.assertThat;
+
+/**
+ * Exercises every endpoint as every kind of caller — signed in through the real sign-in form, or with a
+ * real API token — against laboratory A's objects, and checks the answer against
+ * {@code security/authorization-matrix.csv} (ASVS v5.0.0-8.2.1, 8.2.2, 8.4.1; 3.5.x for CSRF).
+ */
+@QuarkusTest
+class AuthorizationMatrixTest {
+
+    static final List<String> CALLERS = List.of("anonymous", "admin", "coordinator", "manager-own", "manager-other",
+            "member-own", "member-other", "auditor-granted", "auditor-other", "token-own", "token-other");
+    static final String MISSING_ID = "987654321";
+
+    record Row(String method, String path, Map<String, String> expected) {
+        String key() {
+            return method + " " + path;
+        }
+    }
+
+    /** One caller: how to make its requests. */
+    record Caller(String name, Function<RequestSpecification, RequestSpecification> credentials, boolean session,
+                  String csrfToken) {
+    }
+
+    @Inject
+    World world;
+
+    private long labA;
+    private long labB;
+
+    @BeforeEach
+    void twoLaboratories() {
+        labA = world.laboratory();
+        labB = world.laboratory();
+    }
+
+    @Test
+    void everyEndpointDeclaresItsSecurityPolicy() {
+        List<String> undeclared = EndpointInventory.all().stream().filter(e -> !e.hasSecurityPolicy())
+                .map(EndpointInventory.Endpoint::key).toList();
+        assertThat(undeclared).as("endpoints without @RolesAllowed, @Authenticated, @PermitAll or @DenyAll").isEmpty();
+    }
+
+    @Test
+    void everyEndpointIsInTheMatrixAndTheMatrixNamesOnlyRealEndpoints() {
+        Set<String> inventory = EndpointInventory.all().stream().map(EndpointInventory.Endpoint::key)
+                .collect(Collectors.toCollection(TreeSet::new));
+        Set<String> matrix = rows().stream().map(Row::key).collect(Collectors.toCollection(TreeSet::new));
+        Set<String> missing = new TreeSet<>(inventory);
+        missing.removeAll(matrix);
+        Set<String> stale = new TreeSet<>(matrix);
+        stale.removeAll(inventory);
+        assertThat(missing).as("endpoints missing from security/authorization-matrix.csv").isEmpty();
+        assertThat(stale).as("matrix rows that name no endpoint").isEmpty();
+    }
+
+    @Test
+    void everyEndpointAnswersEveryCallerAsTheMatrixSays() {
+        List<String> failures = new ArrayList<>();
+        int cases = 0;
+        for (Row row : rows()) {
+            Map<String, Caller> callers = callers();
+            for (String callerName : CALLERS) {
+                cases++;
+                Caller caller = callers.get(callerName);
+                String expected = row.expected().get(callerName);
+                String path = resolve(row.path());
+                Response response = send(row, path, caller, true, null);
+                String problem = check(expected, response);
+                if (problem == null && expected.equals("hide")) {
+                    Response missing = send(row, withMissingIds(row.path()), caller, true, null);
+                    if (missing.statusCode() != 404 || !answer(missing).equals(answer(response))) {
+                        problem = "another laboratory's object and a missing one answer differently";
+                    }
+                }
+                if (problem != null) {
+                    failures.add(row.key() + " as " + callerName + ": expected " + expected + ", " + problem);
+                }
+            }
+        }
+        assertThat(failures).as("%d cases checked", cases).isEmpty();
+    }
+
+    @Test
+    void everyStateChangingEndpointRefusesRequestsWithoutTheCsrfTokenOrFromAnotherSite() {
+        List<String> failures = new ArrayList<>();
+        for (Row row : rows()) {
+            if (row.method().equals("GET")) {
+                continue;
+            }
+            Map<String, Caller> callers = callers();
+            // the first caller with a browser credential that the matrix lets through
+            Caller caller = CALLERS.stream().filter(c -> !c.startsWith("token"))
+                    .filter(c -> !Set.of("deny", "hide", "auth", "login").contains(row.expected().get(c)))
+                    .map(callers::get).findFirst().orElse(null);
+            if (caller == null) {
+                continue;
+            }
+            String path = resolve(row.path());
+            int withoutToken = send(row, path, caller, false, null).statusCode();
+            int foreignOrigin = send(row, path, caller, true, "https://elsewhere.example").statusCode();
+            if (withoutToken != 403) {
+                failures.add(row.key() + " as " + caller.name() + " without CSRF token answered " + withoutToken);
+            }
+            if (foreignOrigin != 403) {
+                failures.add(row.key() + " as " + caller.name() + " from a foreign origin answered " + foreignOrigin);
+            }
+        }
+        assertThat(failures).isEmpty();
+    }
+
+    private Response send(Row row, String path, Caller caller, boolean withCsrf, String origin) {
+        boolean api = path.startsWith("/api/");
+        RequestSpecification request = caller.credentials().apply(given().redirects().follow(false))
+                .accept(api ? "application/json, */*;q=0.5" : "text/html");
+        if (origin != null) {
+            request = request.header("Origin", origin);
+        }
+        if (row.method().equals("GET")) {
+            return request.get(path);
+        }
+        if (api) {
+            request = request.contentType("application/json").body("{}");
+            if (withCsrf && caller.csrfToken() != null) {
+                request = request.header("X-CSRF-Token", caller.csrfToken());
+            }
+        } else {
+            request = request.contentType("application/x-www-form-urlencoded").formParam("unused", "1");
+            if (withCsrf && caller.csrfToken() != null) {
+                request = request.formParam("_csrf", caller.csrfToken());
+            }
+        }
+        return request.request(row.method(), path);
+    }
+
+    /** What a caller learns from an answer: the body without the per-request reference. */
+    private static String answer(Response response) {
+        return response.asString().replaceAll("[0-9a-f]{24}", "<request>");
+    }
+
+    private static String check(String expected, Response response) {
+        int status = response.statusCode();
+        if (status >= 500) {
+            return "got " + status + ": " + response.asString();
+        }
+        return switch (expected) {
+            case "ok" -> Set.of(401, 403, 404).contains(status) ? "got " + status : null;
+            case "deny" -> status == 403 ? null : "got " + status;
+            case "hide" -> status == 404 ? null : "got " + status;
+            case "auth" -> status == 401 ? null : "got " + status;
+            case "login" -> status == 303 && response.header("Location").contains("/login") ? null : "got " + status;
+            default -> Integer.parseInt(expected) == status ? null : "got " + status;
+        };
+    }
+
+    /** Fresh callers for each endpoint, so that one endpoint's effect (a sign-out, a disabled user) never leaks. */
+    private Map<String, Caller> callers() {
+        Map<String, Caller> callers = new LinkedHashMap<>();
+        String[] form = world.anonymousForm();
+        callers.put("anonymous", new Caller("anonymous", r -> r.cookie("rt_form", form[0]), false, form[1]));
+        callers.put("admin", session("admin", world.user("admin", null)));
+        callers.put("coordinator", session("coordinator", world.user("coordinator", null)));
+        callers.put("manager-own", session("manager-own", world.user("lab-manager", labA)));
+        callers.put("manager-other", session("manager-other", world.user("lab-manager", labB)));
+        callers.put("member-own", session("member-own", world.user("lab-member", labA)));
+        callers.put("member-other", session("member-other", world.user("lab-member", labB)));
+        String granted = world.user("auditor", null);
+        world.grant(labA, granted);
+        callers.put("auditor-granted", session("auditor-granted", granted));
+        callers.put("auditor-other", session("auditor-other", world.user("auditor", null)));
+        String ownToken = world.apiToken(labA);
+        String otherToken = world.apiToken(labB);
+        callers.put("token-own", new Caller("token-own", r -> r.header("Authorization", "Bearer " + ownToken), false, null));
+        callers.put("token-other", new Caller("token-other", r -> r.header("Authorization", "Bearer " + otherToken), false, null));
+        return callers;
+    }
+
+    private Caller session(String name, String username) {
+        World.Browser browser = world.signIn(username);
+        return new Caller(name, r -> r.cookie("rt_session", browser.sessionCookie()), true, browser.csrfToken());
+    }
+
+    /** Fills a path's placeholders with fresh objects of laboratory A. */
+    private String resolve(String path) {
+        String resolved = path;
+        if (resolved.contains("{laboratoryId}")) {
+            resolved = resolved.replace("{laboratoryId}", Long.toString(labA));
+        }
+        if (resolved.contains("{userId}")) {
+            resolved = resolved.replace("{userId}", Long.toString(world.userId(world.user("lab-member", labA))));
+        }
+        if (resolved.contains("{tokenId}")) {
+            resolved = resolved.replace("{tokenId}", Long.toString(world.apiTokenId(labA)));
+        }
+        if (resolved.contains("{grantId}")) {
+            resolved = resolved.replace("{grantId}", Long.toString(world.grant(labA, world.user("auditor", null))));
+        }
+        if (resolved.contains("{")) {
+            throw new IllegalStateException("no resolver for a placeholder in " + path + "; add one to AuthorizationMatrixTest");
+        }
+        return resolved;
+    }
+
+    private static String withMissingIds(String path) {
+        return path.replaceAll("\\{[A-Za-z]+Id}", MISSING_ID);
+    }
+
+    static List<Row> rows() {
+        List<Row> rows = new ArrayList<>();
+        try (var in = AuthorizationMatrixTest.class.getResourceAsStream("/security/authorization-matrix.csv");
+             var reader = new BufferedReader(new InputStreamReader(Objects.requireNonNull(in), StandardCharsets.UTF_8))) {
+            String line;
+            boolean header = true;
+            while ((line = reader.readLine()) != null) {
+                if (line.isBlank() || line.startsWith("#")) {
+                    continue;
+                }
+                String[] cells = line.split(",", -1);
+                if (header) {
+                    assertThat(List.of(cells).subList(2, cells.length)).isEqualTo(CALLERS);
+                    header = false;
+                    continue;
+                }
+                if (cells.length != CALLERS.size() + 2) {
+                    throw new IllegalStateException("matrix row has " + cells.length + " cells: " + line);
+                }
+                Map<String, String> expected = new LinkedHashMap<>();
+                for (int i = 0; i < CALLERS.size(); i++) {
+                    expected.put(CALLERS.get(i), cells[i + 2].strip());
+                }
+                rows.add(new Row(cells[0].strip(), cells[1].strip(), expected));
+            }
+        } catch (IOException e) {
+            throw new IllegalStateException(e);
+        }
+        return rows;
+    }
+}
