@@ -102,15 +102,15 @@ public final class NistStrdFile {
                     String[] t = trimmed.split("\\s+");
                     groups.computeIfAbsent(t[0], k -> new ArrayList<>()).add(Double.parseDouble(t[1]));
                 }
-            } else if (trimmed.startsWith("Between Treatment")) {
-                between = trimmed.substring("Between Treatment".length()).trim().split("\\s+");
-            } else if (trimmed.startsWith("Within Treatment")) {
-                within = trimmed.substring("Within Treatment".length()).trim().split("\\s+");
+            } else if (trimmed.startsWith("Between ")) {
+                between = afterTwoWords(trimmed);
+            } else if (trimmed.startsWith("Within ")) {
+                within = afterTwoWords(trimmed);
             } else if (trimmed.startsWith("Certified R-Squared")) {
                 rSquared = lastNumber(trimmed);
             } else if (trimmed.startsWith("Standard Deviation")) {
                 residualSd = lastNumber(trimmed);
-            } else if (trimmed.startsWith("Data:") && trimmed.contains("Treatment")) {
+            } else if (trimmed.startsWith("Data:") && between != null) {
                 inData = true;
             }
         }
@@ -121,6 +121,11 @@ public final class NistStrdFile {
                 Double.parseDouble(between[1]), Double.parseDouble(within[1]),
                 Double.parseDouble(between[2]), Double.parseDouble(within[2]),
                 Double.parseDouble(between[3]), rSquared, residualSd);
+    }
+
+    private static String[] afterTwoWords(String line) {
+        String[] t = line.split("\\s+");
+        return java.util.Arrays.copyOfRange(t, 2, t.length);
     }
 
     /**

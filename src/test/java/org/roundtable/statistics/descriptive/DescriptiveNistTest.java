@@ -18,22 +18,24 @@ import org.roundtable.statistics.NistStrdFile;
  */
 class DescriptiveNistTest {
 
-    /** file, minimum LRE for mean, SD and r(1) (NIST difficulty: lower/average/higher). */
+    /**
+     * file, minimum LRE for mean, SD and r(1). Measured: mean 15 everywhere; SD Lew/Lottery/NumAcc1
+     * 15, Michelso 13.9, Mavro 13.1, NumAcc2 14.2, NumAcc3 9.5, NumAcc4 8.3 (1000000.1 and
+     * 10000000.1 are not representable in binary); r(1) at least 13.4.
+     */
     static Stream<Arguments> files() {
         return Stream.of(
-                // lower difficulty: 12 digits (tolerance rel 1e-12)
-                Arguments.of("Michelso", 12.0, 12.0, 12.0),
-                Arguments.of("Lew", 12.0, 12.0, 12.0),
-                Arguments.of("Lottery", 12.0, 12.0, 12.0),
-                // lower difficulty but 4 constant leading digits: rel 1e-10
-                Arguments.of("Mavro", 12.0, 10.0, 10.0),
-                Arguments.of("NumAcc1", 12.0, 12.0, 12.0),
-                // average difficulty: rel 1e-10
-                Arguments.of("NumAcc2", 12.0, 10.0, 10.0),
-                // average difficulty, 1000000.1 not representable: rel 1e-8 on s
-                Arguments.of("NumAcc3", 12.0, 8.0, 8.0),
-                // higher difficulty, 10000000.1 not representable: rel 1e-7 on s
-                Arguments.of("NumAcc4", 12.0, 7.0, 7.0));
+                // lower difficulty
+                Arguments.of("Michelso", 14.0, 13.5, 13.0),
+                Arguments.of("Lew", 14.0, 14.0, 14.0),
+                Arguments.of("Lottery", 14.0, 14.0, 14.0),
+                Arguments.of("Mavro", 14.0, 13.0, 13.0),
+                Arguments.of("NumAcc1", 14.0, 14.0, 14.0),
+                // average difficulty
+                Arguments.of("NumAcc2", 14.0, 14.0, 14.0),
+                Arguments.of("NumAcc3", 14.0, 9.0, 14.0),
+                // higher difficulty
+                Arguments.of("NumAcc4", 14.0, 8.0, 14.0));
     }
 
     @ParameterizedTest(name = "{0}: mean, SD and r(1) agree with NIST to at least {1}/{2}/{3} digits")
