@@ -7,7 +7,7 @@ import java.util.List;
 import org.junit.jupiter.api.Test;
 
 /**
- * Gaussian kernel density against R 4.x (Debian r-base-core), {@code density(x, bw = "nrd0",
+ * Gaussian kernel density against R 4.2.2 (Debian r-base-core), {@code density(x, bw = "nrd0",
  * kernel = "gaussian")}. R's density() bins the data and uses an FFT, so its values differ from
  * the exact sum by about 1e-3 relative; the exact sum is checked against R's
  * {@code mean(dnorm(t, x, bw.nrd0(x)))}.
