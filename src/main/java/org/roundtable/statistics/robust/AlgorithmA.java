@@ -205,29 +205,44 @@ public final class AlgorithmA {
                     + " must not be scored against it"));
             return new Result(x, 0, p, 0, false, false, stoppingRule, warnings);
         }
+        // Numerical choice: the data are sorted, so the unclipped values of an iteration form one
+        // contiguous run [a, b). Cumulative sums of the values centred on the median,
+        // c_i = x_(i) - median (exact differences for nearby doubles), anchored at the middle
+        // index (cum[mid] = 0), give the winsorised sums in O(log p) per iteration as
+        // cum[b] - cum[a]; anchoring at the middle keeps far outliers out of both terms, so no
+        // digits cancel. The sum of squares about the new x* is sum (w - m)^2 - p (x* - m)^2:
+        // both terms are centred on the median, which lies within a fraction of s* of x*.
+        double centre = x;
+        int mid = p / 2;
+        double[] cum = new double[p + 1];
+        double[] cumSquares = new double[p + 1];
+        for (int i = mid; i < p; i++) {
+            double c = sorted[i] - centre;
+            cum[i + 1] = cum[i] + c;
+            cumSquares[i + 1] = cumSquares[i] + c * c;
+        }
+        for (int i = mid - 1; i >= 0; i--) {
+            double c = sorted[i] - centre;
+            cum[i] = cum[i + 1] - c;
+            cumSquares[i] = cumSquares[i + 1] - c * c;
+        }
         int iterations = 0;
         boolean converged = false;
         while (iterations < maxIterations) {
             double delta = HUBER_K * s;
             double low = x - delta;
             double high = x + delta;
-            // pass 1: mean of winsorised values, shifted by the old x* for accuracy
-            double sum = 0;
-            for (double v : sorted) {
-                double w = v < low ? low : (v > high ? high : v);
-                sum += w - x;
-            }
-            double newX = x + sum / p;
-            // pass 2: sum of squares about the new x* (corrected two-pass)
-            double ss = 0;
-            double residual = 0;
-            for (double v : sorted) {
-                double w = v < low ? low : (v > high ? high : v);
-                double d = w - newX;
-                ss += d * d;
-                residual += d;
-            }
-            ss = Math.max(0, ss - residual * residual / p);
+            int lowCount = firstIndexNotBelow(sorted, low);
+            int highStart = firstIndexAbove(sorted, high);
+            int highCount = p - highStart;
+            double lowDev = low - centre;
+            double highDev = high - centre;
+            double sum = lowCount * lowDev + (cum[highStart] - cum[lowCount]) + highCount * highDev;
+            double squares = lowCount * lowDev * lowDev
+                    + (cumSquares[highStart] - cumSquares[lowCount]) + highCount * highDev * highDev;
+            double shift = sum / p;
+            double newX = centre + shift;
+            double ss = Math.max(0, squares - p * shift * shift);
             double newS = SD_FACTOR * Math.sqrt(ss / (p - 1));
             iterations++;
             boolean stop = stoppingRule == StoppingRule.FULL_CONVERGENCE
@@ -245,6 +260,36 @@ public final class AlgorithmA {
                     + maxIterations + " iterations"));
         }
         return new Result(x, s, p, iterations, converged, true, stoppingRule, warnings);
+    }
+
+    /** Number of sorted values strictly below {@code key}. */
+    private static int firstIndexNotBelow(double[] sorted, double key) {
+        int lo = 0;
+        int hi = sorted.length;
+        while (lo < hi) {
+            int mid = (lo + hi) >>> 1;
+            if (sorted[mid] < key) {
+                lo = mid + 1;
+            } else {
+                hi = mid;
+            }
+        }
+        return lo;
+    }
+
+    /** Index of the first sorted value strictly above {@code key}. */
+    private static int firstIndexAbove(double[] sorted, double key) {
+        int lo = 0;
+        int hi = sorted.length;
+        while (lo < hi) {
+            int mid = (lo + hi) >>> 1;
+            if (sorted[mid] <= key) {
+                lo = mid + 1;
+            } else {
+                hi = mid;
+            }
+        }
+        return lo;
     }
 
     /**

@@ -96,6 +96,21 @@ class RobustPropertiesTest {
         assertTrue(p >= 10);
     }
 
+    @Property(tries = 200, seed = "4718")
+    void aHugeLowOutlierDoesNotSpoilTheSums(@ForAll("samples") double[] x,
+            @ForAll @DoubleRange(min = 1e6, max = 1e12) double wild) {
+        AlgorithmA.Result clean = AlgorithmA.fullConvergence().evaluate(Arrays.copyOfRange(x, 1, x.length));
+        double[] y = x.clone();
+        y[0] = -wild;
+        double[] z = x.clone();
+        z[0] = -1000;
+        // the result must not depend on how far away the clipped value is
+        AlgorithmA.Result far = AlgorithmA.fullConvergence().evaluate(y);
+        AlgorithmA.Result near = AlgorithmA.fullConvergence().evaluate(z);
+        assertEquals(near.robustMean(), far.robustMean(), 1e-9 * clean.robustSd());
+        assertEquals(near.robustSd(), far.robustSd(), 1e-9 * clean.robustSd());
+    }
+
     @Property(tries = 200, seed = "4715")
     void zScoresDoNotDependOnTheUnit(@ForAll @DoubleRange(min = 0.001, max = 100) @Scale(6) double result,
             @ForAll @DoubleRange(min = 0.001, max = 100) @Scale(6) double assigned,
