@@ -50,34 +50,46 @@ public final class ScaledMad {
     }
 
     /**
-     * MAD of sorted values about the given median, in O(p): the absolute deviations below and
-     * above the median form two sorted runs, merged until the middle is reached.
+     * MAD of sorted values about the given median, in O(log² p): the absolute deviations below
+     * and above the median form two sorted runs (read outwards from the median), and the middle
+     * order statistic(s) of their union are found by binary search, without building them.
      */
     public static double madOfSorted(double[] sorted, double median) {
         int p = sorted.length;
-        // split: left run = indices < split (deviations increase going left), right run >= split
         int split = lowerBound(sorted, median);
-        int left = split - 1;
-        int right = split;
         int lowRank = (p - 1) / 2;
         int highRank = p / 2;
-        double lowValue = 0;
-        double current = 0;
-        for (int rank = 0; rank <= highRank; rank++) {
-            double dl = left >= 0 ? median - sorted[left] : Double.POSITIVE_INFINITY;
-            double dr = right < p ? sorted[right] - median : Double.POSITIVE_INFINITY;
-            if (dl <= dr) {
-                current = dl;
-                left--;
+        double low = kthDeviation(sorted, median, split, lowRank);
+        double high = lowRank == highRank ? low : kthDeviation(sorted, median, split, highRank);
+        return low + (high - low) / 2;
+    }
+
+    /**
+     * The k-th smallest (0-based) of the deviations {@code median - sorted[split-1-j]} (j &lt; split)
+     * and {@code sorted[split+j] - median} (j &lt; p - split): binary search on how many come
+     * from the left run.
+     */
+    private static double kthDeviation(double[] sorted, double median, int split, int k) {
+        int leftSize = split;
+        int rightSize = sorted.length - split;
+        // i = number taken from the left run, k + 1 - i from the right run
+        int lo = Math.max(0, k + 1 - rightSize);
+        int hi = Math.min(k + 1, leftSize);
+        while (lo < hi) {
+            int i = (lo + hi) >>> 1;
+            int j = k + 1 - i;
+            // left[i] < right[j - 1] means more must come from the left run
+            if (median - sorted[split - 1 - i] < sorted[split + j - 1] - median) {
+                lo = i + 1;
             } else {
-                current = dr;
-                right++;
-            }
-            if (rank == lowRank) {
-                lowValue = current;
+                hi = i;
             }
         }
-        return lowValue + (current - lowValue) / 2;
+        int i = lo;
+        int j = k + 1 - i;
+        double a = i > 0 ? median - sorted[split - i] : Double.NEGATIVE_INFINITY;
+        double b = j > 0 ? sorted[split + j - 1] - median : Double.NEGATIVE_INFINITY;
+        return Math.max(a, b);
     }
 
     private static int lowerBound(double[] sorted, double key) {

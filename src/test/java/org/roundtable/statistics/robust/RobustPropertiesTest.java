@@ -111,6 +111,19 @@ class RobustPropertiesTest {
         assertEquals(near.robustSd(), far.robustSd(), 1e-9 * clean.robustSd());
     }
 
+    @Property(tries = 500, seed = "4719")
+    void madEqualsTheMedianOfAbsoluteDeviationsComputedNaively(@ForAll("lumpy") double[] x) {
+        double m = Median.of(x);
+        double[] dev = Arrays.stream(x).map(v -> Math.abs(v - m)).toArray();
+        assertEquals(Median.of(dev), ScaledMad.mad(x), 0.0);
+    }
+
+    /** Small integer-valued samples with many ties, 1 to 30 values. */
+    @Provide
+    Arbitrary<double[]> lumpy() {
+        return Arbitraries.integers().between(-5, 5).map(i -> (double) i).array(double[].class).ofMinSize(1).ofMaxSize(30);
+    }
+
     @Property(tries = 200, seed = "4715")
     void zScoresDoNotDependOnTheUnit(@ForAll @DoubleRange(min = 0.001, max = 100) @Scale(6) double result,
             @ForAll @DoubleRange(min = 0.001, max = 100) @Scale(6) double assigned,
