@@ -18,12 +18,18 @@ public final class CensoredResult {
 
     /** Consistency of a less-than result. */
     public enum Consistency {
-        CONSISTENT,
-        INCONSISTENT;
+        CONSISTENT("consistent"),
+        INCONSISTENT("inconsistent");
+
+        private final String word;
+
+        Consistency(String word) {
+            this.word = word;
+        }
 
         /** Lower-case word used in JSON and reports. */
         public String word() {
-            return name().toLowerCase(java.util.Locale.ROOT);
+            return word;
         }
     }
 

@@ -7,12 +7,18 @@ package org.roundtable.statistics.score;
  * calls the same bands acceptable / warning signal / action signal.
  */
 public enum Classification {
-    SATISFACTORY,
-    QUESTIONABLE,
-    UNSATISFACTORY;
+    SATISFACTORY("satisfactory"),
+    QUESTIONABLE("questionable"),
+    UNSATISFACTORY("unsatisfactory");
+
+    private final String word;
+
+    Classification(String word) {
+        this.word = word;
+    }
 
     /** Lower-case word used in JSON and reports. */
     public String word() {
-        return name().toLowerCase(java.util.Locale.ROOT);
+        return word;
     }
 }
