@@ -1,0 +1,285 @@
+package org.roundtable.statistics;
+
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.List;
+import java.util.Locale;
+import java.util.Objects;
+import org.roundtable.statistics.density.KernelDensity;
+import org.roundtable.statistics.robust.AlgorithmA;
+import org.roundtable.statistics.robust.Median;
+import org.roundtable.statistics.robust.NormalizedIqr;
+import org.roundtable.statistics.robust.QuartileRule;
+import org.roundtable.statistics.robust.ScaledMad;
+import org.roundtable.statistics.score.CensoredResult;
+import org.roundtable.statistics.score.ScoreKind;
+import org.roundtable.statistics.score.ScoreSelection;
+import org.roundtable.statistics.score.Scores;
+
+/**
+ * Evaluates one measurand of a round: robust statistics, assigned value, σ_pt and the scores of
+ * every participant. The offline {@code evaluate} command and the server's round evaluation
+ * both call this class, so they give the same numbers.
+ *
+ * <p>Definition (the plan choices are the input's nullable fields):
+ * <ol>
+ * <li>Censored ("less than") results are set aside: not used in any statistic, not scored,
+ * classified consistent/inconsistent with the assigned value ({@link CensoredResult}).</li>
+ * <li>On the remaining p values: median, MADe, nIQR (Hyndman–Fan type 7 quartiles) and
+ * Algorithm A (full convergence, 1e-10·s*).</li>
+ * <li>Assigned value x_pt: the given value with {@code u(x_pt) = U/2}, else the Algorithm A
+ * robust mean x* of all non-censored results whatever their method, with
+ * {@code u(x_pt) = 1.25·s* / sqrt(p)}.</li>
+ * <li>σ_pt: the given value, else s* (data-derived, warned).</li>
+ * <li>z or z′ is chosen by {@code u(x_pt) ≤ 0.3·σ_pt} ({@link ScoreSelection}); both are
+ * reported, the chosen one classifies. ζ uses {@code u(x_i) = U_i/k_i} (k = 2 when absent) and
+ * u(x_pt); En uses U_i as reported and {@code U(x_pt) = 2·u(x_pt)}.</li>
+ * </ol>
+ *
+ * <p>Special cases and policy (computes what it can, warns, never refuses valid input):
+ * fewer than 10 values ({@code few-participants}); p &lt; 2 (no Algorithm A, no consensus);
+ * MADe = 0 ({@code zero-spread}: no robust SD, no consensus value, no data-derived σ_pt, so no
+ * scores unless both x_pt and σ_pt are given); more than one density mode ({@code multimodal});
+ * more than 20 % censored ({@code censored-share}); a consensus x_pt with ζ/En
+ * ({@code zeta-en-biased}). Undefined numbers are {@code null}.
+ *
+ * <p>References: ISO 13528:2015 clauses 7 (assigned value, 7.7 consensus), 8 (σ_pt), 9
+ * (scores), Annex C (robust statistics); ISO Guide 35:2017 B.5.1 c) (at least 10 values).
+ */
+public final class MeasurandEvaluation {
+
+    /** Results below this count get a {@code few-participants} warning. */
+    public static final int MINIMUM_PARTICIPANTS = AlgorithmA.RECOMMENDED_MINIMUM;
+    /** A censored share above this gets a {@code censored-share} warning (our choice, no source). */
+    public static final double LARGE_CENSORED_SHARE = 0.2;
+    /** Coverage factor assumed when a participant gives U without k, and of a given U(x_pt). */
+    public static final double DEFAULT_COVERAGE_FACTOR = 2.0;
+
+    /**
+     * One participant's result for the measurand.
+     *
+     * @param participant         participant code
+     * @param reported            the result as written (e.g. {@code "0.742"} or {@code "<0.001"})
+     * @param value               the number; for a less-than result the limit X
+     * @param lessThan            true for a censored result {@code <X}
+     * @param expandedUncertainty U, or null
+     * @param coverageFactor      k, or null (then 2)
+     * @param method              method name, or null (not used by the statistics)
+     */
+    public record ParticipantResult(String participant, String reported, double value,
+            boolean lessThan, Double expandedUncertainty, Double coverageFactor, String method) {
+
+        public ParticipantResult {
+            Objects.requireNonNull(participant, "participant");
+            Objects.requireNonNull(reported, "reported");
+            Checks.requireFinite(value, "value of " + participant);
+        }
+    }
+
+    /**
+     * What to evaluate and the plan's choices.
+     *
+     * @param measurand                   measurand name
+     * @param unit                        unit of all values
+     * @param results                     results in report order
+     * @param assignedValue               x_pt if set by the plan, else null (consensus)
+     * @param assignedExpandedUncertainty U(x_pt) at k = 2 for a given x_pt, else null (0)
+     * @param sigmaPt                     σ_pt if set by the plan, else null (robust SD)
+     */
+    public record Input(String measurand, String unit, List<ParticipantResult> results,
+            Double assignedValue, Double assignedExpandedUncertainty, Double sigmaPt) {
+
+        public Input {
+            Objects.requireNonNull(measurand, "measurand");
+            results = List.copyOf(results);
+            if (assignedValue != null) {
+                Checks.requireFinite(assignedValue, "assigned value");
+            }
+            if (assignedExpandedUncertainty != null && !(assignedExpandedUncertainty >= 0
+                    && Double.isFinite(assignedExpandedUncertainty))) {
+                throw new IllegalArgumentException("U(x_pt) must be a finite number >= 0");
+            }
+            if (sigmaPt != null) {
+                Checks.requirePositive(sigmaPt, "sigma_pt");
+            }
+        }
+    }
+
+    /** Where x_pt came from. */
+    public enum AssignedValueSource { GIVEN, ALGORITHM_A }
+
+    /** Where σ_pt came from. */
+    public enum SigmaPtSource { GIVEN, ROBUST_SD }
+
+    /**
+     * Scores of one participant (null = not scored).
+     *
+     * @param classification satisfactory/questionable/unsatisfactory from the score used;
+     *                       consistent/inconsistent for a less-than result; null if unscored
+     */
+    public record ParticipantScore(String participant, String reported, Double value, Double z,
+            Double zPrime, Double zeta, Double en, String classification) {
+    }
+
+    /**
+     * Outcome for one measurand; null marks a number that could not be computed.
+     */
+    public record Result(String measurand, String unit, int n, int censored, Double median,
+            Double madE, Double nIqr, Double robustMean, Double robustSd, Integer iterations,
+            Boolean converged, Double assignedValue, Double assignedValueUncertainty,
+            AssignedValueSource assignedValueSource, Double sigmaPt, SigmaPtSource sigmaPtSource,
+            ScoreKind scoreUsed, String scoreUsedReason, QuartileRule quartileRule,
+            AlgorithmA.StoppingRule stoppingRule, List<StatisticsWarning> warnings,
+            List<ParticipantScore> scores) {
+
+        public Result {
+            warnings = List.copyOf(warnings);
+            scores = List.copyOf(scores);
+        }
+    }
+
+    private MeasurandEvaluation() {
+    }
+
+    /** Evaluates the measurand (see class comment). */
+    public static Result evaluate(Input input) {
+        List<StatisticsWarning> warnings = new ArrayList<>();
+        List<ParticipantResult> results = input.results();
+        double[] values = results.stream().filter(r -> !r.lessThan()).mapToDouble(ParticipantResult::value).toArray();
+        int p = values.length;
+        int censored = results.size() - p;
+        double[] sorted = values.clone();
+        Arrays.sort(sorted);
+
+        if (p < MINIMUM_PARTICIPANTS) {
+            warnings.add(new StatisticsWarning("few-participants", p + " results used: robust"
+                    + " statistics are unreliable below " + MINIMUM_PARTICIPANTS
+                    + " values (ISO Guide 35:2017, B.5.1 c); prefer an independent assigned value"));
+        }
+        if (!results.isEmpty() && (double) censored / results.size() > LARGE_CENSORED_SHARE) {
+            warnings.add(new StatisticsWarning("censored-share", String.format(Locale.ROOT,
+                    "%d of %d results are 'less than' values (%.0f %%): they are left out of the"
+                    + " statistics, which may then be biased high", censored, results.size(),
+                    100.0 * censored / results.size())));
+        }
+
+        Double median = null;
+        Double madE = null;
+        Double nIqr = null;
+        if (p >= 1) {
+            median = Median.ofSorted(sorted);
+            madE = ScaledMad.MADE_FACTOR * ScaledMad.madOfSorted(sorted, median);
+            nIqr = NormalizedIqr.ofSorted(sorted, QuartileRule.DEFAULT);
+        }
+        AlgorithmA.Result a = null;
+        if (p >= 2) {
+            a = AlgorithmA.fullConvergence().evaluateSorted(sorted);
+            for (StatisticsWarning w : a.warnings()) {
+                if (!w.code().equals("too-few-values")) {
+                    warnings.add(w);
+                }
+            }
+        } else {
+            warnings.add(new StatisticsWarning("too-few-values", "Algorithm A needs at least 2"
+                    + " results, " + p + " available"));
+        }
+        boolean scale = a != null && a.scaleEstimable();
+        Double robustMean = scale ? a.robustMean() : null;
+        Double robustSd = scale ? a.robustSd() : null;
+
+        Double xpt = null;
+        Double uxpt = null;
+        AssignedValueSource xptSource = null;
+        if (input.assignedValue() != null) {
+            xpt = input.assignedValue();
+            double bigU = input.assignedExpandedUncertainty() == null ? 0 : input.assignedExpandedUncertainty();
+            uxpt = bigU / DEFAULT_COVERAGE_FACTOR;
+            xptSource = AssignedValueSource.GIVEN;
+        } else if (scale) {
+            xpt = a.robustMean();
+            uxpt = a.assignedValueUncertainty();
+            xptSource = AssignedValueSource.ALGORITHM_A;
+        } else {
+            warnings.add(new StatisticsWarning("no-assigned-value", "No assigned value: none was"
+                    + " given and no robust mean with a usable spread could be computed; not scored"));
+        }
+
+        Double sigma = null;
+        SigmaPtSource sigmaSource = null;
+        if (input.sigmaPt() != null) {
+            sigma = input.sigmaPt();
+            sigmaSource = SigmaPtSource.GIVEN;
+        } else if (scale) {
+            sigma = a.robustSd();
+            sigmaSource = SigmaPtSource.ROBUST_SD;
+            warnings.add(new StatisticsWarning("sigma-pt-data-derived", "sigma_pt is the robust"
+                    + " SD of this round's results (data-derived): z-scores only rank participants"
+                    + " against each other, they do not judge fitness for purpose"));
+        } else {
+            warnings.add(new StatisticsWarning("no-sigma-pt", "No sigma_pt: none was given and no"
+                    + " robust SD could be computed; z and z' not scored"));
+        }
+
+        ScoreKind used = null;
+        String usedReason = null;
+        if (sigma != null && uxpt != null) {
+            ScoreSelection.Choice choice = ScoreSelection.choose(uxpt, sigma);
+            used = choice.kind();
+            usedReason = choice.reason();
+        }
+
+        if (p >= 3 && scale) {
+            int modes = KernelDensity.of(values).modes().size();
+            if (modes > 1) {
+                warnings.add(new StatisticsWarning("multimodal", String.format(Locale.ROOT,
+                        "The kernel density of the results has %d modes (Gaussian kernel, Silverman"
+                        + " bandwidth, modes above %.0f %% of the highest): results may come from"
+                        + " more than one population (e.g. methods); investigate before relying on"
+                        + " the consensus", modes, 100 * KernelDensity.DEFAULT_RELATIVE_HEIGHT)));
+            }
+        }
+
+        List<ParticipantScore> scores = new ArrayList<>(results.size());
+        boolean anyUncertaintyScore = false;
+        for (ParticipantResult r : results) {
+            if (r.lessThan()) {
+                String cls = xpt == null ? null : CensoredResult.classifyLessThan(r.value(), xpt).word();
+                scores.add(new ParticipantScore(r.participant(), r.reported(), null, null, null, null, null, cls));
+                continue;
+            }
+            double x = r.value();
+            Double z = null;
+            Double zPrime = null;
+            Double zeta = null;
+            Double en = null;
+            if (xpt != null) {
+                if (sigma != null) {
+                    z = box(Scores.z(x, xpt, sigma));
+                    zPrime = box(Scores.zPrime(x, xpt, sigma, uxpt));
+                }
+                if (r.expandedUncertainty() != null) {
+                    double k = r.coverageFactor() == null ? DEFAULT_COVERAGE_FACTOR : r.coverageFactor();
+                    zeta = box(Scores.zeta(x, xpt, r.expandedUncertainty() / k, uxpt));
+                    en = box(Scores.en(x, xpt, r.expandedUncertainty(), DEFAULT_COVERAGE_FACTOR * uxpt));
+                    anyUncertaintyScore |= zeta != null || en != null;
+                }
+            }
+            Double chosen = used == ScoreKind.Z ? z : used == ScoreKind.Z_PRIME ? zPrime : null;
+            String cls = chosen == null ? null : Scores.classifyZ(chosen).word();
+            scores.add(new ParticipantScore(r.participant(), r.reported(), x, z, zPrime, zeta, en, cls));
+        }
+        if (anyUncertaintyScore && xptSource == AssignedValueSource.ALGORITHM_A) {
+            warnings.add(new StatisticsWarning("zeta-en-biased", "The assigned value is a consensus"
+                    + " that includes each participant's own result: zeta and En are biased towards"
+                    + " zero (ISO 13528:2015, clause 9)"));
+        }
+        return new Result(input.measurand(), input.unit(), p, censored, median, madE, nIqr,
+                robustMean, robustSd, a == null ? null : a.iterations(), a == null ? null : a.converged(),
+                xpt, uxpt, xptSource, sigma, sigmaSource, used, usedReason, QuartileRule.DEFAULT,
+                AlgorithmA.StoppingRule.FULL_CONVERGENCE, warnings, scores);
+    }
+
+    private static Double box(java.util.OptionalDouble value) {
+        return value.isPresent() ? value.getAsDouble() : null;
+    }
+}

@@ -1,0 +1,178 @@
+package org.roundtable.evaluation.offline;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import com.fasterxml.jackson.databind.JsonNode;
+import com.fasterxml.jackson.databind.ObjectMapper;
+import java.io.ByteArrayOutputStream;
+import java.io.IOException;
+import java.io.PrintStream;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+import org.junit.jupiter.params.ParameterizedTest;
+import org.junit.jupiter.params.provider.CsvSource;
+
+class EvaluateCommandTest {
+
+    static final String HEADER = "participant,measurand,unit,value,expanded_uncertainty,coverage_factor,method\n";
+
+    /** Mn in low-alloy steel, % m/m, p = 20: constructed demo data. */
+    static final double[] MANGANESE = {0.742, 0.751, 0.748, 0.739, 0.755, 0.746, 0.744, 0.750,
+        0.747, 0.741, 0.753, 0.745, 0.749, 0.738, 0.752, 0.743, 0.746, 0.790, 0.772, 0.748};
+
+    @TempDir
+    Path dir;
+
+    record Run(int exitCode, String out, String err) {
+        JsonNode json() throws IOException {
+            return new ObjectMapper().readTree(out);
+        }
+    }
+
+    Run run(String csv, String... options) throws IOException {
+        Path file = dir.resolve("results.csv");
+        Files.writeString(file, csv, StandardCharsets.UTF_8);
+        String[] args = new String[options.length + 1];
+        System.arraycopy(options, 0, args, 0, options.length);
+        args[options.length] = file.toString();
+        return runArgs(args);
+    }
+
+    static Run runArgs(String... args) {
+        ByteArrayOutputStream out = new ByteArrayOutputStream();
+        ByteArrayOutputStream err = new ByteArrayOutputStream();
+        int code = EvaluateCommand.run(args, new PrintStream(out, true, StandardCharsets.UTF_8),
+                new PrintStream(err, true, StandardCharsets.UTF_8));
+        return new Run(code, out.toString(StandardCharsets.UTF_8), err.toString(StandardCharsets.UTF_8));
+    }
+
+    static String manganeseCsv() {
+        StringBuilder sb = new StringBuilder(HEADER);
+        for (int i = 0; i < MANGANESE.length; i++) {
+            sb.append(String.format("L%02d,Mn,%% m/m,%s,0.008,2,OES%n", i + 1, MANGANESE[i]));
+        }
+        return sb.toString();
+    }
+
+    @Test
+    void evaluatesAManganeseRoundWithAGivenSigmaPt() throws IOException {
+        Run r = run(manganeseCsv() + "L21,Mn,% m/m,<0.5,,,OES\n", "--sigma-pt", "Mn=0.010");
+        assertEquals(0, r.exitCode(), r.err());
+        JsonNode m = r.json().get("measurands").get(0);
+        assertEquals("Mn", m.get("measurand").asText());
+        assertEquals("% m/m", m.get("unit").asText());
+        assertEquals(20, m.get("n").asInt());
+        assertEquals(1, m.get("censored").asInt());
+        // CALC: Algorithm A fixed point and u(x_pt) for the Mn data (Python and R, no published source)
+        assertEquals(0.7475547640, m.get("robustMean").asDouble(), 1e-9);
+        assertEquals(0.0062873256, m.get("robustSd").asDouble(), 1e-9);
+        assertEquals(0.0017573609, m.get("assignedValueUncertainty").asDouble(), 1e-9);
+        assertEquals(0.7475, m.get("median").asDouble(), 1e-12);
+        assertEquals(0.005932, m.get("madE").asDouble(), 1e-12);
+        assertEquals(0.00555975, m.get("nIqr").asDouble(), 1e-10);
+        assertEquals(28, m.get("iterations").asInt());
+        assertTrue(m.get("converged").asBoolean());
+        assertEquals(0.010, m.get("sigmaPt").asDouble(), 0.0);
+        assertEquals("given", m.get("sigmaPtSource").asText());
+        assertEquals("z", m.get("scoreUsed").asText());
+        JsonNode l19 = m.get("scores").get(18);
+        assertEquals("L19", l19.get("participant").asText());
+        assertEquals(2.444524, l19.get("z").asDouble(), 1e-6);
+        assertEquals("questionable", l19.get("classification").asText());
+        JsonNode censored = m.get("scores").get(20);
+        assertEquals("<0.5", censored.get("reported").asText());
+        assertTrue(censored.get("value").isNull());
+        assertTrue(censored.get("z").isNull());
+        assertEquals("inconsistent", censored.get("classification").asText());
+        assertTrue(m.get("warnings").toString().contains("zeta-en-biased"));
+    }
+
+    @Test
+    void assignedValueFromTheCommandLineIsUsedWithHalfItsExpandedUncertainty() throws IOException {
+        Run r = run(manganeseCsv(), "--assigned", "Mn=0.750:0.002", "--sigma-pt=Mn=0.010");
+        assertEquals(0, r.exitCode(), r.err());
+        JsonNode m = r.json().get("measurands").get(0);
+        assertEquals(0.750, m.get("assignedValue").asDouble(), 0.0);
+        assertEquals(0.001, m.get("assignedValueUncertainty").asDouble(), 1e-15);
+        assertEquals(-0.8, m.get("scores").get(0).get("z").asDouble(), 1e-9);
+    }
+
+    @Test
+    void withoutOptionsSigmaPtIsDataDerivedAndWarned() throws IOException {
+        Run r = run(manganeseCsv());
+        assertEquals(0, r.exitCode(), r.err());
+        JsonNode m = r.json().get("measurands").get(0);
+        assertEquals("robustSd", m.get("sigmaPtSource").asText());
+        assertTrue(m.get("warnings").toString().contains("sigma-pt-data-derived"));
+        assertTrue(r.err().contains("sigma-pt-data-derived"));
+    }
+
+    @Test
+    void measurandsAppearInInputOrderAndUnknownNumbersAreNull() throws IOException {
+        Run r = run("\uFEFF" + HEADER + "A,Zn,mg/kg,12,,,\nA,Cr,% m/m,18.1,0.1,,\n\"B\",Zn,mg/kg,13,,,\n");
+        assertEquals(0, r.exitCode(), r.err());
+        JsonNode ms = r.json().get("measurands");
+        assertEquals("Zn", ms.get(0).get("measurand").asText());
+        assertEquals("Cr", ms.get(1).get("measurand").asText());
+        JsonNode cr = ms.get(1);
+        assertTrue(cr.get("robustMean").isNull());
+        assertTrue(cr.get("iterations").isNull());
+        assertTrue(cr.get("scores").get(0).get("z").isNull());
+        assertTrue(cr.get("warnings").toString().contains("few-participants"));
+    }
+
+    @ParameterizedTest(name = "rejects {2}")
+    @CsvSource(delimiter = '|', value = {
+        "participant,measurand,unit,value,expanded_uncertainty,coverage_factor,method,colour\\nA,Mn,%,1,,,,red| row 1, column 8: unknown column 'colour'| an unknown column",
+        "participant,measurand,unit,value,expanded_uncertainty,coverage_factor\\nA,Mn,%,1,,| row 1: missing column 'method'| a missing column",
+        "HEADERA,Mn,%,1,,,\\nB,Mn,mg/kg,2,,,| row 3, column unit| mixed units",
+        "HEADERA,Mn,%,1,,,\\nA,Mn,%,2,,,| row 3, column participant: duplicate| a duplicate row",
+        "HEADERA,Mn,%,1\\,5,,,| row 2| a wrong field count",
+        "HEADERA,Mn,%,\"1,5\",,,| row 2, column value: '1,5' is not a number| a comma decimal",
+        "HEADERA,Mn,%,abc,,,| row 2, column value: 'abc'| a bad number",
+        "HEADERA,Mn,%,<,,,| row 2, column value| a bare less-than sign",
+        "HEADERA,Mn,%,NaN,,,| row 2, column value: 'NaN'| NaN",
+        "HEADERA,Mn,%,1,-0.1,,| row 2, column expanded_uncertainty| a negative uncertainty",
+        "HEADERA,Mn,%,1,0.1,0,| row 2, column coverage_factor| a zero coverage factor",
+        "HEADERA,,%,1,,,| row 2, column measurand: must not be empty| an empty measurand",
+        "| row 1: the file is empty| an empty file"})
+    void badInputExitsWithTwoAndNamesRowColumnAndReason(String csv, String expected, String what)
+            throws IOException {
+        String content = csv == null ? "" : csv.replace("HEADER", HEADER).replace("\\n", "\n").replace("\\,", ",");
+        Run r = run(content);
+        assertEquals(2, r.exitCode(), what + ": " + r.err());
+        assertTrue(r.err().contains(expected.trim()), what + ": " + r.err());
+        assertEquals("", r.out());
+    }
+
+    @Test
+    void badOptionsExitWithTwo() throws IOException {
+        assertEquals(2, run(manganeseCsv(), "--frobnicate").exitCode());
+        assertEquals(2, run(manganeseCsv(), "--sigma-pt", "Mn=abc").exitCode());
+        assertEquals(2, run(manganeseCsv(), "--sigma-pt", "Mn=-1").exitCode());
+        assertEquals(2, run(manganeseCsv(), "--sigma-pt", "Fe=0.1").exitCode());
+        assertEquals(2, run(manganeseCsv(), "--assigned", "Mn=0.75").exitCode());
+        assertEquals(2, run(manganeseCsv(), "--sigma-pt").exitCode());
+        assertEquals(2, runArgs().exitCode());
+    }
+
+    @Test
+    void anUnreadableFileExitsWithTwo() {
+        Run r = runArgs(dir.resolve("missing.csv").toString());
+        assertEquals(2, r.exitCode());
+        assertTrue(r.err().contains("cannot read file"), r.err());
+    }
+
+    @Test
+    void invalidUtf8ExitsWithTwo() throws IOException {
+        Path file = dir.resolve("latin1.csv");
+        Files.write(file, (HEADER + "A,Mn,%,1,,,Gie\u00dfen\n").getBytes(StandardCharsets.ISO_8859_1));
+        Run r = runArgs(file.toString());
+        assertEquals(2, r.exitCode());
+        assertTrue(r.err().contains("UTF-8"), r.err());
+    }
+}

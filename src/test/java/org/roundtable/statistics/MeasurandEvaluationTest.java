@@ -1,0 +1,149 @@
+package org.roundtable.statistics;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertNull;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.util.ArrayList;
+import java.util.List;
+import org.junit.jupiter.api.Test;
+import org.roundtable.statistics.MeasurandEvaluation.Input;
+import org.roundtable.statistics.MeasurandEvaluation.ParticipantResult;
+import org.roundtable.statistics.MeasurandEvaluation.Result;
+import org.roundtable.statistics.score.ScoreKind;
+
+class MeasurandEvaluationTest {
+
+    /** Mn in low-alloy steel, % m/m, p = 20: constructed demo data. */
+    static final double[] MANGANESE = {0.742, 0.751, 0.748, 0.739, 0.755, 0.746, 0.744, 0.750,
+        0.747, 0.741, 0.753, 0.745, 0.749, 0.738, 0.752, 0.743, 0.746, 0.790, 0.772, 0.748};
+
+    static List<ParticipantResult> results(double[] values) {
+        List<ParticipantResult> list = new ArrayList<>();
+        for (int i = 0; i < values.length; i++) {
+            list.add(new ParticipantResult(String.format("L%02d", i + 1), Double.toString(values[i]),
+                    values[i], false, 0.008, 2.0, "OES"));
+        }
+        return list;
+    }
+
+    static boolean hasWarning(Result r, String code) {
+        return r.warnings().stream().anyMatch(w -> w.code().equals(code));
+    }
+
+    @Test
+    void manganeseRoundGivesTheAlgorithmAConsensusAndZScores() {
+        // CALC: x* = 0.7475547640, u(x_pt) = 0.0017573609 (Python and R, no published source)
+        Result r = MeasurandEvaluation.evaluate(new Input("Mn", "% m/m", results(MANGANESE), null, null, 0.010));
+        assertEquals(20, r.n());
+        assertEquals(0.7475547640, r.assignedValue(), 1e-9);
+        assertEquals(0.0017573609, r.assignedValueUncertainty(), 1e-9);
+        assertEquals(MeasurandEvaluation.AssignedValueSource.ALGORITHM_A, r.assignedValueSource());
+        assertEquals(ScoreKind.Z, r.scoreUsed());
+        assertEquals(28, r.iterations());
+        assertTrue(r.converged());
+        // L19 (index 18) 0.772: z = 2.444524, questionable; L18 0.790: z = 4.244524 (CALC, abs 1e-6)
+        assertEquals(2.444524, r.scores().get(18).z(), 1e-6);
+        assertEquals("questionable", r.scores().get(18).classification());
+        assertEquals(4.244524, r.scores().get(17).z(), 1e-6);
+        assertEquals("unsatisfactory", r.scores().get(17).classification());
+        assertTrue(hasWarning(r, "zeta-en-biased"));
+        assertFalse(hasWarning(r, "few-participants"));
+        assertFalse(hasWarning(r, "sigma-pt-data-derived"));
+    }
+
+    @Test
+    void withoutSigmaPtTheRobustSdIsUsedAndWarned() {
+        Result r = MeasurandEvaluation.evaluate(new Input("Mn", "% m/m", results(MANGANESE), null, null, null));
+        assertEquals(MeasurandEvaluation.SigmaPtSource.ROBUST_SD, r.sigmaPtSource());
+        assertEquals(r.robustSd(), r.sigmaPt());
+        assertTrue(hasWarning(r, "sigma-pt-data-derived"));
+        // u(x_pt)/s* = 1.25/sqrt(20) = 0.2795 <= 0.3 -> z
+        assertEquals(ScoreKind.Z, r.scoreUsed());
+    }
+
+    @Test
+    void givenAssignedValueUsesHalfItsExpandedUncertaintyAndNoBiasWarning() {
+        Result r = MeasurandEvaluation.evaluate(new Input("Mn", "% m/m", results(MANGANESE), 0.750, 0.008, 0.010));
+        assertEquals(0.750, r.assignedValue());
+        assertEquals(0.004, r.assignedValueUncertainty(), 1e-15);
+        // u/sigma = 0.4 > 0.3 -> z'
+        assertEquals(ScoreKind.Z_PRIME, r.scoreUsed());
+        assertFalse(hasWarning(r, "zeta-en-biased"));
+        // L01 0.742, U = 0.008, k = 2: zeta = -0.008/sqrt(0.004^2 + 0.004^2), En = -0.008/sqrt(0.008^2 + 0.008^2)
+        assertEquals(-0.008 / Math.sqrt(2 * 0.004 * 0.004), r.scores().get(0).zeta(), 1e-9);
+        assertEquals(-0.008 / Math.sqrt(2 * 0.008 * 0.008), r.scores().get(0).en(), 1e-9);
+    }
+
+    @Test
+    void censoredResultsAreLeftOutNotScoredAndClassified() {
+        List<ParticipantResult> list = results(MANGANESE);
+        list.add(new ParticipantResult("L21", "<0.5", 0.5, true, null, null, null));
+        list.add(new ParticipantResult("L22", "<1", 1.0, true, null, null, null));
+        Result r = MeasurandEvaluation.evaluate(new Input("Mn", "% m/m", list, null, null, 0.010));
+        assertEquals(20, r.n());
+        assertEquals(2, r.censored());
+        assertEquals(0.7475547640, r.assignedValue(), 1e-9);
+        assertNull(r.scores().get(20).z());
+        assertNull(r.scores().get(20).value());
+        assertEquals("inconsistent", r.scores().get(20).classification());
+        assertEquals("consistent", r.scores().get(21).classification());
+        assertFalse(hasWarning(r, "censored-share"));
+    }
+
+    @Test
+    void aLargeCensoredShareIsWarned() {
+        List<ParticipantResult> list = results(new double[] {1.0, 1.1, 0.9, 1.05, 0.95});
+        list.add(new ParticipantResult("C1", "<0.5", 0.5, true, null, null, null));
+        list.add(new ParticipantResult("C2", "<0.5", 0.5, true, null, null, null));
+        Result r = MeasurandEvaluation.evaluate(new Input("Pb", "mg/kg", list, null, null, null));
+        assertTrue(hasWarning(r, "censored-share"));
+        assertTrue(hasWarning(r, "few-participants"));
+    }
+
+    @Test
+    void zeroSpreadGivesNoConsensusAndNoScores() {
+        Result r = MeasurandEvaluation.evaluate(new Input("Si", "% m/m",
+                results(new double[] {5.0, 5.0, 5.0, 5.1, 4.9}), null, null, null));
+        assertTrue(hasWarning(r, "zero-spread"));
+        assertNull(r.assignedValue());
+        assertNull(r.sigmaPt());
+        assertNull(r.robustSd());
+        assertEquals(0.0, r.madE());
+        r.scores().forEach(s -> {
+            assertNull(s.z());
+            assertNull(s.classification());
+        });
+    }
+
+    @Test
+    void zeroSpreadWithAGivenPlanStillScores() {
+        Result r = MeasurandEvaluation.evaluate(new Input("Si", "% m/m",
+                results(new double[] {5.0, 5.0, 5.0, 5.1, 4.9}), 5.0, 0.0, 0.05));
+        assertEquals(2.0, r.scores().get(3).z(), 1e-9);
+        assertEquals("satisfactory", r.scores().get(3).classification());
+    }
+
+    @Test
+    void oneResultIsReportedButNotScored() {
+        Result r = MeasurandEvaluation.evaluate(new Input("Cr", "% m/m", results(new double[] {18.1}), null, null, null));
+        assertEquals(1, r.n());
+        assertEquals(18.1, r.median());
+        assertNull(r.robustMean());
+        assertNull(r.iterations());
+        assertTrue(hasWarning(r, "too-few-values"));
+        assertNull(r.scores().get(0).z());
+    }
+
+    @Test
+    void twoPopulationsAreWarnedAsMultimodal() {
+        double[] values = new double[24];
+        for (int i = 0; i < 12; i++) {
+            values[i] = 1.00 + 0.002 * (i - 6);
+            values[12 + i] = 1.10 + 0.002 * (i - 6);
+        }
+        Result r = MeasurandEvaluation.evaluate(new Input("Cu", "% m/m", results(values), null, null, null));
+        assertTrue(hasWarning(r, "multimodal"));
+    }
+}
