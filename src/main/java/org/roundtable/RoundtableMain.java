@@ -2,7 +2,10 @@ package org.roundtable;
 
 import io.quarkus.runtime.Quarkus;
 import io.quarkus.runtime.annotations.QuarkusMain;
+import org.roundtable.evaluation.offline.EvaluateCommand;
 import org.roundtable.platform.EmbeddedDatabase;
+
+import java.util.Arrays;
 
 /**
  * Entry point of the packaged application.
@@ -22,6 +25,10 @@ public final class RoundtableMain {
     }
 
     public static void main(String... args) {
+        if (args.length > 0 && "evaluate".equals(args[0])) {
+            System.exit(EvaluateCommand.run(Arrays.copyOfRange(args, 1, args.length), System.out, System.err));
+            return;
+        }
         if (!EmbeddedDatabase.databaseUrlConfigured()) {
             EmbeddedDatabase.startForServer();
         }
