@@ -30,6 +30,8 @@ export PORT="${PORT:-8080}"
 export ROUNDTABLE_DEMO=true
 # plain HTTP on localhost: cookies cannot be marked Secure
 export ROUNDTABLE_SECURE_COOKIES="${ROUNDTABLE_SECURE_COOKIES:-false}"
+# the demo's shared accounts sign in with a password only; production requires two-step sign-in for admins and coordinators
+export ROUNDTABLE_TWO_STEP_REQUIRED_ROLES="${ROUNDTABLE_TWO_STEP_REQUIRED_ROLES:-}"
 
 cat <<MSG
 Roundtable demo

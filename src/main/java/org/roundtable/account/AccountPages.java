@@ -53,15 +53,18 @@ public class AccountPages {
     private final ApiTokenService tokens;
     private final AuditorGrantService grants;
     private final CurrentUser currentUser;
+    private final TwoStepService twoStep;
     private final HttpServerRequest request;
 
     public AccountPages(AccountService accounts, LaboratoryService laboratories, ApiTokenService tokens,
-                        AuditorGrantService grants, CurrentUser currentUser, HttpServerRequest request) {
+                        AuditorGrantService grants, CurrentUser currentUser, TwoStepService twoStep,
+                        HttpServerRequest request) {
         this.accounts = accounts;
         this.laboratories = laboratories;
         this.tokens = tokens;
         this.grants = grants;
         this.currentUser = currentUser;
+        this.twoStep = twoStep;
         this.request = request;
     }
 
@@ -102,6 +105,17 @@ public class AccountPages {
     @RolesAllowed(Role.ADMIN_NAME)
     public Response passwordLink(@PathParam("userId") long userId) {
         return attempt(() -> usersPage(accounts.startPasswordReset(userId), null), e -> usersPage(null, e));
+    }
+
+    @POST
+    @Path("admin/users/{userId}/two-step-reset")
+    @RolesAllowed(Role.ADMIN_NAME)
+    public Response resetTwoStep(@PathParam("userId") long userId) {
+        return attempt(() -> {
+            accounts.get(userId);
+            twoStep.reset(userId);
+            return usersPage(null, null);
+        }, e -> usersPage(null, e));
     }
 
     // ---- coordinator/admin: laboratories -----------------------------------------------------------------

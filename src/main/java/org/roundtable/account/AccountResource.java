@@ -29,14 +29,16 @@ public class AccountResource {
     private final LaboratoryService laboratories;
     private final ApiTokenService tokens;
     private final AuditorGrantService grants;
+    private final TwoStepService twoStep;
 
     public AccountResource(CurrentUser currentUser, AccountService accounts, LaboratoryService laboratories,
-                           ApiTokenService tokens, AuditorGrantService grants) {
+                           ApiTokenService tokens, AuditorGrantService grants, TwoStepService twoStep) {
         this.currentUser = currentUser;
         this.accounts = accounts;
         this.laboratories = laboratories;
         this.tokens = tokens;
         this.grants = grants;
+        this.twoStep = twoStep;
     }
 
     public record Me(String username, String displayName, String role, Long laboratoryId, boolean apiToken) {
@@ -131,6 +133,15 @@ public class AccountResource {
     @RolesAllowed(Role.ADMIN_NAME)
     public AccountService.UserWithLink passwordLink(@PathParam("userId") long userId) {
         return accounts.startPasswordReset(userId);
+    }
+
+    @POST
+    @Path("/users/{userId}/two-step/reset")
+    @RolesAllowed(Role.ADMIN_NAME)
+    public AccountService.UserView resetTwoStep(@PathParam("userId") long userId) {
+        AccountService.UserView user = accounts.get(userId);
+        twoStep.reset(userId);
+        return user;
     }
 
     // ---- laboratories ----------------------------------------------------------------------------------------

@@ -1,24 +1,19 @@
 package org.roundtable.account;
 
-import io.quarkus.runtime.LaunchMode;
 import io.vertx.core.http.Cookie;
 import io.vertx.core.http.HttpServerRequest;
 import jakarta.enterprise.context.RequestScoped;
 import jakarta.inject.Named;
-import org.jboss.logging.Logger;
 import org.roundtable.platform.Secrets;
 
-import javax.crypto.Mac;
-import javax.crypto.spec.SecretKeySpec;
 import java.nio.charset.StandardCharsets;
-import java.security.GeneralSecurityException;
 import java.util.Base64;
 
 /**
  * CSRF tokens (ASVS v5.0.0-3.5.1). For a signed-in browser the token is HMAC-SHA256(key, session hash), so it
  * needs no storage and is the same on every instance. Anonymous forms (sign-in, password link) pair a random
  * form cookie with HMAC-SHA256(key, cookie) — a signed double-submit cookie. The key is
- * {@code roundtable.security.session-key}, required in production.
+ * derived from {@link SessionKey}.
  *
  * <p>Templates use {@code {inject:csrf.token}} in a hidden field named {@value #FIELD}.
  */
@@ -29,8 +24,6 @@ public class CsrfTokens {
     public static final String FIELD = "_csrf";
     public static final String HEADER = "X-CSRF-Token";
 
-    private static final Logger LOG = Logger.getLogger(CsrfTokens.class);
-    private static volatile byte[] generatedKey;
 
     private final CurrentUser currentUser;
     private final SessionCookies cookies;
@@ -38,14 +31,11 @@ public class CsrfTokens {
     private final byte[] key;
     private String newFormCookie;
 
-    public CsrfTokens(CurrentUser currentUser, SessionCookies cookies, HttpServerRequest request,
-                      SecuritySettings settings) {
+    public CsrfTokens(CurrentUser currentUser, SessionCookies cookies, HttpServerRequest request, SessionKey sessionKey) {
         this.currentUser = currentUser;
         this.cookies = cookies;
         this.request = request;
-        this.key = settings.sessionKey().filter(k -> !k.isBlank())
-                .map(k -> k.getBytes(StandardCharsets.UTF_8))
-                .orElseGet(CsrfTokens::developmentKey);
+        this.key = sessionKey.derive("csrf");
     }
 
     /** The token a form on the current page must send back. */
@@ -84,28 +74,7 @@ public class CsrfTokens {
     }
 
     private String sign(String message) {
-        try {
-            Mac mac = Mac.getInstance("HmacSHA256");
-            mac.init(new SecretKeySpec(key, "HmacSHA256"));
-            return Base64.getUrlEncoder().withoutPadding().encodeToString(mac.doFinal(message.getBytes(StandardCharsets.UTF_8)));
-        } catch (GeneralSecurityException e) {
-            throw new IllegalStateException(e);
-        }
-    }
-
-    private static byte[] developmentKey() {
-        if (LaunchMode.current() == LaunchMode.NORMAL) {
-            throw new IllegalStateException("roundtable.security.session-key is not set. Set the environment variable "
-                    + "QUARKUS_HTTP_AUTH_SESSION_ENCRYPTION_KEY (at least 32 random characters, the same on every instance).");
-        }
-        if (generatedKey == null) {
-            synchronized (CsrfTokens.class) {
-                if (generatedKey == null) {
-                    LOG.warn("No session key configured: using a random one for this process (tests and dev only)");
-                    generatedKey = Secrets.randomToken(32).getBytes(StandardCharsets.UTF_8);
-                }
-            }
-        }
-        return generatedKey;
+        return Base64.getUrlEncoder().withoutPadding().encodeToString(
+                SessionKey.hmac(key, message.getBytes(StandardCharsets.UTF_8)));
     }
 }

@@ -72,6 +72,11 @@ public class CurrentUser {
         return laboratoryId().orElseThrow(DomainException.Forbidden::new);
     }
 
+    /** Whether the signed-in user's two-step sign-in is on (read from the database on this request). */
+    public boolean twoStepOn() {
+        return Boolean.TRUE.equals(identity.getAttribute(IdentityAttributes.TWO_STEP_ON));
+    }
+
     public boolean viaApiToken() {
         return IdentityAttributes.METHOD_TOKEN.equals(identity.getAttribute(IdentityAttributes.METHOD));
     }

@@ -6,6 +6,7 @@ public final class IdentityAttributes {
     public static final String LABORATORY_ID = "roundtable.laboratoryId";
     public static final String DISPLAY_NAME = "roundtable.displayName";
     public static final String SESSION_HASH = "roundtable.sessionHash";
+    public static final String TWO_STEP_ON = "roundtable.twoStepOn";
     public static final String TOKEN_ID = "roundtable.tokenId";
     public static final String METHOD = "roundtable.method";
     public static final String METHOD_SESSION = "session";

@@ -38,6 +38,7 @@ final class IdentityProviders {
                             .addAttribute(IdentityAttributes.USER_ID, p.userId())
                             .addAttribute(IdentityAttributes.DISPLAY_NAME, p.displayName())
                             .addAttribute(IdentityAttributes.SESSION_HASH, p.sessionHash())
+                            .addAttribute(IdentityAttributes.TWO_STEP_ON, p.twoStepOn())
                             .addAttribute(IdentityAttributes.METHOD, IdentityAttributes.METHOD_SESSION)
                             .addAttribute(IdentityAttributes.LABORATORY_ID, p.laboratoryId() == null ? -1L : p.laboratoryId())
                             .build())

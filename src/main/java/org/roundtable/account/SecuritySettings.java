@@ -38,6 +38,9 @@ public interface SecuritySettings {
     @WithDefault("72h")
     Duration passwordLinkValidity();
 
+    /** Roles that must use two-step sign-in (ASVS v5.0.0-6.3.3); empty = optional for everyone. */
+    Optional<java.util.List<String>> twoStepRequiredRoles();
+
     /** bcrypt work factor. */
     @WithDefault("12")
     int bcryptCost();

@@ -25,6 +25,19 @@ public class SessionCookies {
         return settings.secureCookies() ? "__Host-rt_form" : "rt_form";
     }
 
+    /** Cookie holding a sign-in that awaits its second step (not a session). */
+    public String secondStepCookieName() {
+        return settings.secureCookies() ? "__Host-rt_second_step" : "rt_second_step";
+    }
+
+    public NewCookie secondStep(String token) {
+        return cookie(secondStepCookieName(), token, 300);
+    }
+
+    public NewCookie clearSecondStep() {
+        return cookie(secondStepCookieName(), "", 0);
+    }
+
     public NewCookie session(String token) {
         return cookie(sessionCookieName(), token, -1);
     }

@@ -36,21 +36,52 @@ public class SessionService {
 
     /** Who a valid session belongs to, as read from the database on this request. */
     public record SessionPrincipal(long userId, String username, String displayName, Role role, Long laboratoryId,
-                                   String sessionHash) {
+                                   String sessionHash, boolean twoStepOn) {
     }
+
+    /** How long a password-checked sign-in may wait for its second step. */
+    static final Duration SECOND_STEP_WINDOW = Duration.ofMinutes(5);
 
     /** Starts a session for {@code userId} and returns the cookie token (shown to nobody else). */
     public String start(long userId) {
+        return insert(userId, false, settings.absoluteTimeout());
+    }
+
+    /** Records a password-checked sign-in that still needs its second step; not a session until completed. */
+    public String startAwaitingSecondStep(long userId) {
+        return insert(userId, true, SECOND_STEP_WINDOW);
+    }
+
+    /**
+     * Ends a sign-in awaiting its second step and returns its user, if it is still valid. The caller starts the real
+     * session (a new token: the awaiting token never becomes a session token).
+     */
+    public java.util.Optional<Long> takeAwaitingSecondStep(String token) {
+        if (token == null || token.isBlank() || token.length() > 100) {
+            return java.util.Optional.empty();
+        }
+        return QuarkusTransaction.requiringNew().call(() -> {
+            @SuppressWarnings("unchecked")
+            List<Number> users = entityManager.createNativeQuery("""
+                    SELECT user_id FROM user_session
+                     WHERE token_hash = :hash AND awaiting_second_step AND ended_at IS NULL AND expires_at > :now
+                    """).setParameter("hash", Secrets.sha256Hex(token)).setParameter("now", now()).getResultList();
+            return users.stream().findFirst().map(Number::longValue);
+        });
+    }
+
+    private String insert(long userId, boolean awaitingSecondStep, Duration lifetime) {
         String token = Secrets.randomToken(32);
         OffsetDateTime now = now();
         QuarkusTransaction.requiringNew().run(() -> entityManager.createNativeQuery("""
-                INSERT INTO user_session (token_hash, user_id, created_at, last_seen_at, expires_at)
-                VALUES (:hash, :user, :now, :now, :expires)
+                INSERT INTO user_session (token_hash, user_id, created_at, last_seen_at, expires_at, awaiting_second_step)
+                VALUES (:hash, :user, :now, :now, :expires, :awaiting)
                 """)
                 .setParameter("hash", Secrets.sha256Hex(token))
                 .setParameter("user", userId)
                 .setParameter("now", now)
-                .setParameter("expires", now.plus(settings.absoluteTimeout()))
+                .setParameter("expires", now.plus(lifetime))
+                .setParameter("awaiting", awaitingSecondStep)
                 .executeUpdate());
         return token;
     }
@@ -65,9 +96,10 @@ public class SessionService {
         return QuarkusTransaction.requiringNew().call(() -> {
             @SuppressWarnings("unchecked")
             List<Object[]> rows = entityManager.createNativeQuery("""
-                    SELECT u.id, u.username, u.display_name, u.role, u.laboratory_id, s.last_seen_at
+                    SELECT u.id, u.username, u.display_name, u.role, u.laboratory_id, s.last_seen_at,
+                           EXISTS (SELECT 1 FROM user_two_step t WHERE t.user_id = u.id AND t.confirmed_at IS NOT NULL)
                       FROM user_session s JOIN app_user u ON u.id = s.user_id
-                     WHERE s.token_hash = :hash AND s.ended_at IS NULL AND u.enabled
+                     WHERE s.token_hash = :hash AND s.ended_at IS NULL AND u.enabled AND NOT s.awaiting_second_step
                        AND s.expires_at > :now AND s.last_seen_at > :idleLimit
                     """)
                     .setParameter("hash", hash)
@@ -85,7 +117,7 @@ public class SessionService {
             }
             return Optional.of(new SessionPrincipal(((Number) row[0]).longValue(), (String) row[1], (String) row[2],
                     Role.fromName((String) row[3]).orElseThrow(),
-                    row[4] == null ? null : ((Number) row[4]).longValue(), hash));
+                    row[4] == null ? null : ((Number) row[4]).longValue(), hash, Boolean.TRUE.equals(row[6])));
         });
     }
 

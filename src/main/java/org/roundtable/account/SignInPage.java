@@ -30,6 +30,11 @@ public class SignInPage {
         static native TemplateInstance passwordSet(String error, boolean done, String link);
 
         static native TemplateInstance account(String error, String message);
+
+        static native TemplateInstance loginCode(String error, String next);
+
+        static native TemplateInstance twoStep(String status, TwoStepService.Enrolment enrolment,
+                                               java.util.List<String> recoveryCodes, String error, boolean required);
     }
 
     private final SignInService signIn;
@@ -37,15 +42,20 @@ public class SignInPage {
     private final SessionCookies cookies;
     private final CurrentUser currentUser;
     private final AccountService accounts;
+    private final TwoStepService twoStep;
+    private final TwoStepEnforcement enforcement;
     private final HttpServerRequest request;
 
     public SignInPage(SignInService signIn, SessionService sessions, SessionCookies cookies, CurrentUser currentUser,
-                      AccountService accounts, HttpServerRequest request) {
+                      AccountService accounts, TwoStepService twoStep, TwoStepEnforcement enforcement,
+                      HttpServerRequest request) {
         this.signIn = signIn;
         this.sessions = sessions;
         this.cookies = cookies;
         this.currentUser = currentUser;
         this.accounts = accounts;
+        this.twoStep = twoStep;
+        this.enforcement = enforcement;
         this.request = request;
     }
 
@@ -63,14 +73,40 @@ public class SignInPage {
     public Response login(@FormParam("username") String username, @FormParam("password") String password,
                           @FormParam("next") String next) {
         try {
-            String token = signIn.signIn(username, password,
-                    request.remoteAddress() == null ? null : request.remoteAddress().hostAddress());
+            SignInService.SignInResult result = signIn.signIn(username, password, remoteAddress());
+            if (result.secondStepNeeded()) {
+                String codePage = "/login/code" + (safeNext(next) == null ? ""
+                        : "?next=" + java.net.URLEncoder.encode(safeNext(next), java.nio.charset.StandardCharsets.UTF_8));
+                return Response.seeOther(URI.create(codePage)).cookie(cookies.secondStep(result.token())).build();
+            }
             // the new session is looked up again on the next request, with its role read from the database
             return Response.seeOther(URI.create(safeNext(next) == null ? "/home" : safeNext(next)))
-                    .cookie(cookies.session(token)).build();
+                    .cookie(cookies.session(result.token())).build();
         } catch (SignInService.SignInRefused refused) {
             return Response.status(refused.status())
                     .entity(Templates.login(refused.detail(), null, safeNext(next), username)).build();
+        }
+    }
+
+    @GET
+    @Path("login/code")
+    @PermitAll
+    public TemplateInstance codeForm(@QueryParam("next") String next) {
+        return Templates.loginCode(null, safeNext(next));
+    }
+
+    @POST
+    @Path("login/code")
+    @PermitAll
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response code(@FormParam("code") String code, @FormParam("next") String next) {
+        io.vertx.core.http.Cookie awaiting = request.getCookie(cookies.secondStepCookieName());
+        try {
+            String token = signIn.completeSecondStep(awaiting == null ? null : awaiting.getValue(), code, remoteAddress());
+            return Response.seeOther(URI.create(safeNext(next) == null ? "/home" : safeNext(next)))
+                    .cookie(cookies.session(token), cookies.clearSecondStep()).build();
+        } catch (SignInService.SignInRefused refused) {
+            return Response.status(refused.status()).entity(Templates.loginCode(refused.detail(), safeNext(next))).build();
         }
     }
 
@@ -139,6 +175,45 @@ public class SignInPage {
         } catch (DomainException e) {
             return Response.status(e.status()).entity(Templates.account(e.detail(), null)).build();
         }
+    }
+
+    // ---- two-step sign-in --------------------------------------------------------------------------------
+
+    @GET
+    @Path("account/two-step")
+    @Authenticated
+    public TemplateInstance twoStepPage() {
+        return Templates.twoStep(twoStep.status(currentUser.requireUserId()).name(), null, null, null, twoStepRequired());
+    }
+
+    @POST
+    @Path("account/two-step/start")
+    @Authenticated
+    public TemplateInstance startTwoStep() {
+        return Templates.twoStep(TwoStepService.Status.AWAITING_CONFIRMATION.name(), twoStep.start(), null, null,
+                twoStepRequired());
+    }
+
+    @POST
+    @Path("account/two-step/confirm")
+    @Authenticated
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response confirmTwoStep(@FormParam("code") String code) {
+        try {
+            java.util.List<String> recovery = twoStep.confirm(code);
+            return Response.ok(Templates.twoStep(TwoStepService.Status.ON.name(), null, recovery, null, false)).build();
+        } catch (DomainException e) {
+            return Response.status(e.status()).entity(Templates.twoStep(
+                    twoStep.status(currentUser.requireUserId()).name(), null, null, e.detail(), twoStepRequired())).build();
+        }
+    }
+
+    private boolean twoStepRequired() {
+        return enforcement.requiredFor(currentUser) && !enforcement.satisfiedBy(currentUser);
+    }
+
+    private String remoteAddress() {
+        return request.remoteAddress() == null ? null : request.remoteAddress().hostAddress();
     }
 
     /** Only local paths are followed after sign-in (no open redirect). */

@@ -4,6 +4,7 @@ import io.quarkus.narayana.jta.QuarkusTransaction;
 import jakarta.enterprise.context.ApplicationScoped;
 import jakarta.persistence.EntityManager;
 import org.roundtable.platform.DomainException;
+import org.roundtable.platform.Secrets;
 
 import java.time.Clock;
 import java.time.OffsetDateTime;
@@ -28,15 +29,17 @@ public class SignInService {
     private final SessionService sessions;
     private final SecuritySettings settings;
     private final EntityManager entityManager;
+    private final TwoStepService twoStep;
     private final Clock clock;
 
     public SignInService(UserAccountRepository users, Passwords passwords, SessionService sessions,
-                         SecuritySettings settings, EntityManager entityManager, Clock clock) {
+                         SecuritySettings settings, EntityManager entityManager, TwoStepService twoStep, Clock clock) {
         this.users = users;
         this.passwords = passwords;
         this.sessions = sessions;
         this.settings = settings;
         this.entityManager = entityManager;
+        this.twoStep = twoStep;
         this.clock = clock;
     }
 
@@ -47,13 +50,59 @@ public class SignInService {
         }
     }
 
-    /** Checks the credentials and starts a session; returns the session cookie token. */
-    public String signIn(String username, String password, String remoteAddress) {
+    /**
+     * The outcome of a correct password: a session token, or — when two-step sign-in is on — a token that only
+     * {@link #completeSecondStep} accepts.
+     */
+    public record SignInResult(String token, boolean secondStepNeeded) {
+    }
+
+    /** Checks the credentials and starts a session (or the wait for the second step). */
+    public SignInResult signIn(String username, String password, String remoteAddress) {
         String name = username == null ? "" : username.strip().toLowerCase(Locale.ROOT);
         if (name.isEmpty() || name.length() > 64) {
             passwords.burnVerificationTime(password);
             throw new SignInRefused(GENERIC_FAILURE, 401);
         }
+        refuseWhenThrottled(name, remoteAddress);
+        Optional<UserAccount> user = QuarkusTransaction.requiringNew().call(() ->
+                users.find("username", name).firstResultOptional());
+        boolean ok = user.isPresent() && user.get().enabled && user.get().passwordHash != null
+                && passwords.matches(password, user.get().passwordHash);
+        if (user.isEmpty() || user.get().passwordHash == null) {
+            passwords.burnVerificationTime(password);
+        }
+        record(name, ok, remoteAddress);
+        if (!ok) {
+            SecurityLog.event("sign-in-failed", name, user.isPresent() && !user.get().enabled ? "reason=disabled" : "");
+            throw new SignInRefused(GENERIC_FAILURE, 401);
+        }
+        if (twoStep.status(user.get().id) == TwoStepService.Status.ON) {
+            SecurityLog.event("sign-in-password-ok", name, "second step needed");
+            return new SignInResult(sessions.startAwaitingSecondStep(user.get().id), true);
+        }
+        SecurityLog.event("sign-in", name, "role=" + user.get().role);
+        return new SignInResult(sessions.start(user.get().id), false);
+    }
+
+    /** Completes a sign-in with the second step; returns the session token. */
+    public String completeSecondStep(String awaitingToken, String code, String remoteAddress) {
+        Long userId = sessions.takeAwaitingSecondStep(awaitingToken)
+                .orElseThrow(() -> new SignInRefused("This sign-in has expired. Please sign in again.", 401));
+        String name = QuarkusTransaction.requiringNew().call(() -> users.findById(userId).username);
+        refuseWhenThrottled(name, remoteAddress);
+        boolean ok = QuarkusTransaction.requiringNew().call(() -> twoStep.verifySecondStep(userId, code));
+        record(name, ok, remoteAddress);
+        if (!ok) {
+            SecurityLog.event("sign-in-second-step-failed", name, "");
+            throw new SignInRefused("That code is not right.", 401);
+        }
+        sessions.end(Secrets.sha256Hex(awaitingToken), "second-step-done");
+        SecurityLog.event("sign-in", name, "two-step");
+        return sessions.start(userId);
+    }
+
+    private void refuseWhenThrottled(String name, String remoteAddress) {
         OffsetDateTime now = now();
         long recentFailures = QuarkusTransaction.requiringNew().call(() -> ((Number) entityManager.createNativeQuery("""
                 SELECT count(*) FROM login_attempt
@@ -67,20 +116,6 @@ public class SignInService {
             SecurityLog.event("sign-in-throttled", name, "failures=" + recentFailures);
             throw new SignInRefused(THROTTLED, 429);
         }
-        Optional<UserAccount> user = QuarkusTransaction.requiringNew().call(() ->
-                users.find("username", name).firstResultOptional());
-        boolean ok = user.isPresent() && user.get().enabled && user.get().passwordHash != null
-                && passwords.matches(password, user.get().passwordHash);
-        if (user.isEmpty() || user.get().passwordHash == null) {
-            passwords.burnVerificationTime(password);
-        }
-        record(name, ok, remoteAddress);
-        if (!ok) {
-            SecurityLog.event("sign-in-failed", name, user.isPresent() && !user.get().enabled ? "reason=disabled" : "");
-            throw new SignInRefused(GENERIC_FAILURE, 401);
-        }
-        SecurityLog.event("sign-in", name, "role=" + user.get().role);
-        return sessions.start(user.get().id);
     }
 
     private void record(String name, boolean succeeded, String remoteAddress) {
