@@ -9,6 +9,13 @@ import java.time.OffsetDateTime;
 /** Streams the audit trail out of PostgreSQL in sequence order (plain JDBC, usable without the server). */
 public final class AuditRows {
 
+    /** The columns {@link #read} expects, in order. */
+    static final String SELECT_COLUMNS = """
+            SELECT sequence_no, occurred_at, actor, actor_role, laboratory_id, action, object_type, object_id,
+                   before_hash, after_hash, detail, request_id, previous_hash, entry_hash
+              FROM audit_event
+            """;
+
     private AuditRows() {
     }
 
@@ -19,11 +26,7 @@ public final class AuditRows {
         if (autoCommit) {
             connection.setAutoCommit(false); // a cursor (fetch size) needs a transaction in PostgreSQL
         }
-        try (PreparedStatement statement = connection.prepareStatement("""
-                SELECT sequence_no, occurred_at, actor, actor_role, laboratory_id, action, object_type, object_id,
-                       before_hash, after_hash, detail, request_id, previous_hash, entry_hash
-                  FROM audit_event ORDER BY sequence_no
-                """)) {
+        try (PreparedStatement statement = connection.prepareStatement(SELECT_COLUMNS + " ORDER BY sequence_no")) {
             statement.setFetchSize(5000);
             try (ResultSet rs = statement.executeQuery()) {
                 while (rs.next()) {

@@ -93,11 +93,8 @@ public class AuditTrail {
     @Transactional
     public List<AuditEntry> page(Long beforeSequence, int limit) {
         return entityManager.unwrap(org.hibernate.Session.class).doReturningWork(connection -> {
-            try (var statement = connection.prepareStatement("""
-                    SELECT sequence_no, occurred_at, actor, actor_role, laboratory_id, action, object_type, object_id,
-                           before_hash, after_hash, detail, request_id, previous_hash, entry_hash
-                      FROM audit_event WHERE sequence_no < ? ORDER BY sequence_no DESC LIMIT ?
-                    """)) {
+            try (var statement = connection.prepareStatement(
+                    AuditRows.SELECT_COLUMNS + " WHERE sequence_no < ? ORDER BY sequence_no DESC LIMIT ?")) {
                 statement.setLong(1, beforeSequence == null ? Long.MAX_VALUE : beforeSequence);
                 statement.setInt(2, Math.max(1, Math.min(limit, 1000)));
                 try (var rs = statement.executeQuery()) {
@@ -115,11 +112,7 @@ public class AuditTrail {
     public void forEach(java.util.function.Consumer<AuditEntry> sink) {
         try (Connection connection = dataSource.getConnection()) {
             connection.setAutoCommit(false);
-            try (var statement = connection.prepareStatement("""
-                    SELECT sequence_no, occurred_at, actor, actor_role, laboratory_id, action, object_type, object_id,
-                           before_hash, after_hash, detail, request_id, previous_hash, entry_hash
-                      FROM audit_event ORDER BY sequence_no
-                    """)) {
+            try (var statement = connection.prepareStatement(AuditRows.SELECT_COLUMNS + " ORDER BY sequence_no")) {
                 statement.setFetchSize(5000);
                 try (var rs = statement.executeQuery()) {
                     while (rs.next()) {
