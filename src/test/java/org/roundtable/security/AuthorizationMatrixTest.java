@@ -221,6 +221,17 @@ class AuthorizationMatrixTest {
         if (resolved.contains("{grantId}")) {
             resolved = resolved.replace("{grantId}", Long.toString(world.grant(labA, world.user("auditor", null))));
         }
+        if (resolved.contains("{schemeId}")) {
+            resolved = resolved.replace("{schemeId}", Long.toString(world.scheme()));
+        }
+        if (resolved.contains("{roundId}")) {
+            // a round where the endpoints can act: items out, laboratory A enrolled (laboratory B is not)
+            long round = world.round(org.roundtable.scheme.RoundState.DISPATCHED, labA);
+            resolved = resolved.replace("{roundId}", Long.toString(round));
+            if (resolved.contains("{itemId}")) {
+                resolved = resolved.replace("{itemId}", Long.toString(world.itemOf(round, labA)));
+            }
+        }
         if (resolved.contains("{")) {
             throw new IllegalStateException("no resolver for a placeholder in " + path + "; add one to AuthorizationMatrixTest");
         }

@@ -100,6 +100,84 @@ public class World {
                 laboratoryId, auditorUsername, manager);
     }
 
+    // ---- schemes and rounds -------------------------------------------------------------------------------
+
+    /** A scheme with one measurand, Cr in % (2 digits, expected 17 to 20, spark OES or XRF); returns its id. */
+    public long scheme() {
+        long scheme = insert("INSERT INTO scheme (name, material_family, created_at) VALUES (?, 'STAINLESS_STEEL', now()) RETURNING id",
+                unique("Scheme"));
+        insert("INSERT INTO measurand (scheme_id, element, unit, reporting_digits, expected_min, expected_max, method_groups) "
+                + "VALUES (?, 'Cr', '%', 2, 17, 20, 'SPARK_OES,XRF') RETURNING id", scheme);
+        return scheme;
+    }
+
+    /** The plan the round builder uses: Cr, Algorithm A consensus, fixed σpt 0.10 %. */
+    public static org.roundtable.scheme.EvaluationPlan simplePlan(String sigmaPt) {
+        return new org.roundtable.scheme.EvaluationPlan(java.util.List.of(new org.roundtable.scheme.EvaluationPlan.MeasurandPlan(
+                "Cr", "CONSENSUS_ALL", null, null, null, null, null, "FIXED", sigmaPt, null, null, null, null, null,
+                null, null, null, null, null, null, null)));
+    }
+
+    /**
+     * A round placed straight in {@code state}, with everything that state implies: a plan (draft in DRAFT,
+     * frozen version 1 after), the given laboratories enrolled with codes, a recorded qualification decision
+     * for Cr, and one item "A" per laboratory from DISPATCHED on. Returns the round id.
+     */
+    public long round(org.roundtable.scheme.RoundState state, long... enrolledLaboratories) {
+        long scheme = scheme();
+        String code = unique("R").toUpperCase();
+        org.roundtable.scheme.Measurand cr = new org.roundtable.scheme.Measurand();
+        cr.element = "Cr";
+        cr.unit = "%";
+        cr.reportingDigits = 2;
+        cr.methodGroups = "SPARK_OES,XRF";
+        org.roundtable.scheme.PlanDocument.Canonical plan = org.roundtable.scheme.PlanDocument.canonical(simplePlan("0.10"),
+                java.util.List.of(cr), new org.roundtable.scheme.PlanDocument.RoundSettings(code,
+                        org.roundtable.scheme.Round.LatePolicy.REFUSE, org.roundtable.scheme.Round.CodeScope.ROUND),
+                new com.fasterxml.jackson.databind.ObjectMapper());
+        boolean draft = state == org.roundtable.scheme.RoundState.DRAFT;
+        long round = insert("INSERT INTO round (scheme_id, code, item_description, items_per_laboratory, item_labels, dispatch_date, "
+                        + "result_deadline, deadline_time_zone, instructions, late_policy, state, state_changed_at, draft_plan, created_at) "
+                        + "VALUES (?, ?, 'Stainless steel disc, 40 mm', 1, 'A', current_date, now() + interval '30 days', 'Europe/Berlin', "
+                        + "'Treat the disc as a routine sample.', 'REFUSE', ?, now(), ?, now()) RETURNING id",
+                scheme, code, state.name(), draft ? plan.json() : null);
+        if (!draft) {
+            insert("INSERT INTO evaluation_plan (round_id, plan_version, canonical_json, sha256, reason, frozen_by, frozen_at) "
+                    + "VALUES (?, 1, ?, ?, 'Frozen before enrolment', 'world', now()) RETURNING round_id", round, plan.json(), plan.sha256());
+            insert("INSERT INTO qualification_decision (round_id, element, decision, reason, decided_by, decided_at) "
+                    + "VALUES (?, 'Cr', 'ACCEPT', 'Checked by the test world', 'world', now()) RETURNING id", round);
+        }
+        boolean itemsOut = state.ordinal() >= org.roundtable.scheme.RoundState.DISPATCHED.ordinal()
+                && state != org.roundtable.scheme.RoundState.CANCELLED;
+        java.util.Set<String> taken = new java.util.HashSet<>();
+        for (long lab : enrolledLaboratories) {
+            insert("INSERT INTO round_participant (round_id, laboratory_id, participant_code, enrolled_at, enrolled_by) "
+                    + "VALUES (?, ?, ?, now(), 'world') RETURNING id", round, lab, org.roundtable.scheme.ParticipantCodes.draw(taken));
+            if (itemsOut) {
+                insert("INSERT INTO item_dispatch (round_id, laboratory_id, item_label, status, dispatched_at) "
+                        + "VALUES (?, ?, 'A', 'DISPATCHED', now()) RETURNING id", round, lab);
+            }
+        }
+        return round;
+    }
+
+    /** The current item "A" of the laboratory in the round. */
+    public long itemOf(long roundId, long laboratoryId) {
+        return insert("SELECT id FROM item_dispatch WHERE round_id = ? AND laboratory_id = ? AND status <> 'REPLACED' ORDER BY id DESC LIMIT 1",
+                roundId, laboratoryId);
+    }
+
+    public String text(String sql, Object... params) {
+        try (Connection c = dataSource.getConnection(); PreparedStatement s = c.prepareStatement(sql)) {
+            bind(s, params);
+            try (ResultSet rs = s.executeQuery()) {
+                return rs.next() ? rs.getString(1) : null;
+            }
+        } catch (SQLException e) {
+            throw new IllegalStateException(e);
+        }
+    }
+
     /** Signs in through the sign-in form, as a browser would. */
     public Browser signIn(String username) {
         return signIn(username, PASSWORD);

@@ -1,0 +1,312 @@
+package org.roundtable.scheme;
+
+import com.fasterxml.jackson.core.io.JsonStringEncoder;
+import com.fasterxml.jackson.databind.JsonNode;
+import com.fasterxml.jackson.databind.ObjectMapper;
+import com.fasterxml.jackson.databind.node.ArrayNode;
+import com.fasterxml.jackson.databind.node.ObjectNode;
+import org.roundtable.platform.DomainException;
+import org.roundtable.platform.Secrets;
+import org.roundtable.statistics.robust.AlgorithmA;
+import org.roundtable.statistics.robust.QuartileRule;
+
+import java.math.BigDecimal;
+import java.util.ArrayList;
+import java.util.Comparator;
+import java.util.HashSet;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.Set;
+import java.util.TreeSet;
+
+/**
+ * Checks an {@link EvaluationPlan} against the scheme's catalogue and writes its canonical JSON.
+ *
+ * <p>Canonical form: a JSON object with keys sorted by code point at every level, no insignificant
+ * whitespace, absent values left out (never {@code null}), numbers kept as the decimal strings that were
+ * entered, measurands in order of atomic number, score lists in the order of {@link EvaluationPlan.Score}.
+ * Defaults are written out (minimum participants 10, quartile rule, stopping rule, boundary rule, coverage
+ * factor 2, scores z/z′), so the document states every choice. The document also carries what the round
+ * fixes for evaluation: its code, the late-result policy and the participant-code scope, and each
+ * measurand's unit and reporting digits from the catalogue. The SHA-256 of the UTF-8 bytes of this text is
+ * the plan's hash.
+ */
+public final class PlanDocument {
+
+    /** Identifies the layout of the canonical document. */
+    public static final String FORMAT = "roundtable-evaluation-plan-1";
+    public static final int DEFAULT_MINIMUM_PARTICIPANTS = 10;
+
+    private PlanDocument() {
+    }
+
+    /** The canonical JSON and its SHA-256 hex. */
+    public record Canonical(String json, String sha256) {
+    }
+
+    /** Round settings that the plan fixes. */
+    public record RoundSettings(String roundCode, Round.LatePolicy latePolicy, Round.CodeScope codeScope) {
+    }
+
+    /** Validates the plan against the catalogue and returns its canonical form. */
+    public static Canonical canonical(EvaluationPlan plan, List<Measurand> catalogue, RoundSettings round,
+                                      ObjectMapper mapper) {
+        if (plan == null || plan.measurands() == null || plan.measurands().isEmpty()) {
+            throw new DomainException.BadRequest("The plan needs at least one measurand.");
+        }
+        Map<String, Measurand> byElement = new java.util.HashMap<>();
+        catalogue.forEach(m -> byElement.put(m.element, m));
+        Set<String> seen = new HashSet<>();
+        List<ObjectNode> entries = new ArrayList<>();
+        for (int i = 0; i < plan.measurands().size(); i++) {
+            EvaluationPlan.MeasurandPlan p = plan.measurands().get(i);
+            String where = "Plan entry " + (i + 1);
+            if (p == null) {
+                throw new DomainException.BadRequest(where + " is empty.");
+            }
+            String element = ChemicalElement.require(p.element());
+            Measurand m = byElement.get(element);
+            if (m == null) {
+                throw new DomainException.BadRequest(where + ": " + element + " is not in the scheme's measurand catalogue.");
+            }
+            if (!seen.add(element)) {
+                throw new DomainException.BadRequest(where + ": " + element + " is planned twice.");
+            }
+            entries.add(entry(p, m, where + " (" + element + ")", mapper));
+        }
+        entries.sort(Comparator.comparingInt(e -> ChemicalElement.atomicNumber(e.get("element").asText())));
+        ObjectNode root = mapper.createObjectNode();
+        root.put("format", FORMAT);
+        root.put("roundCode", round.roundCode());
+        root.put("latePolicy", round.latePolicy().name());
+        root.put("participantCodeScope", round.codeScope().name());
+        ArrayNode array = root.putArray("measurands");
+        entries.forEach(array::add);
+        String json = write(root);
+        return new Canonical(json, Secrets.sha256Hex(json));
+    }
+
+    /** Reads a stored canonical document back into a plan. */
+    public static EvaluationPlan read(String canonicalJson, ObjectMapper mapper) {
+        try {
+            return mapper.readerFor(EvaluationPlan.class)
+                    .without(com.fasterxml.jackson.databind.DeserializationFeature.FAIL_ON_UNKNOWN_PROPERTIES)
+                    .readValue(canonicalJson);
+        } catch (java.io.IOException e) {
+            throw new IllegalStateException("stored plan is not readable", e);
+        }
+    }
+
+    private static ObjectNode entry(EvaluationPlan.MeasurandPlan p, Measurand m, String where, ObjectMapper mapper) {
+        ObjectNode e = mapper.createObjectNode();
+        e.put("element", m.element);
+        e.put("unit", m.unit);
+        e.put("reportingDigits", Integer.toString(m.reportingDigits));
+        List<String> groups = List.of(m.methodGroups.split(","));
+
+        EvaluationPlan.AssignedValueMethod assigned = choice(EvaluationPlan.AssignedValueMethod.class,
+                p.assignedValueMethod(), where, "assigned-value method");
+        e.put("assignedValueMethod", assigned.name());
+        switch (assigned) {
+            case CONSENSUS_METHOD_GROUP -> {
+                MethodGroup group = choice(MethodGroup.class, p.methodGroup(), where, "method group");
+                if (!groups.contains(group.name())) {
+                    throw new DomainException.BadRequest(where + ": method group " + group
+                            + " is not allowed for this measurand in the catalogue.");
+                }
+                e.put("methodGroup", group.name());
+            }
+            case CERTIFIED_REFERENCE, REFERENCE_LABORATORY -> {
+                e.put("referenceValue", positive(p.referenceValue(), where, "reference value"));
+                e.put("referenceExpandedUncertainty",
+                        positive(p.referenceExpandedUncertainty(), where, "expanded uncertainty U of the reference value"));
+                e.put("coverageFactor", p.coverageFactor() == null || p.coverageFactor().isBlank() ? "2"
+                        : positive(p.coverageFactor(), where, "coverage factor"));
+            }
+            case EXPERT_CONSENSUS -> {
+                if (p.expertLaboratories() == null || p.expertLaboratories().size() < 2) {
+                    throw new DomainException.BadRequest(where + ": an expert consensus names at least two expert laboratories.");
+                }
+                ArrayNode experts = e.putArray("expertLaboratories");
+                new TreeSet<>(p.expertLaboratories().stream().map(id -> integer(id, where, "expert laboratory id"))
+                        .map(Long::parseLong).toList()).forEach(id -> experts.add(Long.toString(id)));
+            }
+            default -> {
+            }
+        }
+        boolean consensus = assigned == EvaluationPlan.AssignedValueMethod.CONSENSUS_ALL
+                || assigned == EvaluationPlan.AssignedValueMethod.CONSENSUS_METHOD_GROUP
+                || assigned == EvaluationPlan.AssignedValueMethod.EXPERT_CONSENSUS;
+
+        EvaluationPlan.SigmaPtMethod sigma = choice(EvaluationPlan.SigmaPtMethod.class, p.sigmaPtMethod(), where,
+                "σpt method");
+        e.put("sigmaPtMethod", sigma.name());
+        boolean dependsOnRoundData = false;
+        switch (sigma) {
+            case FIXED, EARLIER_ROUNDS -> e.put("sigmaPt", positive(p.sigmaPt(), where, "σpt"));
+            case PERCENT_OF_ASSIGNED -> {
+                e.put("sigmaPtPercent", positive(p.sigmaPtPercent(), where, "σpt in % of the assigned value"));
+                dependsOnRoundData = consensus;
+            }
+            case HORWITZ_THOMPSON -> dependsOnRoundData = consensus;
+            case PRECISION_DATA -> {
+                String sR = positive(p.reproducibilitySd(), where, "reproducibility SD σR");
+                String sr = positive(p.repeatabilitySd(), where, "repeatability SD σr");
+                if (new BigDecimal(sr).compareTo(new BigDecimal(sR)) > 0) {
+                    throw new DomainException.BadRequest(where + ": σr cannot exceed σR.");
+                }
+                e.put("reproducibilitySd", sR);
+                e.put("repeatabilitySd", sr);
+                e.put("replicates", integer(p.replicates(), where, "number of replicates n"));
+            }
+            case ROBUST_SD_OF_ROUND -> {
+                dependsOnRoundData = true;
+                e.put("sigmaPtDataDerived", "true");
+            }
+        }
+        if (dependsOnRoundData) {
+            e.put("provisionalSigmaPt", positive(p.provisionalSigmaPt(), where,
+                    "provisional σpt (needed for sample qualification, because σpt depends on the round's data)"));
+        } else if (p.provisionalSigmaPt() != null && !p.provisionalSigmaPt().isBlank()) {
+            throw new DomainException.BadRequest(where + ": a provisional σpt is only for σpt methods that depend on the round's data.");
+        }
+
+        TreeSet<EvaluationPlan.Score> scores = new TreeSet<>();
+        if (p.scores() == null || p.scores().isEmpty()) {
+            scores.add(EvaluationPlan.Score.Z_OR_Z_PRIME);
+        } else {
+            for (String s : p.scores()) {
+                scores.add(choice(EvaluationPlan.Score.class, s, where, "score"));
+            }
+        }
+        if (scores.contains(EvaluationPlan.Score.EN) && consensus) {
+            throw new DomainException.BadRequest(where + ": En needs a reference value with its expanded uncertainty,"
+                    + " not a consensus value.");
+        }
+        ArrayNode scoreArray = e.putArray("scores");
+        scores.forEach(s -> scoreArray.add(s.name()));
+
+        e.put("minimumParticipants", p.minimumParticipants() == null || p.minimumParticipants().isBlank()
+                ? Integer.toString(DEFAULT_MINIMUM_PARTICIPANTS) : integer(p.minimumParticipants(), where, "minimum participants"));
+        if (p.allowedMethodGroupDifference() != null && !p.allowedMethodGroupDifference().isBlank()) {
+            e.put("allowedMethodGroupDifference", positive(p.allowedMethodGroupDifference(), where,
+                    "allowed difference between method groups"));
+        }
+        if (p.exclusionRules() != null && !p.exclusionRules().isBlank()) {
+            if (p.exclusionRules().length() > 2000) {
+                throw new DomainException.BadRequest(where + ": the exclusion rules have at most 2000 characters.");
+            }
+            e.put("exclusionRules", p.exclusionRules().strip());
+        }
+        e.put("quartileRule", p.quartileRule() == null || p.quartileRule().isBlank() ? QuartileRule.DEFAULT.name()
+                : choice(QuartileRule.class, p.quartileRule(), where, "quartile rule").name());
+        e.put("stoppingRule", p.stoppingRule() == null || p.stoppingRule().isBlank()
+                ? AlgorithmA.StoppingRule.FULL_CONVERGENCE.name()
+                : choice(AlgorithmA.StoppingRule.class, p.stoppingRule(), where, "stopping rule").name());
+        e.put("boundaryRule", p.boundaryRule() == null || p.boundaryRule().isBlank()
+                ? EvaluationPlan.BoundaryRule.SATISFACTORY_TO_2_UNSATISFACTORY_FROM_3.name()
+                : choice(EvaluationPlan.BoundaryRule.class, p.boundaryRule(), where, "boundary rule").name());
+        return e;
+    }
+
+    /**
+     * The σpt to judge sample qualification against, in the measurand's unit: the planned value when the
+     * plan fixes it before the round's data exist, else the provisional σpt. Empty if neither can be
+     * known before results (never the case for a plan that passed {@link #canonical}).
+     */
+    public static java.util.Optional<QualificationSigma> qualificationSigma(EvaluationPlan.MeasurandPlan p, String unit) {
+        if (p.provisionalSigmaPt() != null) {
+            return java.util.Optional.of(new QualificationSigma(Double.parseDouble(p.provisionalSigmaPt()), "provisional"));
+        }
+        EvaluationPlan.SigmaPtMethod sigma = EvaluationPlan.SigmaPtMethod.valueOf(p.sigmaPtMethod());
+        Double reference = p.referenceValue() == null ? null : Double.parseDouble(p.referenceValue());
+        return switch (sigma) {
+            case FIXED, EARLIER_ROUNDS -> java.util.Optional.of(new QualificationSigma(Double.parseDouble(p.sigmaPt()), "planned"));
+            case PRECISION_DATA -> java.util.Optional.of(new QualificationSigma(
+                    org.roundtable.statistics.sigma.SigmaPt.fromPrecision(Double.parseDouble(p.reproducibilitySd()),
+                            Double.parseDouble(p.repeatabilitySd()), Integer.parseInt(p.replicates())), "planned (precision data)"));
+            case PERCENT_OF_ASSIGNED -> reference == null ? java.util.Optional.empty() : java.util.Optional.of(
+                    new QualificationSigma(Double.parseDouble(p.sigmaPtPercent()) / 100 * reference, "planned (% of reference value)"));
+            case HORWITZ_THOMPSON -> reference == null ? java.util.Optional.empty() : java.util.Optional.of(
+                    new QualificationSigma(org.roundtable.statistics.sigma.SigmaPt.thompsonHorwitz(reference,
+                            "%".equals(unit) ? org.roundtable.statistics.sigma.MassFractionUnit.PERCENT
+                                    : org.roundtable.statistics.sigma.MassFractionUnit.MILLIGRAMS_PER_KILOGRAM), "planned (Horwitz/Thompson at the reference value)"));
+            case ROBUST_SD_OF_ROUND -> java.util.Optional.empty();
+        };
+    }
+
+    /** σpt for qualification and where it came from. */
+    public record QualificationSigma(double value, String source) {
+    }
+
+    /** Writes a tree with sorted keys, no whitespace, no nulls. */
+    static String write(JsonNode node) {
+        StringBuilder out = new StringBuilder();
+        write(node, out);
+        return out.toString();
+    }
+
+    private static void write(JsonNode node, StringBuilder out) {
+        if (node.isObject()) {
+            out.append('{');
+            TreeSet<String> names = new TreeSet<>();
+            node.fieldNames().forEachRemaining(names::add);
+            boolean first = true;
+            for (String name : names) {
+                JsonNode value = node.get(name);
+                if (value == null || value.isNull()) {
+                    continue;
+                }
+                if (!first) {
+                    out.append(',');
+                }
+                first = false;
+                string(name, out);
+                out.append(':');
+                write(value, out);
+            }
+            out.append('}');
+        } else if (node.isArray()) {
+            out.append('[');
+            for (int i = 0; i < node.size(); i++) {
+                if (i > 0) {
+                    out.append(',');
+                }
+                write(node.get(i), out);
+            }
+            out.append(']');
+        } else {
+            string(node.asText(), out);
+        }
+    }
+
+    private static void string(String text, StringBuilder out) {
+        out.append('"').append(JsonStringEncoder.getInstance().quoteAsString(text)).append('"');
+    }
+
+    private static <E extends Enum<E>> E choice(Class<E> type, String value, String where, String what) {
+        try {
+            return Enum.valueOf(type, value == null ? "" : value.strip().toUpperCase(Locale.ROOT));
+        } catch (IllegalArgumentException e) {
+            throw new DomainException.BadRequest(where + ": the " + what + " is one of "
+                    + List.of(type.getEnumConstants()) + ".");
+        }
+    }
+
+    private static String positive(String value, String where, String what) {
+        String clean = value == null ? "" : value.strip();
+        if (!clean.matches("[0-9]{1,12}(\\.[0-9]{1,12})?([eE][-+]?[0-9]{1,2})?") || new BigDecimal(clean).signum() <= 0) {
+            throw new DomainException.BadRequest(where + ": the " + what + " is required, as a positive decimal number.");
+        }
+        return clean;
+    }
+
+    private static String integer(String value, String where, String what) {
+        String clean = value == null ? "" : value.strip();
+        if (!clean.matches("[1-9][0-9]{0,5}")) {
+            throw new DomainException.BadRequest(where + ": the " + what + " is a whole number of at least 1.");
+        }
+        return clean;
+    }
+}

@@ -1,0 +1,357 @@
+package org.roundtable.scheme;
+
+import com.fasterxml.jackson.core.JsonProcessingException;
+import com.fasterxml.jackson.databind.ObjectMapper;
+import io.quarkus.qute.CheckedTemplate;
+import io.quarkus.qute.TemplateInstance;
+import io.vertx.core.http.HttpServerRequest;
+import jakarta.annotation.security.RolesAllowed;
+import jakarta.ws.rs.Consumes;
+import jakarta.ws.rs.FormParam;
+import jakarta.ws.rs.GET;
+import jakarta.ws.rs.POST;
+import jakarta.ws.rs.Path;
+import jakarta.ws.rs.PathParam;
+import jakarta.ws.rs.Produces;
+import jakarta.ws.rs.core.MediaType;
+import jakarta.ws.rs.core.Response;
+import org.roundtable.account.LaboratoryService;
+import org.roundtable.account.Role;
+import org.roundtable.platform.DomainException;
+import org.roundtable.scheme.qualification.QualificationService;
+
+import java.util.Arrays;
+import java.util.List;
+import java.util.function.Function;
+import java.util.function.Supplier;
+
+/**
+ * Pages for preparing rounds (coordinators: schemes, catalogue, rounds, plan, enrolment, items,
+ * qualification) and for laboratories (their rounds, instructions with cautions, receipt of items). Every
+ * action is a POST form with the CSRF token; the services do the checking, so a page can never do more than
+ * the API.
+ */
+@Path("/")
+@Produces(MediaType.TEXT_HTML)
+public class RoundPages {
+
+    @CheckedTemplate(basePath = "scheme")
+    static class Templates {
+        static native TemplateInstance schemes(List<SchemeService.SchemeView> schemes, List<String> families, String error);
+
+        static native TemplateInstance scheme(SchemeService.SchemeView scheme, List<String> methodGroups, String error,
+                                              String message);
+
+        static native TemplateInstance rounds(List<RoundService.RoundView> rounds, List<SchemeService.SchemeView> schemes,
+                                              String error);
+
+        static native TemplateInstance round(RoundService.RoundView round, String planText,
+                                             List<PlanStore.PlanVersion> versions,
+                                             List<EnrolmentService.Participant> participants,
+                                             List<EnrolmentService.ItemView> items, List<EnrolmentService.Notice> notices,
+                                             List<QualificationService.MeasurandQualification> qualification,
+                                             List<LaboratoryService.LaboratoryView> laboratories,
+                                             List<String> decisions, String error, String message, String link);
+
+        static native TemplateInstance myRounds(List<EnrolmentService.MyRoundSummary> rounds);
+
+        static native TemplateInstance myRound(EnrolmentService.MyRound round, String error, String message);
+    }
+
+    private static final String PLAN_EXAMPLE = """
+            {"measurands": [
+              {"element": "Cr", "assignedValueMethod": "CONSENSUS_ALL",
+               "sigmaPtMethod": "FIXED", "sigmaPt": "0.10", "scores": ["Z_OR_Z_PRIME"]}
+            ]}""";
+
+    private final SchemeService schemes;
+    private final RoundService rounds;
+    private final EnrolmentService enrolments;
+    private final QualificationService qualification;
+    private final LaboratoryService laboratories;
+    private final ObjectMapper mapper;
+    private final HttpServerRequest request;
+
+    public RoundPages(SchemeService schemes, RoundService rounds, EnrolmentService enrolments,
+                      QualificationService qualification, LaboratoryService laboratories, ObjectMapper mapper,
+                      HttpServerRequest request) {
+        this.schemes = schemes;
+        this.rounds = rounds;
+        this.enrolments = enrolments;
+        this.qualification = qualification;
+        this.laboratories = laboratories;
+        this.mapper = mapper;
+        this.request = request;
+    }
+
+    // ---- schemes ------------------------------------------------------------------------------------
+
+    @GET
+    @Path("schemes")
+    @RolesAllowed(Role.COORDINATOR_NAME)
+    public TemplateInstance schemesPage() {
+        return schemesPage(null);
+    }
+
+    @POST
+    @Path("schemes")
+    @RolesAllowed(Role.COORDINATOR_NAME)
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response createScheme(@FormParam("name") String name, @FormParam("materialFamily") String family) {
+        return attempt(() -> {
+            SchemeService.SchemeView created = schemes.create(new SchemeService.NewScheme(name, family));
+            return Templates.scheme(created, names(MethodGroup.values()), null, "Scheme created. Add its measurands.");
+        }, this::schemesPage);
+    }
+
+    @GET
+    @Path("schemes/{schemeId}")
+    @RolesAllowed(Role.COORDINATOR_NAME)
+    public TemplateInstance schemePage(@PathParam("schemeId") long schemeId) {
+        return Templates.scheme(schemes.get(schemeId), names(MethodGroup.values()), null, null);
+    }
+
+    @POST
+    @Path("schemes/{schemeId}/measurands")
+    @RolesAllowed(Role.COORDINATOR_NAME)
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response putMeasurand(@PathParam("schemeId") long schemeId, @FormParam("element") String element,
+                                 @FormParam("unit") String unit, @FormParam("reportingDigits") String digits,
+                                 @FormParam("expectedMin") String min, @FormParam("expectedMax") String max,
+                                 @FormParam("methodGroups") List<String> groups) {
+        return attempt(() -> {
+            SchemeService.MeasurandView m = schemes.putMeasurand(schemeId, new SchemeService.MeasurandEntry(element, unit,
+                    integer(digits, "reporting digits"), min, max, groups));
+            return Templates.scheme(schemes.get(schemeId), names(MethodGroup.values()), null, m.element() + " saved.");
+        }, e -> Templates.scheme(schemes.get(schemeId), names(MethodGroup.values()), e, null));
+    }
+
+    // ---- rounds -------------------------------------------------------------------------------------
+
+    @GET
+    @Path("rounds")
+    @RolesAllowed(Role.COORDINATOR_NAME)
+    public TemplateInstance roundsPage() {
+        return Templates.rounds(rounds.list(), schemes.list(), null);
+    }
+
+    @POST
+    @Path("rounds")
+    @RolesAllowed(Role.COORDINATOR_NAME)
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response createRound(@FormParam("schemeId") String schemeId, @FormParam("code") String code,
+                                @FormParam("itemDescription") String itemDescription,
+                                @FormParam("itemsPerLaboratory") String itemsPerLaboratory,
+                                @FormParam("itemLabels") String itemLabels, @FormParam("dispatchDate") String dispatchDate,
+                                @FormParam("resultDeadline") String resultDeadline, @FormParam("timeZone") String timeZone,
+                                @FormParam("instructions") String instructions, @FormParam("latePolicy") String latePolicy,
+                                @FormParam("codeScope") String codeScope) {
+        return attempt(() -> {
+            Integer items = integer(itemsPerLaboratory, "items per laboratory");
+            List<String> labels = itemLabels == null || itemLabels.isBlank() ? null
+                    : Arrays.stream(itemLabels.split(",")).map(String::strip).toList();
+            RoundService.RoundView created = rounds.create(new RoundService.RoundDetails(
+                    schemeId == null || schemeId.isBlank() ? null : (long) integer(schemeId, "scheme"), code,
+                    itemDescription, items, labels, dispatchDate, resultDeadline, timeZone, instructions, latePolicy,
+                    codeScope));
+            return roundPage(created.id(), null, "Round created as a draft. Write its evaluation plan next.", null);
+        }, e -> Templates.rounds(rounds.list(), schemes.list(), e));
+    }
+
+    @GET
+    @Path("rounds/{roundId}")
+    @RolesAllowed(Role.COORDINATOR_NAME)
+    public TemplateInstance roundDetail(@PathParam("roundId") long roundId) {
+        return roundPage(roundId, null, null, null);
+    }
+
+    @POST
+    @Path("rounds/{roundId}/transitions")
+    @RolesAllowed(Role.COORDINATOR_NAME)
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response transition(@PathParam("roundId") long roundId, @FormParam("action") String action) {
+        return attempt(() -> {
+            RoundService.RoundView after = rounds.transition(roundId, action);
+            return roundPage(roundId, null, "Done: the round is now " + SchemeFormats.words(after.state()).toLowerCase() + ".", null);
+        }, e -> roundPage(roundId, e, null, null));
+    }
+
+    /** Saves the draft plan, or — once frozen — stores a new version with the reason given. */
+    @POST
+    @Path("rounds/{roundId}/plan")
+    @RolesAllowed(Role.COORDINATOR_NAME)
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response savePlan(@PathParam("roundId") long roundId, @FormParam("plan") String planText,
+                             @FormParam("reason") String reason) {
+        return attempt(() -> {
+            EvaluationPlan plan = parsePlan(planText);
+            if (RoundState.valueOf(rounds.get(roundId).state()) == RoundState.DRAFT) {
+                rounds.saveDraftPlan(roundId, plan);
+                return roundPage(roundId, null, "Draft plan saved.", null);
+            }
+            PlanStore.PlanVersion v = rounds.newPlanVersion(roundId, new RoundService.PlanChange(plan, reason));
+            return roundPage(roundId, null, "Plan version " + v.version() + " stored.", null);
+        }, e -> roundPage(roundId, e, null, null));
+    }
+
+    @POST
+    @Path("rounds/{roundId}/enrolments")
+    @RolesAllowed(Role.COORDINATOR_NAME)
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response enrol(@PathParam("roundId") long roundId, @FormParam("laboratoryId") String laboratoryId,
+                          @FormParam("organisation") String organisation, @FormParam("name") String name,
+                          @FormParam("country") String country, @FormParam("contactName") String contactName,
+                          @FormParam("contactEmail") String contactEmail,
+                          @FormParam("managerUsername") String managerUsername) {
+        return attempt(() -> {
+            Long existing = laboratoryId == null || laboratoryId.isBlank() ? null : (long) integer(laboratoryId, "laboratory");
+            EnrolmentService.Enrolled enrolled = enrolments.enrol(roundId, new EnrolmentService.Enrolment(existing,
+                    organisation, name, country, contactName, contactEmail, managerUsername));
+            String link = enrolled.passwordLinkPath() == null ? null : baseUrl() + enrolled.passwordLinkPath();
+            return roundPage(roundId, null, enrolled.participant().laboratoryName() + " enrolled as "
+                    + enrolled.participant().participantCode() + ".", link);
+        }, e -> roundPage(roundId, e, null, null));
+    }
+
+    @POST
+    @Path("rounds/{roundId}/items/withdrawal")
+    @RolesAllowed(Role.COORDINATOR_NAME)
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response withdraw(@PathParam("roundId") long roundId, @FormParam("itemLabel") String label,
+                             @FormParam("reason") String reason) {
+        return attempt(() -> {
+            enrolments.withdraw(roundId, new EnrolmentService.Withdrawal(label, reason));
+            return roundPage(roundId, null, "Item withdrawn; the participants have a notice.", null);
+        }, e -> roundPage(roundId, e, null, null));
+    }
+
+    @POST
+    @Path("rounds/{roundId}/qualification/homogeneity")
+    @RolesAllowed(Role.COORDINATOR_NAME)
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response homogeneity(@PathParam("roundId") long roundId, @FormParam("csv") String csv) {
+        return attempt(() -> {
+            qualification.uploadHomogeneity(roundId, new QualificationService.Upload(csv));
+            return roundPage(roundId, null, "Homogeneity data checked.", null);
+        }, e -> roundPage(roundId, e, null, null));
+    }
+
+    @POST
+    @Path("rounds/{roundId}/qualification/stability")
+    @RolesAllowed(Role.COORDINATOR_NAME)
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response stability(@PathParam("roundId") long roundId, @FormParam("csv") String csv) {
+        return attempt(() -> {
+            qualification.uploadStability(roundId, new QualificationService.Upload(csv));
+            return roundPage(roundId, null, "Stability data checked.", null);
+        }, e -> roundPage(roundId, e, null, null));
+    }
+
+    @POST
+    @Path("rounds/{roundId}/qualification/decisions")
+    @RolesAllowed(Role.COORDINATOR_NAME)
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response decide(@PathParam("roundId") long roundId, @FormParam("element") String element,
+                           @FormParam("decision") String decision, @FormParam("reason") String reason) {
+        return attempt(() -> {
+            qualification.decide(roundId, new QualificationService.DecisionRequest(element, decision, reason));
+            return roundPage(roundId, null, "Decision recorded for " + element + ".", null);
+        }, e -> roundPage(roundId, e, null, null));
+    }
+
+    // ---- laboratories -------------------------------------------------------------------------------
+
+    @GET
+    @Path("my-rounds")
+    @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
+    public TemplateInstance myRounds() {
+        return Templates.myRounds(enrolments.myRounds());
+    }
+
+    @GET
+    @Path("my-rounds/{roundId}")
+    @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
+    public TemplateInstance myRound(@PathParam("roundId") long roundId) {
+        return Templates.myRound(enrolments.myRound(roundId), null, null);
+    }
+
+    @POST
+    @Path("my-rounds/{roundId}/receipts")
+    @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response acknowledge(@PathParam("roundId") long roundId, @FormParam("itemLabel") String label,
+                                @FormParam("condition") String condition, @FormParam("note") String note) {
+        return attempt(() -> Templates.myRound(enrolments.acknowledgeReceipt(roundId,
+                        new EnrolmentService.Receipt(label, condition, note)), null, "Receipt of item " + label + " recorded."),
+                e -> Templates.myRound(enrolments.myRound(roundId), e, null));
+    }
+
+    // ---- helpers ------------------------------------------------------------------------------------
+
+    private TemplateInstance schemesPage(String error) {
+        return Templates.schemes(schemes.list(), names(MaterialFamily.values()), error);
+    }
+
+    private TemplateInstance roundPage(long roundId, String error, String message, String link) {
+        RoundService.RoundView round = rounds.get(roundId);
+        List<PlanStore.PlanVersion> versions = rounds.planVersions(roundId);
+        String planText = round.draftPlan() != null ? pretty(round.draftPlan())
+                : versions.isEmpty() ? PLAN_EXAMPLE : pretty(versions.get(versions.size() - 1).canonicalJson());
+        return Templates.round(round, planText, versions, enrolments.participants(roundId), enrolments.items(roundId),
+                enrolments.notices(roundId), qualification.status(roundId), laboratories.listAll(),
+                names(QualificationService.Decision.values()), error, message, link);
+    }
+
+    private String pretty(String json) {
+        try {
+            return mapper.writerWithDefaultPrettyPrinter().writeValueAsString(mapper.readTree(json));
+        } catch (JsonProcessingException e) {
+            return json;
+        }
+    }
+
+    private EvaluationPlan parsePlan(String text) {
+        if (text == null || text.isBlank()) {
+            throw new DomainException.BadRequest("The plan is empty.");
+        }
+        try {
+            return mapper.readValue(text, EvaluationPlan.class);
+        } catch (JsonProcessingException e) {
+            throw new DomainException.BadRequest("The plan is not valid JSON (line " + e.getLocation().getLineNr()
+                    + ", column " + e.getLocation().getColumnNr() + ").");
+        }
+    }
+
+    private static List<String> names(Enum<?>[] values) {
+        return Arrays.stream(values).map(Enum::name).toList();
+    }
+
+    private static Integer integer(String value, String what) {
+        if (value == null || value.isBlank()) {
+            return null;
+        }
+        try {
+            return Integer.parseInt(value.strip());
+        } catch (NumberFormatException e) {
+            throw new DomainException.BadRequest("The " + what + " is a whole number.");
+        }
+    }
+
+    /**
+     * Runs a form action; "not found" and "not allowed" propagate (so another laboratory's round looks
+     * exactly like a missing one), other domain failures re-render the page with the message and status.
+     */
+    private static Response attempt(Supplier<TemplateInstance> action, Function<String, TemplateInstance> onError) {
+        try {
+            return Response.ok(action.get()).build();
+        } catch (DomainException.NotFound | DomainException.Forbidden e) {
+            throw e;
+        } catch (DomainException e) {
+            return Response.status(e.status()).entity(onError.apply(e.detail())).build();
+        }
+    }
+
+    private String baseUrl() {
+        return request.scheme() + "://" + request.authority();
+    }
+}

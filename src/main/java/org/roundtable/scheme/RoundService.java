@@ -1,0 +1,373 @@
+package org.roundtable.scheme;
+
+import com.fasterxml.jackson.databind.ObjectMapper;
+import io.quarkus.panache.common.Sort;
+import jakarta.enterprise.context.ApplicationScoped;
+import jakarta.persistence.EntityManager;
+import jakarta.transaction.Transactional;
+import org.roundtable.account.CurrentUser;
+import org.roundtable.audit.AuditTrail;
+import org.roundtable.audit.ObjectHash;
+import org.roundtable.platform.DomainException;
+import org.roundtable.scheme.qualification.QualificationService;
+
+import java.time.Clock;
+import java.time.DateTimeException;
+import java.time.LocalDate;
+import java.time.LocalDateTime;
+import java.time.OffsetDateTime;
+import java.time.ZoneId;
+import java.time.ZoneOffset;
+import java.time.format.DateTimeFormatter;
+import java.time.format.DateTimeParseException;
+import java.util.ArrayList;
+import java.util.HashMap;
+import java.util.LinkedHashSet;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.Optional;
+
+/**
+ * Rounds (coordinators): creating and editing a draft, the evaluation plan (draft, freeze, new versions) and
+ * every lifecycle step. Each step locks the round ({@link RoundGate}), checks the state table
+ * ({@link RoundStateMachine}), checks its own preconditions, changes the state and writes an audit event with
+ * the round's hash before and after — all in one transaction.
+ *
+ * <p>Preconditions beyond the state table:
+ * <ul>
+ *   <li>freezing needs a draft plan that is valid against the scheme's catalogue <em>now</em>;</li>
+ *   <li>confirming qualification needs every planned measurand cleared: its homogeneity check passed (and
+ *       stability, where uploaded) or a decision with a reason recorded ({@link QualificationService});</li>
+ *   <li>dispatching needs at least one enrolled laboratory; it creates one item record per laboratory and label;</li>
+ *   <li>a new plan version needs a reason and is refused once results are visible beyond their own laboratory.</li>
+ * </ul>
+ */
+@ApplicationScoped
+public class RoundService {
+
+    private static final DateTimeFormatter LOCAL = DateTimeFormatter.ofPattern("yyyy-MM-dd HH:mm", Locale.ROOT);
+
+    private final RoundRepository rounds;
+    private final SchemeService schemes;
+    private final RoundGate gate;
+    private final PlanStore plans;
+    private final EnrolmentService enrolments;
+    private final QualificationService qualification;
+    private final AuditTrail audit;
+    private final CurrentUser currentUser;
+    private final EntityManager entityManager;
+    private final ObjectMapper mapper;
+    private final Clock clock;
+
+    public RoundService(RoundRepository rounds, SchemeService schemes, RoundGate gate, PlanStore plans,
+                        EnrolmentService enrolments, QualificationService qualification, AuditTrail audit,
+                        CurrentUser currentUser, EntityManager entityManager, ObjectMapper mapper, Clock clock) {
+        this.rounds = rounds;
+        this.schemes = schemes;
+        this.gate = gate;
+        this.plans = plans;
+        this.enrolments = enrolments;
+        this.qualification = qualification;
+        this.audit = audit;
+        this.currentUser = currentUser;
+        this.entityManager = entityManager;
+        this.mapper = mapper;
+        this.clock = clock;
+    }
+
+    /**
+     * Round details as entered. {@code resultDeadline} is a local date and time ({@code 2027-03-15T17:00}) in
+     * {@code timeZone} (an IANA zone such as {@code Europe/Berlin}); {@code itemLabels} one per item.
+     */
+    public record RoundDetails(Long schemeId, String code, String itemDescription, Integer itemsPerLaboratory,
+                               List<String> itemLabels, String dispatchDate, String resultDeadline, String timeZone,
+                               String instructions, String latePolicy, String codeScope) {
+    }
+
+    public record RoundView(long id, long schemeId, String schemeName, String code, String itemDescription,
+                            int itemsPerLaboratory, List<String> itemLabels, LocalDate dispatchDate,
+                            OffsetDateTime resultDeadline, String resultDeadlineLocal, String timeZone,
+                            String instructions, String latePolicy, String codeScope, String state,
+                            OffsetDateTime stateChangedAt, List<String> allowedActions, String draftPlan,
+                            Integer planVersion, String planSha256) {
+    }
+
+    public record PlanChange(EvaluationPlan plan, String reason) {
+    }
+
+    // ---- rounds ---------------------------------------------------------------------------------------------
+
+    @Transactional
+    public RoundView create(RoundDetails details) {
+        if (details == null || details.schemeId() == null) {
+            throw new DomainException.BadRequest("A round needs its scheme.");
+        }
+        Scheme scheme = schemes.find(details.schemeId());
+        Round round = new Round();
+        round.schemeId = scheme.id;
+        round.state = RoundState.DRAFT;
+        round.createdAt = now();
+        round.stateChangedAt = round.createdAt;
+        apply(round, details);
+        if (rounds.count("code", round.code) > 0) {
+            throw new DomainException.Conflict("A round with the code " + round.code + " exists already.");
+        }
+        rounds.persist(round);
+        entityManager.flush();
+        audit.record(new AuditTrail.Event(currentUser.actor(), "round.created", "round", round.id.toString(), null,
+                hash(round), "code=" + round.code + " scheme=" + scheme.id));
+        return view(round);
+    }
+
+    /** Changes a draft round's details (the scheme stays). */
+    @Transactional
+    public RoundView update(long roundId, RoundDetails details) {
+        Round round = gate.enter(roundId, RoundAction.EDIT_DETAILS);
+        if (details == null) {
+            throw new DomainException.BadRequest("The round details are missing.");
+        }
+        String before = hash(round);
+        String oldCode = round.code;
+        apply(round, details);
+        if (!round.code.equals(oldCode) && rounds.count("code = ?1 and id <> ?2", round.code, round.id) > 0) {
+            throw new DomainException.Conflict("A round with the code " + round.code + " exists already.");
+        }
+        entityManager.flush();
+        audit.record(new AuditTrail.Event(currentUser.actor(), "round.details-changed", "round", round.id.toString(),
+                before, hash(round), null));
+        return view(round);
+    }
+
+    @Transactional
+    public List<RoundView> list() {
+        return rounds.listAll(Sort.by("createdAt").descending().and("id").descending()).stream().map(this::view).toList();
+    }
+
+    @Transactional
+    public RoundView get(long roundId) {
+        return view(gate.find(roundId));
+    }
+
+    // ---- the evaluation plan -----------------------------------------------------------------------------
+
+    /** Saves the draft plan of a draft round, checked against the catalogue. */
+    @Transactional
+    public RoundView saveDraftPlan(long roundId, EvaluationPlan plan) {
+        Round round = gate.enter(roundId, RoundAction.EDIT_DRAFT_PLAN);
+        PlanDocument.Canonical canonical = canonical(round, plan);
+        String before = hash(round);
+        round.draftPlan = canonical.json();
+        entityManager.flush();
+        audit.record(new AuditTrail.Event(currentUser.actor(), "round.draft-plan-saved", "round", round.id.toString(),
+                before, hash(round), "planSha256=" + canonical.sha256()));
+        return view(round);
+    }
+
+    /**
+     * Stores a new version of a frozen plan, with its reason. Refused without a reason, in states where the
+     * plan is not open to change, and always once results are visible beyond their own laboratory.
+     */
+    @Transactional
+    public PlanStore.PlanVersion newPlanVersion(long roundId, PlanChange change) {
+        Round round = gate.enter(roundId, RoundAction.NEW_PLAN_VERSION);
+        if (resultsVisibleBeyondOwnLab(round)) {
+            throw new DomainException.Conflict("Results of this round are visible beyond their own laboratory: the plan can no longer change.");
+        }
+        if (change == null || change.reason() == null || change.reason().isBlank() || change.reason().length() > 1000) {
+            throw new DomainException.BadRequest("A new plan version needs a reason (1 to 1000 characters).");
+        }
+        PlanDocument.Canonical canonical = canonical(round, change.plan());
+        PlanStore.PlanVersion previous = plans.latest(roundId).orElseThrow();
+        if (previous.sha256().equals(canonical.sha256())) {
+            throw new DomainException.Conflict("The plan is unchanged (same hash as version " + previous.version() + ").");
+        }
+        PlanStore.PlanVersion version = plans.append(roundId, canonical, change.reason().strip(), currentUser.username(), now());
+        audit.record(new AuditTrail.Event(currentUser.actor(), "round.plan-version", "evaluation-plan",
+                roundId + "/" + version.version(), previous.sha256(), version.sha256(),
+                "version=" + version.version() + " reason=" + version.reason()));
+        return version;
+    }
+
+    @Transactional
+    public List<PlanStore.PlanVersion> planVersions(long roundId) {
+        gate.find(roundId);
+        return plans.versions(roundId);
+    }
+
+    /**
+     * Whether any result of the round may have been seen by someone other than the laboratory that reported
+     * it. For now: the round has reached {@code PRELIMINARY_ISSUED} or a later state. The submissions and
+     * report features may make this finer (e.g. an early release of results to one party).
+     */
+    @Transactional
+    public boolean resultsVisibleBeyondOwnLab(long roundId) {
+        return resultsVisibleBeyondOwnLab(gate.find(roundId));
+    }
+
+    static boolean resultsVisibleBeyondOwnLab(Round round) {
+        return round.state.resultsVisibleBeyondOwnLab();
+    }
+
+    // ---- lifecycle -------------------------------------------------------------------------------------
+
+    /** Takes a lifecycle step; refuses, with the state named, a step that is not possible now. */
+    @Transactional
+    public RoundView transition(long roundId, String actionName) {
+        RoundAction action = parseAction(actionName);
+        if (!action.changesState()) {
+            throw new DomainException.BadRequest(RoundStateMachine.describe(action) + " is not a lifecycle step.");
+        }
+        Round round = gate.enter(roundId, action);
+        if (!action.availableNow()) {
+            throw new DomainException.Conflict(RoundStateMachine.describe(action)
+                    + " is taken by the evaluation and report features, not here.");
+        }
+        RoundState next = RoundStateMachine.next(round.state, action).orElseThrow();
+        String detail = null;
+        switch (action) {
+            case FREEZE_PLAN -> {
+                if (round.draftPlan == null) {
+                    throw new DomainException.Conflict("Write and save the evaluation plan before freezing it.");
+                }
+                PlanDocument.Canonical canonical = canonical(round, PlanDocument.read(round.draftPlan, mapper));
+                PlanStore.PlanVersion v = plans.append(round.id, canonical, "Frozen before enrolment", currentUser.username(), now());
+                detail = "planVersion=1 planSha256=" + v.sha256();
+            }
+            case CONFIRM_QUALIFICATION, OPEN_FOR_RESULTS -> {
+                List<String> open = qualification.unclearedElements(round.id);
+                if (!open.isEmpty()) {
+                    throw new DomainException.Conflict("Sample qualification is not settled for " + String.join(", ", open)
+                            + ": upload homogeneity data that passes, or record a decision with a reason.");
+                }
+            }
+            case DISPATCH_ITEMS -> {
+                int items = enrolments.dispatchAll(round);
+                if (items == 0) {
+                    throw new DomainException.Conflict("No laboratory is enrolled: there is nothing to dispatch.");
+                }
+                detail = "items=" + items;
+            }
+            default -> {
+            }
+        }
+        String before = hash(round);
+        RoundState from = round.state;
+        round.state = next;
+        round.stateChangedAt = now();
+        entityManager.flush();
+        audit.record(new AuditTrail.Event(currentUser.actor(), "round." + action.name().toLowerCase(Locale.ROOT)
+                .replace('_', '-'), "round", round.id.toString(), before, hash(round),
+                "from=" + from + " to=" + next + (detail == null ? "" : " " + detail)));
+        return view(round);
+    }
+
+    static RoundAction parseAction(String name) {
+        try {
+            return RoundAction.valueOf(name == null ? "" : name.strip().toUpperCase(Locale.ROOT));
+        } catch (IllegalArgumentException e) {
+            throw new DomainException.BadRequest("Unknown action. Lifecycle steps: " + java.util.Arrays.stream(RoundAction.values())
+                    .filter(RoundAction::changesState).map(Enum::name).toList() + ".");
+        }
+    }
+
+    // ---- internals -------------------------------------------------------------------------------------
+
+    private PlanDocument.Canonical canonical(Round round, EvaluationPlan plan) {
+        return PlanDocument.canonical(plan, schemes.catalogue(round.schemeId),
+                new PlanDocument.RoundSettings(round.code, round.latePolicy, round.codeScope), mapper);
+    }
+
+    private void apply(Round round, RoundDetails d) {
+        String code = d.code() == null ? "" : d.code().strip();
+        if (!code.matches("[A-Za-z0-9][A-Za-z0-9._-]{1,39}")) {
+            throw new DomainException.BadRequest("The round code has 2 to 40 letters, digits and . _ - characters.");
+        }
+        round.code = code;
+        round.itemDescription = SchemeService.text(d.itemDescription(), "item description", 1000);
+        int items = d.itemsPerLaboratory() == null ? 1 : d.itemsPerLaboratory();
+        if (items != 1 && items != 2) {
+            throw new DomainException.BadRequest("A laboratory receives 1 item, or 2 for a split-level pair.");
+        }
+        List<String> labels = d.itemLabels() == null || d.itemLabels().isEmpty()
+                ? (items == 1 ? List.of("A") : List.of("A", "B")) : d.itemLabels().stream().map(l -> l == null ? "" : l.strip()).toList();
+        if (labels.size() != items || new LinkedHashSet<>(labels).size() != items
+                || labels.stream().anyMatch(l -> !l.matches("[A-Za-z0-9-]{1,8}"))) {
+            throw new DomainException.BadRequest("Give one distinct label per item (1 to 8 letters, digits or -).");
+        }
+        round.itemsPerLaboratory = items;
+        round.itemLabels = String.join(",", labels);
+        ZoneId zone;
+        try {
+            zone = ZoneId.of(d.timeZone() == null ? "" : d.timeZone().strip());
+        } catch (DateTimeException e) {
+            throw new DomainException.BadRequest("The time zone is an IANA zone such as Europe/Berlin or UTC.");
+        }
+        try {
+            round.dispatchDate = LocalDate.parse(d.dispatchDate() == null ? "" : d.dispatchDate().strip());
+        } catch (DateTimeParseException e) {
+            throw new DomainException.BadRequest("The dispatch date is written as 2027-03-01.");
+        }
+        try {
+            round.resultDeadline = LocalDateTime.parse(d.resultDeadline() == null ? "" : d.resultDeadline().strip())
+                    .atZone(zone).toOffsetDateTime().withOffsetSameInstant(ZoneOffset.UTC);
+        } catch (DateTimeParseException e) {
+            throw new DomainException.BadRequest("The result deadline is a local date and time such as 2027-03-15T17:00.");
+        }
+        round.deadlineTimeZone = zone.getId();
+        if (round.dispatchDate.isAfter(round.resultDeadline.toLocalDate())) {
+            throw new DomainException.BadRequest("The result deadline comes before the dispatch date.");
+        }
+        round.instructions = SchemeService.text(d.instructions(), "instructions to participants", 20000);
+        round.latePolicy = enumOf(Round.LatePolicy.class, d.latePolicy(), Round.LatePolicy.REFUSE, "late-result policy");
+        round.codeScope = enumOf(Round.CodeScope.class, d.codeScope(), Round.CodeScope.ROUND, "participant-code scope");
+    }
+
+    private static <E extends Enum<E>> E enumOf(Class<E> type, String value, E fallback, String what) {
+        if (value == null || value.isBlank()) {
+            return fallback;
+        }
+        try {
+            return Enum.valueOf(type, value.strip().toUpperCase(Locale.ROOT));
+        } catch (IllegalArgumentException e) {
+            throw new DomainException.BadRequest("The " + what + " is one of " + List.of(type.getEnumConstants()) + ".");
+        }
+    }
+
+    RoundView view(Round r) {
+        Optional<PlanStore.PlanVersion> plan = plans.latest(r.id);
+        String schemeName = schemes.find(r.schemeId).name;
+        List<String> actions = new ArrayList<>();
+        RoundStateMachine.allowed(r.state).stream().filter(a -> a.changesState() && a.availableNow())
+                .forEach(a -> actions.add(a.name()));
+        return new RoundView(r.id, r.schemeId, schemeName, r.code, r.itemDescription, r.itemsPerLaboratory,
+                List.of(r.itemLabels.split(",")), r.dispatchDate, r.resultDeadline,
+                LOCAL.format(r.resultDeadline.atZoneSameInstant(ZoneId.of(r.deadlineTimeZone))), r.deadlineTimeZone,
+                r.instructions, r.latePolicy.name(), r.codeScope.name(), r.state.name(), r.stateChangedAt, actions,
+                r.draftPlan, plan.map(PlanStore.PlanVersion::version).orElse(null),
+                plan.map(PlanStore.PlanVersion::sha256).orElse(null));
+    }
+
+    static String hash(Round r) {
+        Map<String, Object> fields = new HashMap<>();
+        fields.put("id", r.id);
+        fields.put("schemeId", r.schemeId);
+        fields.put("code", r.code);
+        fields.put("itemDescription", r.itemDescription);
+        fields.put("itemsPerLaboratory", r.itemsPerLaboratory);
+        fields.put("itemLabels", r.itemLabels);
+        fields.put("dispatchDate", r.dispatchDate);
+        fields.put("resultDeadline", r.resultDeadline == null ? null : r.resultDeadline.toInstant());
+        fields.put("deadlineTimeZone", r.deadlineTimeZone);
+        fields.put("instructions", r.instructions);
+        fields.put("latePolicy", r.latePolicy);
+        fields.put("codeScope", r.codeScope);
+        fields.put("state", r.state);
+        fields.put("draftPlan", r.draftPlan);
+        return ObjectHash.of(fields);
+    }
+
+    private OffsetDateTime now() {
+        return OffsetDateTime.now(clock).withOffsetSameInstant(ZoneOffset.UTC);
+    }
+}

@@ -1,0 +1,36 @@
+package org.roundtable.scheme;
+
+import jakarta.persistence.Column;
+import jakarta.persistence.Entity;
+import jakarta.persistence.EnumType;
+import jakarta.persistence.Enumerated;
+import jakarta.persistence.GeneratedValue;
+import jakarta.persistence.GenerationType;
+import jakarta.persistence.Id;
+import jakarta.persistence.Table;
+import jakarta.persistence.Version;
+
+import java.time.OffsetDateTime;
+
+/** A PT scheme: a material family and its measurand catalogue; rounds are run under it. */
+@Entity
+@Table(name = "scheme")
+public class Scheme {
+
+    @Id
+    @GeneratedValue(strategy = GenerationType.IDENTITY)
+    public Long id;
+
+    @Column(nullable = false)
+    public String name;
+
+    @Enumerated(EnumType.STRING)
+    @Column(name = "material_family", nullable = false)
+    public MaterialFamily materialFamily;
+
+    @Column(name = "created_at", nullable = false)
+    public OffsetDateTime createdAt;
+
+    @Version
+    public int version;
+}

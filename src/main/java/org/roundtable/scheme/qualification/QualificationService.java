@@ -1,0 +1,434 @@
+package org.roundtable.scheme.qualification;
+
+import com.fasterxml.jackson.core.JsonProcessingException;
+import com.fasterxml.jackson.databind.ObjectMapper;
+import jakarta.enterprise.context.ApplicationScoped;
+import jakarta.persistence.EntityManager;
+import jakarta.transaction.Transactional;
+import org.roundtable.account.CurrentUser;
+import org.roundtable.audit.AuditTrail;
+import org.roundtable.platform.DomainException;
+import org.roundtable.platform.Secrets;
+import org.roundtable.scheme.EvaluationPlan;
+import org.roundtable.scheme.PlanDocument;
+import org.roundtable.scheme.PlanStore;
+import org.roundtable.scheme.RoundAction;
+import org.roundtable.scheme.RoundGate;
+import org.roundtable.statistics.StatisticsWarning;
+import org.roundtable.statistics.homogeneity.HomogeneityCheck;
+import org.roundtable.statistics.homogeneity.StabilityCheck;
+
+import java.time.Clock;
+import java.time.OffsetDateTime;
+import java.time.ZoneOffset;
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.Optional;
+import java.util.TreeMap;
+
+/**
+ * Sample qualification of a round's items: homogeneity and stability uploads, the checks of the statistics
+ * core run against the planned σpt (or the plan's provisional σpt when σpt depends on the round's data),
+ * and the coordinator's decision per measurand.
+ *
+ * <p>Rules:
+ * <ul>
+ *   <li>homogeneity needs g ≥ 10 items, each with the same number (≥ 2) of replicates; the figures are those
+ *       of {@link HomogeneityCheck} (s_x, s_w, s_s, criterion s_s ≤ 0.3σpt, the F1/F2 allowance, s_w/σpt,
+ *       Cochran's screen of the duplicate differences). "Passed" means sufficiently homogeneous;</li>
+ *   <li>stability compares the homogeneity data in force (start, u = s_x/√g) with the stability results
+ *       (end, u = s/√n) through {@link StabilityCheck}; "passed" means the simple criterion |ȳ1 − ȳ2| ≤ 0.3σpt
+ *       holds; the expanded criterion is shown to support a decision;</li>
+ *   <li>a measurand is cleared when its latest homogeneity check passed and its latest stability check (if
+ *       any) passed, or when a decision is recorded. A decision on a measurand that has not passed needs a
+ *       reason. A measurand whose decision is WITHDRAW_MEASURAND is never scored
+ *       ({@link #mayBeScored});</li>
+ *   <li>an upload is all-or-nothing: one bad line, or one measurand without enough data, saves nothing.</li>
+ * </ul>
+ */
+@ApplicationScoped
+public class QualificationService {
+
+    private final RoundGate gate;
+    private final PlanStore plans;
+    private final AuditTrail audit;
+    private final CurrentUser currentUser;
+    private final EntityManager entityManager;
+    private final ObjectMapper mapper;
+    private final Clock clock;
+
+    public QualificationService(RoundGate gate, PlanStore plans, AuditTrail audit, CurrentUser currentUser,
+                                EntityManager entityManager, ObjectMapper mapper, Clock clock) {
+        this.gate = gate;
+        this.plans = plans;
+        this.audit = audit;
+        this.currentUser = currentUser;
+        this.entityManager = entityManager;
+        this.mapper = mapper;
+        this.clock = clock;
+    }
+
+    public enum Decision {
+        /** Use the items as they are (with a reason when a check did not pass). */
+        ACCEPT,
+        /** Widen σpt by the between-item SD: σpt' = sqrt(σpt² + s_s²). */
+        WIDEN_SIGMA_PT,
+        /** Add u_hom = s_s to u(x_pt); only for an assigned value that is not a consensus of the round. */
+        ADD_HOMOGENEITY_UNCERTAINTY,
+        /** Do not score the measurand in this round. */
+        WITHDRAW_MEASURAND
+    }
+
+    public record Upload(String csv) {
+    }
+
+    public record DecisionRequest(String element, String decision, String reason) {
+    }
+
+    /** Figures of one homogeneity check (symbols of ISO 13528 Annex B). */
+    public record HomogeneityFigures(double sigmaPt, String sigmaPtSource, int items, int replicates, double grandMean,
+                                     double itemMeansSd, double withinItemSd, double betweenItemSd,
+                                     double betweenItemVariance, double simpleLimit, boolean passesSimpleCriterion,
+                                     double f1, double f2, double allowance, double allowanceSd,
+                                     boolean passesAllowanceCriterion, boolean sufficientlyHomogeneous,
+                                     double withinToSigmaRatio, Double cochranStatistic, Double cochranCritical5,
+                                     Double cochranCritical1, String cochranVerdict, List<String> warnings) {
+    }
+
+    public record StabilityFigures(double sigmaPt, String sigmaPtSource, double startMean, double startUncertainty,
+                                   double endMean, double endUncertainty, int endResults, double difference,
+                                   double simpleLimit, double expandedLimit, boolean stable, boolean stableExpanded) {
+    }
+
+    public record DecisionView(String decision, String reason, String decidedBy, OffsetDateTime decidedAt) {
+    }
+
+    /** The state of qualification of one planned measurand. */
+    public record MeasurandQualification(String element, String unit, HomogeneityFigures homogeneity,
+                                         StabilityFigures stability, DecisionView decision, boolean passed,
+                                         boolean cleared) {
+    }
+
+    // ---- uploads -------------------------------------------------------------------------------------
+
+    @Transactional
+    public List<MeasurandQualification> uploadHomogeneity(long roundId, Upload upload) {
+        gate.enter(roundId, RoundAction.UPLOAD_QUALIFICATION_DATA);
+        Map<String, PlannedMeasurand> planned = planned(roundId);
+        String csv = upload == null ? null : upload.csv();
+        List<QualificationCsv.HomogeneityRow> rows = QualificationCsv.homogeneity(csv);
+        Map<String, List<QualificationCsv.HomogeneityRow>> byElement = new TreeMap<>();
+        for (QualificationCsv.HomogeneityRow row : rows) {
+            if (!planned.containsKey(row.element())) {
+                throw QualificationCsv.error(row.line(), "measurand", row.element() + " is not in the round's evaluation plan");
+            }
+            byElement.computeIfAbsent(row.element(), e -> new ArrayList<>()).add(row);
+        }
+        List<Stored> toStore = new ArrayList<>();
+        for (Map.Entry<String, List<QualificationCsv.HomogeneityRow>> e : byElement.entrySet()) {
+            PlannedMeasurand m = planned.get(e.getKey());
+            double[][] items = items(e.getKey(), e.getValue());
+            HomogeneityCheck.Result r = HomogeneityCheck.evaluate(items, m.sigma().value());
+            HomogeneityFigures figures = new HomogeneityFigures(m.sigma().value(), m.sigma().source(), r.itemCount(),
+                    r.replicates(), r.grandMean(), r.itemMeansSd(), r.withinItemSd(), r.betweenItemSd(),
+                    r.betweenItemVariance(), HomogeneityCheck.ALLOWANCE_FACTOR * m.sigma().value(),
+                    r.passesSimpleCriterion(), r.f1(), r.f2(), r.allowance(), Math.sqrt(r.allowance()),
+                    r.passesAllowanceCriterion(), r.sufficientlyHomogeneous(), r.withinToSigmaRatio(),
+                    r.cochran() == null ? null : r.cochran().statistic(),
+                    r.cochran() == null ? null : r.cochran().critical5(),
+                    r.cochran() == null ? null : r.cochran().critical1(),
+                    r.cochran() == null ? null : r.cochran().verdict().name(),
+                    r.warnings().stream().map(StatisticsWarning::message).toList());
+            toStore.add(new Stored(e.getKey(), "HOMOGENEITY", m.sigma(), csvOf(e.getValue()), json(figures),
+                    figures.sufficientlyHomogeneous()));
+        }
+        store(roundId, toStore);
+        return status(roundId);
+    }
+
+    @Transactional
+    public List<MeasurandQualification> uploadStability(long roundId, Upload upload) {
+        gate.enter(roundId, RoundAction.UPLOAD_QUALIFICATION_DATA);
+        Map<String, PlannedMeasurand> planned = planned(roundId);
+        List<QualificationCsv.StabilityRow> rows = QualificationCsv.stability(upload == null ? null : upload.csv());
+        Map<String, List<QualificationCsv.StabilityRow>> byElement = new TreeMap<>();
+        for (QualificationCsv.StabilityRow row : rows) {
+            if (!planned.containsKey(row.element())) {
+                throw QualificationCsv.error(row.line(), "measurand", row.element() + " is not in the round's evaluation plan");
+            }
+            byElement.computeIfAbsent(row.element(), e -> new ArrayList<>()).add(row);
+        }
+        List<Stored> toStore = new ArrayList<>();
+        for (Map.Entry<String, List<QualificationCsv.StabilityRow>> e : byElement.entrySet()) {
+            PlannedMeasurand m = planned.get(e.getKey());
+            List<QualificationCsv.StabilityRow> list = e.getValue();
+            if (list.size() < 2) {
+                throw QualificationCsv.error(list.get(0).line(), "measurand", e.getKey() + " has " + list.size()
+                        + " stability result; at least 2 are needed");
+            }
+            String homogeneityCsv = latestData(roundId, e.getKey(), "HOMOGENEITY").orElseThrow(() ->
+                    QualificationCsv.error(list.get(0).line(), "measurand", "upload homogeneity data for " + e.getKey()
+                            + " first: it is the start of the stability comparison"));
+            double[][] start = items(e.getKey(), QualificationCsv.homogeneity(homogeneityCsv));
+            double[] end = list.stream().mapToDouble(QualificationCsv.StabilityRow::value).toArray();
+            StabilityCheck.Result r = StabilityCheck.evaluate(start, end, m.sigma().value());
+            StabilityFigures figures = new StabilityFigures(m.sigma().value(), m.sigma().source(), r.startMean(),
+                    r.startUncertainty(), r.endMean(), r.endUncertainty(), end.length, r.difference(), r.simpleLimit(),
+                    r.expandedLimit(), r.stable(), r.stableExpanded());
+            StringBuilder data = new StringBuilder("item,measurand,value\n");
+            list.forEach(row -> data.append(row.item()).append(',').append(row.element()).append(',')
+                    .append(row.valueText()).append('\n'));
+            toStore.add(new Stored(e.getKey(), "STABILITY", m.sigma(), data.toString(), json(figures), r.stable()));
+        }
+        store(roundId, toStore);
+        return status(roundId);
+    }
+
+    // ---- decisions ------------------------------------------------------------------------------------
+
+    @Transactional
+    public List<MeasurandQualification> decide(long roundId, DecisionRequest request) {
+        gate.enter(roundId, RoundAction.RECORD_QUALIFICATION_DECISION);
+        Map<String, PlannedMeasurand> planned = planned(roundId);
+        if (request == null || request.element() == null || !planned.containsKey(request.element().strip())) {
+            throw new DomainException.BadRequest("Name a measurand of the round's plan: " + String.join(", ", planned.keySet()) + ".");
+        }
+        String element = request.element().strip();
+        Decision decision;
+        try {
+            decision = Decision.valueOf(request.decision() == null ? "" : request.decision().strip().toUpperCase(Locale.ROOT));
+        } catch (IllegalArgumentException e) {
+            throw new DomainException.BadRequest("The decision is one of " + List.of(Decision.values()) + ".");
+        }
+        String reason = request.reason() == null || request.reason().isBlank() ? null : request.reason().strip();
+        if (reason != null && reason.length() > 2000) {
+            throw new DomainException.BadRequest("The reason has at most 2000 characters.");
+        }
+        MeasurandQualification current = status(roundId).stream().filter(q -> q.element().equals(element)).findFirst().orElseThrow();
+        if (reason == null && (decision != Decision.ACCEPT || !current.passed())) {
+            throw new DomainException.BadRequest(current.passed() ? "This decision needs a reason."
+                    : "The checks of " + element + " have not passed: a decision needs a reason.");
+        }
+        if ((decision == Decision.WIDEN_SIGMA_PT || decision == Decision.ADD_HOMOGENEITY_UNCERTAINTY)
+                && current.homogeneity() == null) {
+            throw new DomainException.Conflict("Upload homogeneity data first: this decision uses s_s.");
+        }
+        if (decision == Decision.ADD_HOMOGENEITY_UNCERTAINTY && planned.get(element).consensus()) {
+            throw new DomainException.Conflict("u_hom is added to u(x_pt) only for an assigned value that is not a"
+                    + " consensus of the round's results; widen σpt instead.");
+        }
+        OffsetDateTime now = now();
+        entityManager.createNativeQuery("""
+                INSERT INTO qualification_decision (round_id, element, decision, reason, decided_by, decided_at)
+                VALUES (:r, :e, :d, :reason, :by, :at)
+                """).setParameter("r", roundId).setParameter("e", element).setParameter("d", decision.name())
+                .setParameter("reason", reason).setParameter("by", currentUser.username()).setParameter("at", now)
+                .executeUpdate();
+        audit.record(new AuditTrail.Event(currentUser.actor(), "qualification.decided", "round", Long.toString(roundId),
+                null, null, "element=" + element + " decision=" + decision + (reason == null ? "" : " reason=" + reason)));
+        return status(roundId);
+    }
+
+    // ---- reading -------------------------------------------------------------------------------------
+
+    @Transactional
+    public List<MeasurandQualification> status(long roundId) {
+        gate.find(roundId);
+        Map<String, PlannedMeasurand> planned = plannedOrEmpty(roundId);
+        List<MeasurandQualification> out = new ArrayList<>();
+        for (PlannedMeasurand m : planned.values()) {
+            HomogeneityFigures h = latestFigures(roundId, m.element(), "HOMOGENEITY", HomogeneityFigures.class).orElse(null);
+            StabilityFigures s = latestFigures(roundId, m.element(), "STABILITY", StabilityFigures.class).orElse(null);
+            DecisionView d = latestDecision(roundId, m.element()).orElse(null);
+            boolean passed = h != null && h.sufficientlyHomogeneous() && (s == null || s.stable());
+            out.add(new MeasurandQualification(m.element(), m.unit(), h, s, d, passed, passed || d != null));
+        }
+        return out;
+    }
+
+    /** Planned measurands whose qualification is not settled (neither passed nor decided). */
+    @Transactional(Transactional.TxType.MANDATORY)
+    public List<String> unclearedElements(long roundId) {
+        return status(roundId).stream().filter(q -> !q.cleared()).map(MeasurandQualification::element).toList();
+    }
+
+    /**
+     * Whether a measurand may be scored: its qualification is settled and it was not withdrawn. For the
+     * evaluation feature.
+     */
+    @Transactional
+    public boolean mayBeScored(long roundId, String element) {
+        return status(roundId).stream().filter(q -> q.element().equals(element)).findFirst()
+                .map(q -> q.cleared() && (q.decision() == null
+                        || !Decision.WITHDRAW_MEASURAND.name().equals(q.decision().decision())))
+                .orElse(false);
+    }
+
+    // ---- internals -------------------------------------------------------------------------------------
+
+    private record PlannedMeasurand(String element, String unit, PlanDocument.QualificationSigma sigma, boolean consensus) {
+    }
+
+    private record Stored(String element, String kind, PlanDocument.QualificationSigma sigma, String csv, String figures,
+                          boolean passed) {
+    }
+
+    private Map<String, PlannedMeasurand> planned(long roundId) {
+        Map<String, PlannedMeasurand> planned = plannedOrEmpty(roundId);
+        if (planned.isEmpty()) {
+            throw new DomainException.Conflict("The round has no frozen evaluation plan.");
+        }
+        return planned;
+    }
+
+    private Map<String, PlannedMeasurand> plannedOrEmpty(long roundId) {
+        Map<String, PlannedMeasurand> out = new LinkedHashMap<>();
+        Optional<PlanStore.PlanVersion> version = plans.latest(roundId);
+        if (version.isEmpty()) {
+            return out;
+        }
+        EvaluationPlan plan = PlanDocument.read(version.get().canonicalJson(), mapper);
+        Map<String, String> units = unitsOf(version.get().canonicalJson());
+        for (EvaluationPlan.MeasurandPlan p : plan.measurands()) {
+            String unit = units.get(p.element());
+            PlanDocument.QualificationSigma sigma = PlanDocument.qualificationSigma(p, unit)
+                    .orElseThrow(() -> new IllegalStateException("frozen plan without qualification sigma"));
+            EvaluationPlan.AssignedValueMethod av = EvaluationPlan.AssignedValueMethod.valueOf(p.assignedValueMethod());
+            boolean consensus = av != EvaluationPlan.AssignedValueMethod.CERTIFIED_REFERENCE
+                    && av != EvaluationPlan.AssignedValueMethod.REFERENCE_LABORATORY;
+            out.put(p.element(), new PlannedMeasurand(p.element(), unit, sigma, consensus));
+        }
+        return out;
+    }
+
+    private Map<String, String> unitsOf(String canonicalJson) {
+        try {
+            Map<String, String> units = new LinkedHashMap<>();
+            mapper.readTree(canonicalJson).get("measurands")
+                    .forEach(n -> units.put(n.get("element").asText(), n.get("unit").asText()));
+            return units;
+        } catch (JsonProcessingException e) {
+            throw new IllegalStateException(e);
+        }
+    }
+
+    /** Items as rows of replicates, in item order; checks g ≥ 10 and equal replicate counts ≥ 2. */
+    private static double[][] items(String element, List<QualificationCsv.HomogeneityRow> rows) {
+        Map<String, TreeMap<Integer, Double>> byItem = new TreeMap<>();
+        Map<String, Integer> firstLine = new LinkedHashMap<>();
+        for (QualificationCsv.HomogeneityRow row : rows) {
+            byItem.computeIfAbsent(row.item(), i -> new TreeMap<>()).put(row.replicate(), row.value());
+            firstLine.putIfAbsent(row.item(), row.line());
+        }
+        if (byItem.size() < HomogeneityCheck.RECOMMENDED_ITEMS) {
+            throw QualificationCsv.error(rows.get(0).line(), "item", element + " has " + byItem.size()
+                    + " items; the homogeneity check needs at least " + HomogeneityCheck.RECOMMENDED_ITEMS);
+        }
+        int m = -1;
+        double[][] items = new double[byItem.size()][];
+        int t = 0;
+        for (Map.Entry<String, TreeMap<Integer, Double>> e : byItem.entrySet()) {
+            int count = e.getValue().size();
+            if (count < 2) {
+                throw QualificationCsv.error(firstLine.get(e.getKey()), "replicate", "item " + e.getKey() + " of " + element
+                        + " has " + count + " replicate; at least 2 are needed");
+            }
+            if (m >= 0 && count != m) {
+                throw QualificationCsv.error(firstLine.get(e.getKey()), "replicate", "item " + e.getKey() + " of " + element
+                        + " has " + count + " replicates, other items " + m + "; every item needs the same number");
+            }
+            m = count;
+            items[t++] = e.getValue().values().stream().mapToDouble(Double::doubleValue).toArray();
+        }
+        return items;
+    }
+
+    private static String csvOf(List<QualificationCsv.HomogeneityRow> rows) {
+        StringBuilder data = new StringBuilder("item,replicate,measurand,value\n");
+        rows.forEach(r -> data.append(r.item()).append(',').append(r.replicate()).append(',').append(r.element())
+                .append(',').append(r.valueText()).append('\n'));
+        return data.toString();
+    }
+
+    private void store(long roundId, List<Stored> stored) {
+        OffsetDateTime now = now();
+        for (Stored s : stored) {
+            String dataHash = Secrets.sha256Hex(s.csv());
+            entityManager.createNativeQuery("""
+                    INSERT INTO qualification_check (round_id, element, kind, sigma_pt, sigma_pt_source, data_csv,
+                           data_sha256, figures_json, passed, uploaded_by, uploaded_at)
+                    VALUES (:r, :e, :k, :sigma, :source, :csv, :sha, :figures, :passed, :by, :at)
+                    """).setParameter("r", roundId).setParameter("e", s.element()).setParameter("k", s.kind())
+                    .setParameter("sigma", java.math.BigDecimal.valueOf(s.sigma().value()))
+                    .setParameter("source", s.sigma().source())
+                    .setParameter("csv", s.csv()).setParameter("sha", dataHash).setParameter("figures", s.figures())
+                    .setParameter("passed", s.passed()).setParameter("by", currentUser.username()).setParameter("at", now)
+                    .executeUpdate();
+            audit.record(new AuditTrail.Event(currentUser.actor(), "qualification." + s.kind().toLowerCase(Locale.ROOT)
+                    + "-uploaded", "round", Long.toString(roundId), null, dataHash,
+                    "element=" + s.element() + " passed=" + s.passed()));
+        }
+    }
+
+    private Optional<String> latestData(long roundId, String element, String kind) {
+        @SuppressWarnings("unchecked")
+        List<String> rows = entityManager.createNativeQuery("""
+                SELECT data_csv FROM qualification_check WHERE round_id = :r AND element = :e AND kind = :k
+                 ORDER BY id DESC LIMIT 1
+                """).setParameter("r", roundId).setParameter("e", element).setParameter("k", kind).getResultList();
+        return rows.stream().findFirst();
+    }
+
+    private <T> Optional<T> latestFigures(long roundId, String element, String kind, Class<T> type) {
+        @SuppressWarnings("unchecked")
+        List<String> rows = entityManager.createNativeQuery("""
+                SELECT figures_json FROM qualification_check WHERE round_id = :r AND element = :e AND kind = :k
+                 ORDER BY id DESC LIMIT 1
+                """).setParameter("r", roundId).setParameter("e", element).setParameter("k", kind).getResultList();
+        return rows.stream().findFirst().map(json -> {
+            try {
+                return mapper.readValue(json, type);
+            } catch (JsonProcessingException e) {
+                throw new IllegalStateException(e);
+            }
+        });
+    }
+
+    private Optional<DecisionView> latestDecision(long roundId, String element) {
+        @SuppressWarnings("unchecked")
+        List<Object[]> rows = entityManager.createNativeQuery("""
+                SELECT decision, reason, decided_by, decided_at FROM qualification_decision
+                 WHERE round_id = :r AND element = :e ORDER BY id DESC LIMIT 1
+                """).setParameter("r", roundId).setParameter("e", element).getResultList();
+        return rows.stream().findFirst().map(r -> new DecisionView((String) r[0], (String) r[1], (String) r[2],
+                toOffset(r[3])));
+    }
+
+    private String json(Object figures) {
+        try {
+            return mapper.writeValueAsString(figures);
+        } catch (JsonProcessingException e) {
+            throw new IllegalStateException(e);
+        }
+    }
+
+    private static OffsetDateTime toOffset(Object value) {
+        if (value instanceof OffsetDateTime o) {
+            return o;
+        }
+        if (value instanceof java.time.Instant i) {
+            return i.atOffset(ZoneOffset.UTC);
+        }
+        if (value instanceof java.sql.Timestamp t) {
+            return t.toInstant().atOffset(ZoneOffset.UTC);
+        }
+        return value == null ? null : OffsetDateTime.parse(value.toString());
+    }
+
+    private OffsetDateTime now() {
+        return OffsetDateTime.now(clock).withOffsetSameInstant(ZoneOffset.UTC);
+    }
+}

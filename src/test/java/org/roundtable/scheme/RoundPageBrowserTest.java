@@ -1,0 +1,70 @@
+package org.roundtable.scheme;
+
+import io.quarkus.test.common.http.TestHTTPResource;
+import io.quarkus.test.junit.QuarkusTest;
+import jakarta.inject.Inject;
+import org.junit.jupiter.api.AfterEach;
+import org.junit.jupiter.api.Test;
+import org.openqa.selenium.By;
+import org.openqa.selenium.WebDriver;
+import org.roundtable.testing.Browser;
+import org.roundtable.testing.World;
+
+import java.net.URL;
+
+import static org.assertj.core.api.Assertions.assertThat;
+
+/**
+ * A coordinator in Chromium: signs in, qualifies a round's items by pasting the homogeneity data, confirms
+ * qualification and dispatches — the state and the figures show on the page.
+ */
+@QuarkusTest
+class RoundPageBrowserTest {
+
+    @TestHTTPResource("/")
+    URL home;
+
+    @Inject
+    World world;
+
+    private WebDriver browser;
+
+    @AfterEach
+    void quit() {
+        if (browser != null) {
+            browser.quit();
+        }
+    }
+
+    @Test
+    void aCoordinatorChecksHomogeneityConfirmsQualificationAndDispatchesInTheBrowser() {
+        long lab = world.laboratory();
+        long round = world.round(RoundState.ENROLLING, lab);
+        String coordinator = world.user("coordinator", null);
+        browser = Browser.start();
+        browser.get(home + "login");
+        browser.findElement(By.id("username")).sendKeys(coordinator);
+        browser.findElement(By.id("password")).sendKeys(World.PASSWORD);
+        browser.findElement(By.cssSelector("form button[type=submit]")).click();
+
+        new org.openqa.selenium.support.ui.WebDriverWait(browser, java.time.Duration.ofSeconds(10))
+                .until(d -> !d.getCurrentUrl().contains("/login") || d.getPageSource().contains("notice-error")
+                        || d.getPageSource().contains("panel-error"));
+        assertThat(browser.getCurrentUrl()).as(browser.getPageSource()).doesNotContain("/login");
+        browser.get(home + "rounds/" + round);
+        assertThat(browser.getTitle()).as(browser.getPageSource()).contains("Round");
+        assertThat(browser.findElement(By.id("round-state")).getText()).isEqualTo("Enrolling");
+        browser.findElement(By.id("homogeneity-csv")).sendKeys(HomogeneityWorkedExampleTest.csv());
+        browser.findElement(By.xpath("//button[text()='Check homogeneity']")).click();
+        String table = browser.findElement(By.id("qualification")).getText();
+        // statistics reference §14.8 (CALC): s_x 0.0166333, s_w 0.0167332, s_s 0.0116905 to 6 significant digits
+        assertThat(table).contains("0.0166333").contains("0.0167332").contains("0.0116905").contains("sufficient");
+
+        browser.findElement(By.cssSelector("button[data-action=CONFIRM_QUALIFICATION]")).click();
+        assertThat(browser.findElement(By.id("round-state")).getText()).isEqualTo("Items qualified");
+        browser.findElement(By.cssSelector("button[data-action=DISPATCH_ITEMS]")).click();
+        assertThat(browser.findElement(By.id("round-state")).getText()).isEqualTo("Dispatched");
+        assertThat(browser.findElement(By.id("items")).getText()).contains("Dispatched");
+        Browser.screenshot(browser, "round-dispatched");
+    }
+}
