@@ -10,6 +10,7 @@ import java.nio.charset.CoderResult;
 import java.nio.charset.CodingErrorAction;
 import java.nio.charset.StandardCharsets;
 import java.util.ArrayList;
+import java.util.Arrays;
 import java.util.List;
 import org.apache.commons.csv.CSVFormat;
 import org.apache.commons.csv.CSVParser;
@@ -89,15 +90,16 @@ final class CsvUploadReader {
             throw reject(IntakeKey.FILE_EMPTY, "The file contains no rows.");
         }
         checkLineLengths(text);
+        int[] lineStarts = lineStarts(text);
         int headerStart = firstNonBlankLineStart(text);
-        char delimiter = detectDelimiter(text, headerStart);
+        char delimiter = detectDelimiter(text, headerStart, lineOf(lineStarts, headerStart));
         detection = detection.withDelimiter(delimiter);
-        checkQuotes(text, headerStart, delimiter);
-        return parse(text, delimiter, problems);
+        checkQuotes(text, headerStart, lineOf(lineStarts, headerStart), delimiter);
+        return parse(text, lineStarts, delimiter, problems);
     }
 
-    private Table parse(String text, char delimiter, List<IntakeProblem> problems) throws UploadRejectedException {
-        int[] lineStarts = lineStarts(text);
+    private Table parse(String text, int[] lineStarts, char delimiter, List<IntakeProblem> problems)
+            throws UploadRejectedException {
         CSVFormat format = CSVFormat.RFC4180.builder()
                 .setDelimiter(delimiter)
                 .setIgnoreEmptyLines(true)
@@ -177,7 +179,7 @@ final class CsvUploadReader {
         }
     }
 
-    private char detectDelimiter(String text, int headerStart) throws UploadRejectedException {
+    private char detectDelimiter(String text, int headerStart, int headerRow) throws UploadRejectedException {
         int commas = 0;
         int semicolons = 0;
         boolean tabOrBar = false;
@@ -196,7 +198,6 @@ final class CsvUploadReader {
                 tabOrBar = true;
             }
         }
-        int headerRow = lineOf(lineStarts(text), headerStart);
         if (commas > 0 && semicolons > 0) {
             throw new UploadRejectedException(IntakeProblem.of(headerRow, null, null, IntakeKey.CSV_MIXED_DELIMITERS,
                     "The header row uses both ',' and ';' as delimiters; use one of them throughout."));
@@ -210,8 +211,8 @@ final class CsvUploadReader {
     }
 
     /** Finds a quoted field that never closes, or text after a closing quote, before commons-csv reads the file. */
-    private void checkQuotes(String text, int start, char delimiter) throws UploadRejectedException {
-        int line = lineOf(lineStarts(text), start);
+    private void checkQuotes(String text, int start, int startLine, char delimiter) throws UploadRejectedException {
+        int line = startLine;
         boolean fieldStart = true;
         boolean quoted = false;
         int openLine = 0;
@@ -335,14 +336,17 @@ final class CsvUploadReader {
 
     /** Start offsets of the physical lines (LF, CRLF or CR). */
     private static int[] lineStarts(String text) {
-        List<Integer> starts = new ArrayList<>();
-        starts.add(0);
+        int[] starts = new int[1024];
+        int count = 1;
         for (int i = 0; i < text.length(); i++) {
             if (isLineBreak(text, i)) {
-                starts.add(i + 1);
+                if (count == starts.length) {
+                    starts = Arrays.copyOf(starts, starts.length * 2);
+                }
+                starts[count++] = i + 1;
             }
         }
-        return starts.stream().mapToInt(Integer::intValue).toArray();
+        return Arrays.copyOf(starts, count);
     }
 
     private static int lineOf(int[] lineStarts, int position) {

@@ -16,6 +16,7 @@ import org.apache.poi.ooxml.POIXMLException;
 import org.apache.poi.openxml4j.exceptions.NotOfficeXmlFileException;
 import org.apache.poi.openxml4j.exceptions.OpenXML4JException;
 import org.apache.poi.openxml4j.opc.OPCPackage;
+import org.apache.poi.openxml4j.opc.PackageRelationshipTypes;
 import org.apache.poi.openxml4j.util.ZipSecureFile;
 import org.apache.poi.ss.usermodel.DataFormatter;
 import org.apache.poi.ss.util.CellReference;
@@ -37,7 +38,8 @@ import org.xml.sax.helpers.DefaultHandler;
  *       {@code EncryptionInfo} stream → {@code xlsx.encrypted}, else (legacy .xls) → {@code xlsx.legacy-format};
  *       anything that is not a zip (executable, PDF, text …) → {@code file.type-mismatch};</li>
  *   <li>{@link ZipInspection} (entry count, sizes, inflate ratio, names, macros, external links, DOCTYPE) before POI
- *       sees the bytes;</li>
+ *       sees the bytes; a zip without {@code [Content_Types].xml} (a plain zip, an OpenDocument file) →
+ *       {@code xlsx.not-a-workbook};</li>
  *   <li>POI's own guard ({@link ZipSecureFile}): the process-wide minimum inflate ratio, maximum entry size and
  *       maximum file count are tightened to {@link Limits} if they are looser (never loosened; the ratio is never
  *       −1); a zip that is no OOXML package → {@code xlsx.not-a-workbook}; other failures → {@code xlsx.corrupt}.</li>
@@ -86,12 +88,16 @@ final class XlsxUploadReader {
             throw reject(IntakeKey.FILE_TYPE_MISMATCH, "The file was sent as XLSX but is "
                     + (binaryType != null ? binaryType : "not a workbook (an XLSX file is a zip archive)") + ".");
         }
-        ZipInspection.inspect(bytes, limits);
+        if (!ZipInspection.inspect(bytes, limits).contains("[Content_Types].xml")) {
+            throw reject(IntakeKey.XLSX_NOT_A_WORKBOOK, "The zip file is not an Excel workbook (it has no "
+                    + "[Content_Types].xml part).");
+        }
         detection = detection.withEncoding("OOXML", false);
         tightenPoiGuards(limits);
         OPCPackage workbook = null;
         try {
             workbook = OPCPackage.open(new ByteArrayInputStream(bytes));
+            requireSpreadsheet(workbook);
             XSSFReader reader = new XSSFReader(workbook);
             List<String> sharedStrings = readSharedStrings(reader);
             StylesTable styles = reader.getStylesTable();
@@ -121,6 +127,14 @@ final class XlsxUploadReader {
             if (workbook != null) {
                 workbook.revert();
             }
+        }
+    }
+
+    /** A Word or PowerPoint file renamed to .xlsx is a valid OOXML package but no workbook. */
+    private static void requireSpreadsheet(OPCPackage workbook) throws UploadRejectedException {
+        var documents = workbook.getPartsByRelationshipType(PackageRelationshipTypes.CORE_DOCUMENT);
+        if (documents.isEmpty() || !documents.get(0).getContentType().contains("spreadsheetml")) {
+            throw reject(IntakeKey.XLSX_NOT_A_WORKBOOK, "The file is an Office document but not an Excel workbook.");
         }
     }
 

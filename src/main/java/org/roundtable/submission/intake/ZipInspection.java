@@ -6,6 +6,7 @@ import java.nio.charset.StandardCharsets;
 import java.util.HashMap;
 import java.util.Locale;
 import java.util.Map;
+import java.util.Set;
 import java.util.zip.ZipEntry;
 import java.util.zip.ZipInputStream;
 
@@ -41,9 +42,11 @@ final class ZipInspection {
     private ZipInspection() {
     }
 
-    static void inspect(byte[] zip, Limits limits) throws UploadRejectedException {
+    /** Runs both passes; returns the entry names. */
+    static Set<String> inspect(byte[] zip, Limits limits) throws UploadRejectedException {
         Map<String, Long> declaredSizes = readCentralDirectory(zip, limits);
         inflateAll(zip, limits, declaredSizes);
+        return Set.copyOf(declaredSizes.keySet());
     }
 
     private static Map<String, Long> readCentralDirectory(byte[] zip, Limits limits) throws UploadRejectedException {
