@@ -14,11 +14,15 @@ import java.util.Objects;
  * ResultIntake intake = new ResultIntake();                       // Limits.defaults(); thread-safe, reusable
  * UploadFormat format = UploadFormat.fromFileName(fileName).orElseThrow(...);   // or CSV/XLSX/JSON by endpoint
  * IntakeResult outcome = intake.read(bytes, format, rulesOfTheRound);
- * switch (outcome) {
- *     case IntakeResult.Accepted a -> store a.results(), show a.warnings() for confirmation, receipt a.sha256()
- *     case IntakeResult.Rejected r -> 4xx with r.problems(); store nothing
+ * if (outcome instanceof IntakeResult.Accepted accepted) {
+ *     // show accepted.warnings() for confirmation; store accepted.results() in one transaction;
+ *     // put accepted.sha256() (of accepted.canonicalJson()) on the receipt
+ * } else if (outcome instanceof IntakeResult.Rejected rejected) {
+ *     // answer 4xx (e.g. 422) with rejected.problems() and rejected.detection(); store nothing
  * }
  * }</pre>
+ * The caller also enforces the HTTP body limit; {@link #read(InputStream, UploadFormat, UploadRules)} reads at most
+ * one byte more than {@link Limits#maxFileBytes()}.
  *
  * <p>All channels share one validation path ({@link Table} for CSV/XLSX, then {@link ResultValidator}); the rules
  * and error keys are documented there, in {@link CsvUploadReader}, {@link XlsxUploadReader},

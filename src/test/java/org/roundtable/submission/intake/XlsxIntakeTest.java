@@ -85,6 +85,16 @@ class XlsxIntakeTest {
     }
 
     @Test
+    void theCommittedAcceptedWorkbookWithFormattedNumberCellsGivesTheSameHashAsTheCsv() {
+        IntakeResult.Accepted accepted = accepted(intake.read(resource("accepted/results.xlsx"), UploadFormat.XLSX,
+                LowAlloySteelRound.singleItem()));
+
+        assertThat(accepted.results()).hasSize(10);
+        assertThat(accepted.warnings()).isEmpty();
+        assertThat(accepted.sha256()).isEqualTo(csvReference().sha256());
+    }
+
+    @Test
     void numberCellsFormattedWithThreeDecimalsKeepTheirTrailingZeros() throws IOException {
         IntakeResult.Accepted accepted = accepted(intake.read(workbook(ROWS, "0.000", 0), UploadFormat.XLSX,
                 LowAlloySteelRound.singleItem()));

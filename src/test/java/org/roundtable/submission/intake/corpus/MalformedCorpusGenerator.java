@@ -100,6 +100,10 @@ public final class MalformedCorpusGenerator {
                     .append(c.column() == null ? "" : c.column()).append('\n');
         }
         Files.writeString(directory.resolve("MANIFEST.csv"), manifest.toString(), StandardCharsets.UTF_8);
+        Path accepted = directory.resolveSibling("accepted");
+        if (Files.isDirectory(accepted)) {
+            Files.write(accepted.resolve("results.xlsx"), acceptedWorkbook());
+        }
         System.out.println(generator.cases.size() + " cases written to " + directory);
     }
 
@@ -713,6 +717,22 @@ public final class MalformedCorpusGenerator {
         }
     }
 
+    /**
+     * The valid upload as a lab would type it: numbers as number cells, % values formatted with three decimals,
+     * N in mg/kg with none; written to {@code uploads/accepted/results.xlsx}.
+     */
+    static byte[] acceptedWorkbook() throws IOException {
+        List<List<Object>> cells = cellsOf(table());
+        for (List<Object> row : cells.subList(1, cells.size())) {
+            String format = row.get(2).equals("%") ? "0.000" : "0";
+            row.set(1, new Formatted(Double.parseDouble((String) row.get(1)), format));
+            row.set(3, new Formatted(Double.parseDouble((String) row.get(3)), format));
+            row.set(4, Double.valueOf((String) row.get(4)));
+            row.set(6, Double.valueOf((String) row.get(6)));
+        }
+        return xlsx(cells);
+    }
+
     private static byte[] xlsxWithSecondSheet(List<List<Object>> cells) throws IOException {
         try (XSSFWorkbook workbook = new XSSFWorkbook()) {
             workbook.createSheet("Notes");
@@ -751,6 +771,7 @@ public final class MalformedCorpusGenerator {
     }
 
     private static byte[] write(XSSFWorkbook workbook) throws IOException {
+        workbook.getProperties().getCoreProperties().setCreated(java.util.Optional.of(new java.util.Date(FIXED_TIME)));
         ByteArrayOutputStream out = new ByteArrayOutputStream();
         workbook.write(out);
         return out.toByteArray();
