@@ -41,9 +41,14 @@ final class JsonUploadReader {
     private final JsonMapper mapper;
     private Detection detection = Detection.of(UploadFormat.JSON);
 
-    JsonUploadReader(Limits limits) {
+    JsonUploadReader(Limits limits, JsonMapper mapper) {
         this.limits = limits;
-        this.mapper = JsonMapper.builder()
+        this.mapper = mapper;
+    }
+
+    /** The strict mapper for uploads; thread-safe, built once per {@link ResultIntake}. */
+    static JsonMapper strictMapper(Limits limits) {
+        JsonMapper mapper = JsonMapper.builder()
                 .enable(JsonParser.Feature.STRICT_DUPLICATE_DETECTION)
                 .disable(JsonReadFeature.ALLOW_JAVA_COMMENTS)
                 .enable(DeserializationFeature.USE_BIG_DECIMAL_FOR_FLOATS)
@@ -56,6 +61,7 @@ final class JsonUploadReader {
                 .maxStringLength(Math.max(limits.maxCellChars() * 4, 1024))
                 .maxNumberLength(limits.maxCellChars())
                 .build());
+        return mapper;
     }
 
     Detection detection() {

@@ -2,7 +2,9 @@ package org.roundtable.submission.intake;
 
 import java.io.IOException;
 import java.io.InputStream;
+import com.fasterxml.jackson.databind.json.JsonMapper;
 import java.util.ArrayList;
+import java.util.Comparator;
 import java.util.List;
 import java.util.Objects;
 
@@ -27,13 +29,15 @@ import java.util.Objects;
  * <p>All channels share one validation path ({@link Table} for CSV/XLSX, then {@link ResultValidator}); the rules
  * and error keys are documented there, in {@link CsvUploadReader}, {@link XlsxUploadReader},
  * {@link JsonUploadReader}, {@link IntakeKey} and {@link Limits}. The intake never throws for bad content: any
- * unexpected failure of a parser becomes {@code file.unreadable} (fail closed).
+ * unexpected failure of a parser becomes {@code file.unreadable} (fail closed). Problems are listed by row (file-level
+ * problems, row 0, first). There is no cap on their number: it is bounded by the row, column and cell limits.
  *
  * <p>The class is pure Java (plus Commons CSV, POI and Jackson): no framework, no database, no file system.
  */
 public final class ResultIntake {
 
     private final Limits limits;
+    private final JsonMapper jsonMapper;
 
     /** An intake with {@link Limits#defaults()}. */
     public ResultIntake() {
@@ -42,6 +46,7 @@ public final class ResultIntake {
 
     public ResultIntake(Limits limits) {
         this.limits = Objects.requireNonNull(limits, "limits");
+        this.jsonMapper = JsonUploadReader.strictMapper(limits);
     }
 
     public Limits limits() {
@@ -116,7 +121,7 @@ public final class ResultIntake {
     }
 
     private IntakeResult readJson(byte[] content, UploadRules rules) {
-        JsonUploadReader reader = new JsonUploadReader(limits);
+        JsonUploadReader reader = new JsonUploadReader(limits, jsonMapper);
         List<IntakeProblem> problems = new ArrayList<>();
         try {
             List<RawRow> rows = reader.read(content, problems);
@@ -132,7 +137,10 @@ public final class ResultIntake {
     private static IntakeResult outcome(ResultValidator.Outcome outcome, Detection detection) {
         Detection detected = detection.withDecimalSeparator(outcome.decimalSeparator());
         if (!outcome.problems().isEmpty()) {
-            return new IntakeResult.Rejected(outcome.problems(), detected);
+            // stable sort: file-level problems first, then by row; within a row in the order found
+            List<IntakeProblem> problems = new ArrayList<>(outcome.problems());
+            problems.sort(Comparator.comparingInt(IntakeProblem::row));
+            return new IntakeResult.Rejected(problems, detected);
         }
         String canonicalJson = CanonicalPayload.toJson(outcome.results());
         return new IntakeResult.Accepted(outcome.results(), outcome.warnings(), detected, canonicalJson,
