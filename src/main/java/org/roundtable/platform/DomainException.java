@@ -8,11 +8,28 @@ public class DomainException extends RuntimeException {
 
     private final int status;
     private final String title;
+    private final java.util.List<Detail> details;
 
     public DomainException(int status, String title, String detail) {
+        this(status, title, detail, java.util.List.of());
+    }
+
+    public DomainException(int status, String title, String detail, java.util.List<Detail> details) {
         super(detail);
         this.status = status;
         this.title = title;
+        this.details = java.util.List.copyOf(details);
+    }
+
+    /**
+     * One specific problem behind the failure, e.g. a bad cell of an upload: row (1 = header, null where not
+     * applicable), column or field, the offending value, a stable key and a plain message.
+     */
+    public record Detail(Integer row, String column, String value, String key, String message) {
+    }
+
+    public java.util.List<Detail> details() {
+        return details;
     }
 
     public int status() {
@@ -52,6 +69,10 @@ public class DomainException extends RuntimeException {
     public static class Unprocessable extends DomainException {
         public Unprocessable(String detail) {
             super(422, "Cannot be accepted", detail);
+        }
+
+        public Unprocessable(String detail, java.util.List<Detail> details) {
+            super(422, "Cannot be accepted", detail, details);
         }
     }
 

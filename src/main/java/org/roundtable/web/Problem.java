@@ -8,7 +8,8 @@ import java.util.List;
  */
 public record Problem(int status, String title, String detail, String requestId, List<FieldError> errors) {
 
-    public record FieldError(String field, String key, String message) {
+    /** One specific problem: row (1 = header; null where not applicable), field or column, value, key, message. */
+    public record FieldError(Integer row, String field, String value, String key, String message) {
     }
 
     public static Problem of(int status, String title, String detail, String requestId) {

@@ -77,13 +77,15 @@ public class ProblemMapper {
         if (e.status() == 403) {
             SecurityLog.denied(actor(), request.getMethod(), uri.getPath(), 403);
         }
-        return answer(e.status(), e.title(), e.detail(), List.of(), headers);
+        List<Problem.FieldError> details = e.details().stream()
+                .map(d -> new Problem.FieldError(d.row(), d.column(), d.value(), d.key(), d.message())).toList();
+        return answer(e.status(), e.title(), e.detail(), details, headers);
     }
 
     @ServerExceptionMapper
     public Response validation(ConstraintViolationException e, HttpHeaders headers) {
         List<Problem.FieldError> errors = e.getConstraintViolations().stream()
-                .map(v -> new Problem.FieldError(lastNode(v.getPropertyPath().toString()), "invalid", v.getMessage()))
+                .map(v -> new Problem.FieldError(null, lastNode(v.getPropertyPath().toString()), null, "invalid", v.getMessage()))
                 .sorted((a, b) -> a.field().compareTo(b.field()))
                 .toList();
         return answer(400, "Invalid request", "Some fields are not valid.", errors, headers);

@@ -226,8 +226,16 @@ class AuthorizationMatrixTest {
         }
         if (resolved.contains("{roundId}")) {
             // a round where the endpoints can act: items out, laboratory A enrolled (laboratory B is not)
-            long round = world.round(org.roundtable.scheme.RoundState.DISPATCHED, labA);
+            // results need a round open for results; other round endpoints a dispatched one
+            boolean results = resolved.contains("submission") || resolved.contains("results")
+                    || resolved.contains("messages") || resolved.contains("review-flags");
+            long round = world.round(results ? org.roundtable.scheme.RoundState.OPEN_FOR_RESULTS
+                    : org.roundtable.scheme.RoundState.DISPATCHED, labA);
             resolved = resolved.replace("{roundId}", Long.toString(round));
+            if (resolved.contains("{revision}")) {
+                world.submitCr(round, labA, "18.12");
+                resolved = resolved.replace("{revision}", "1");
+            }
             if (resolved.contains("{itemId}")) {
                 resolved = resolved.replace("{itemId}", Long.toString(world.itemOf(round, labA)));
             }

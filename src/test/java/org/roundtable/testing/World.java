@@ -161,6 +161,15 @@ public class World {
         return round;
     }
 
+    /** Laboratory {@code laboratoryId} submits one Cr result through the JSON API with a fresh token; returns the receipt id. */
+    public String submitCr(long roundId, long laboratoryId, String value) {
+        return given().header("Authorization", "Bearer " + apiToken(laboratoryId)).contentType("application/json")
+                .body("{\"results\":[{\"measurand\":\"Cr\",\"value\":\"" + value + "\",\"unit\":\"%\","
+                        + "\"method\":\"spark-oes\",\"replicates\":2}]}")
+                .post("/api/v1/my-rounds/" + roundId + "/submission")
+                .then().statusCode(201).extract().path("receiptId");
+    }
+
     /** The current item "A" of the laboratory in the round. */
     public long itemOf(long roundId, long laboratoryId) {
         return insert("SELECT id FROM item_dispatch WHERE round_id = ? AND laboratory_id = ? AND status <> 'REPLACED' ORDER BY id DESC LIMIT 1",

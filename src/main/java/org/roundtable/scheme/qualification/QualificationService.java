@@ -267,6 +267,14 @@ public class QualificationService {
                 .orElse(false);
     }
 
+    /** Whether the coordinator's latest decision withdrew the measurand from the round (for submissions). */
+    @Transactional
+    public boolean withdrawn(long roundId, String element) {
+        return status(roundId).stream().filter(q -> q.element().equals(element)).findFirst()
+                .map(q -> q.decision() != null && Decision.WITHDRAW_MEASURAND.name().equals(q.decision().decision()))
+                .orElse(false);
+    }
+
     // ---- internals -------------------------------------------------------------------------------------
 
     private record PlannedMeasurand(String element, String unit, PlanDocument.QualificationSigma sigma, boolean consensus) {

@@ -1,0 +1,147 @@
+package org.roundtable.scheme;
+
+import jakarta.enterprise.context.ApplicationScoped;
+import jakarta.persistence.EntityManager;
+import jakarta.persistence.LockModeType;
+import jakarta.transaction.Transactional;
+import org.roundtable.platform.DomainException;
+import org.roundtable.scheme.qualification.QualificationService;
+
+import java.math.BigDecimal;
+import java.time.OffsetDateTime;
+import java.util.Arrays;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.Optional;
+
+/**
+ * What other features (submissions, evaluation) may know of a round, without reaching into its entities: the
+ * submission window under a shared row lock, the measurands open for results, and participant codes.
+ */
+@ApplicationScoped
+public class RoundAccess {
+
+    private final EntityManager entityManager;
+    private final PlanStore plans;
+    private final SchemeService schemes;
+    private final QualificationService qualification;
+
+    public RoundAccess(EntityManager entityManager, PlanStore plans, SchemeService schemes,
+                       QualificationService qualification) {
+        this.entityManager = entityManager;
+        this.plans = plans;
+        this.schemes = schemes;
+        this.qualification = qualification;
+    }
+
+    /** The part of a round that decides whether results may be written now. */
+    public record SubmissionWindow(long roundId, String roundCode, String state, OffsetDateTime resultDeadline,
+                                   String deadlineTimeZone, String latePolicy, List<String> itemLabels) {
+        public boolean openForResults() {
+            return RoundState.OPEN_FOR_RESULTS.name().equals(state);
+        }
+
+        /** Closed for laboratories but before any report: the window for a coordinator's correction. */
+        public boolean closedBeforeIssue() {
+            return RoundState.CLOSED.name().equals(state) || RoundState.EVALUATING.name().equals(state);
+        }
+
+        public boolean refusesLateResults() {
+            return Round.LatePolicy.REFUSE.name().equals(latePolicy);
+        }
+
+        public boolean scoresLateResults() {
+            return Round.LatePolicy.ACCEPT_FLAGGED_SCORED.name().equals(latePolicy);
+        }
+    }
+
+    /** A measurand open for results, with what the catalogue says about it. */
+    public record OpenMeasurand(String element, String unit, int reportingDigits, BigDecimal expectedMin,
+                                BigDecimal expectedMax, List<String> methodGroups) {
+    }
+
+    /**
+     * Reads the round's submission window holding a shared row lock ({@code FOR SHARE}) until the transaction
+     * ends: a lifecycle step (which takes the row for update) waits for writes in flight and vice versa, so a
+     * submission racing the close is either fully in or refused.
+     */
+    @Transactional(Transactional.TxType.MANDATORY)
+    public SubmissionWindow lockForSubmission(long roundId) {
+        Round round = entityManager.find(Round.class, roundId, LockModeType.PESSIMISTIC_READ);
+        if (round == null) {
+            throw new DomainException.NotFound("The round");
+        }
+        return window(round);
+    }
+
+    @Transactional
+    public SubmissionWindow window(long roundId) {
+        Round round = entityManager.find(Round.class, roundId);
+        if (round == null) {
+            throw new DomainException.NotFound("The round");
+        }
+        return window(round);
+    }
+
+    /** The laboratory's participant code in the round, or empty when it is not enrolled. */
+    @Transactional
+    public Optional<String> participantCode(long roundId, long laboratoryId) {
+        @SuppressWarnings("unchecked")
+        List<String> codes = entityManager.createNativeQuery(
+                        "SELECT participant_code FROM round_participant WHERE round_id = :r AND laboratory_id = :l")
+                .setParameter("r", roundId).setParameter("l", laboratoryId).getResultList();
+        return codes.stream().findFirst();
+    }
+
+    /** Laboratory id to participant code for every enrolled laboratory (coordinators only). */
+    @Transactional
+    public Map<Long, String> participantCodes(long roundId) {
+        @SuppressWarnings("unchecked")
+        List<Object[]> rows = entityManager.createNativeQuery(
+                        "SELECT laboratory_id, participant_code FROM round_participant WHERE round_id = :r ORDER BY participant_code")
+                .setParameter("r", roundId).getResultList();
+        Map<Long, String> codes = new LinkedHashMap<>();
+        rows.forEach(row -> codes.put(((Number) row[0]).longValue(), (String) row[1]));
+        return codes;
+    }
+
+    /**
+     * The measurands laboratories report in this round: those of the frozen plan, as the scheme's catalogue
+     * describes them, less any withdrawn by a qualification decision.
+     */
+    @Transactional
+    public List<OpenMeasurand> openMeasurands(long roundId) {
+        Round round = entityManager.find(Round.class, roundId);
+        if (round == null) {
+            throw new DomainException.NotFound("The round");
+        }
+        EvaluationPlan plan = plans.current(roundId)
+                .orElseThrow(() -> new DomainException.Conflict("The round has no frozen evaluation plan."));
+        Map<String, Measurand> catalogue = new LinkedHashMap<>();
+        schemes.catalogue(round.schemeId).forEach(m -> catalogue.put(m.element, m));
+        return plan.measurands().stream()
+                .map(EvaluationPlan.MeasurandPlan::element)
+                .filter(catalogue::containsKey)
+                .filter(element -> !qualification.withdrawn(roundId, element))
+                .map(catalogue::get)
+                .map(m -> new OpenMeasurand(m.element, m.unit, m.reportingDigits, m.expectedMin, m.expectedMax,
+                        Arrays.asList(m.methodGroups.split(","))))
+                .toList();
+    }
+
+    /** Rounds still open for results whose deadline has passed and which refuse late results. */
+    @Transactional
+    public List<Long> dueForClosing(OffsetDateTime now) {
+        @SuppressWarnings("unchecked")
+        List<Number> ids = entityManager.createNativeQuery("""
+                SELECT id FROM round WHERE state = 'OPEN_FOR_RESULTS' AND late_policy = 'REFUSE' AND result_deadline < :now
+                """).setParameter("now", now).getResultList();
+        return ids.stream().map(Number::longValue).toList();
+    }
+
+    private static SubmissionWindow window(Round round) {
+        return new SubmissionWindow(round.id, round.code, round.state.name(), round.resultDeadline, round.deadlineTimeZone,
+                round.latePolicy.name(), List.of(round.itemLabels.split(",")));
+    }
+}

@@ -1,0 +1,242 @@
+package org.roundtable.submission;
+
+import com.fasterxml.jackson.databind.ObjectMapper;
+import com.fasterxml.jackson.databind.node.ArrayNode;
+import com.fasterxml.jackson.databind.node.ObjectNode;
+import io.quarkus.qute.CheckedTemplate;
+import io.quarkus.qute.TemplateInstance;
+import io.vertx.core.http.HttpServerRequest;
+import jakarta.annotation.security.RolesAllowed;
+import jakarta.ws.rs.Consumes;
+import jakarta.ws.rs.FormParam;
+import jakarta.ws.rs.GET;
+import jakarta.ws.rs.POST;
+import jakarta.ws.rs.Path;
+import jakarta.ws.rs.PathParam;
+import jakarta.ws.rs.Produces;
+import jakarta.ws.rs.core.MediaType;
+import jakarta.ws.rs.core.MultivaluedMap;
+import jakarta.ws.rs.core.Response;
+import org.jboss.resteasy.reactive.RestForm;
+import org.jboss.resteasy.reactive.multipart.FileUpload;
+import org.roundtable.account.Role;
+import org.roundtable.platform.DomainException;
+import org.roundtable.scheme.RoundAccess;
+import org.roundtable.submission.intake.UploadFormat;
+
+import java.io.IOException;
+import java.io.UncheckedIOException;
+import java.nio.file.Files;
+import java.util.List;
+
+/** Pages: a laboratory enters or uploads its results and talks to the coordinator; the coordinator follows them. */
+@Path("/")
+@Produces(MediaType.TEXT_HTML)
+public class SubmissionPages {
+
+    /** One input row of the results form: a measurand and item. */
+    public record FormRow(String element, String item, String unit, String otherUnit, List<String> methods, int digits,
+                          String fieldKey) {
+    }
+
+    /** Outcome shown on the page after a submit. */
+    public record Outcome(SubmissionViews.Receipt receipt, String error, List<DomainException.Detail> details,
+                          boolean warningsToConfirm) {
+    }
+
+    @CheckedTemplate(basePath = "submission")
+    static class Templates {
+        static native TemplateInstance results(SubmissionViews.MySubmission submission, List<FormRow> rows,
+                                               Outcome outcome, List<SubmissionViews.Message> messages);
+
+        static native TemplateInstance roundSubmissions(RoundAccess.SubmissionWindow round,
+                                                        List<SubmissionViews.Participation> participations,
+                                                        List<SubmissionViews.Flag> flags,
+                                                        List<SubmissionViews.Message> messages);
+    }
+
+    private final SubmissionService submissions;
+    private final SubmissionQueries queries;
+    private final SubmissionMessages messages;
+    private final RoundAccess rounds;
+    private final ObjectMapper mapper;
+    private final HttpServerRequest request;
+
+    public SubmissionPages(SubmissionService submissions, SubmissionQueries queries, SubmissionMessages messages,
+                           RoundAccess rounds, ObjectMapper mapper, HttpServerRequest request) {
+        this.submissions = submissions;
+        this.queries = queries;
+        this.messages = messages;
+        this.rounds = rounds;
+        this.mapper = mapper;
+        this.request = request;
+    }
+
+    // ---- laboratories -----------------------------------------------------------------------------------------
+
+    @GET
+    @Path("my-rounds/{roundId}/results")
+    @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
+    public TemplateInstance results(@PathParam("roundId") long roundId) {
+        return page(roundId, null);
+    }
+
+    @POST
+    @Path("my-rounds/{roundId}/results/form")
+    @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response submitForm(@PathParam("roundId") long roundId, MultivaluedMap<String, String> form) {
+        byte[] json = formAsJson(rows(roundId), form);
+        boolean confirm = "on".equals(form.getFirst("confirmWarnings")) || "true".equals(form.getFirst("confirmWarnings"));
+        return attempt(roundId, () -> submissions.submit(roundId, new SubmissionService.Upload(SubmissionService.Channel.FORM,
+                UploadFormat.JSON, json, null, null), confirm, null, clientAddress()));
+    }
+
+    @POST
+    @Path("my-rounds/{roundId}/results/upload")
+    @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
+    @Consumes(MediaType.MULTIPART_FORM_DATA)
+    public Response upload(@PathParam("roundId") long roundId, @RestForm("file") FileUpload file,
+                           @RestForm("confirmWarnings") String confirmWarnings) {
+        if (file == null || file.uploadedFile() == null) {
+            return attempt(roundId, () -> {
+                throw new DomainException.BadRequest("Choose a CSV or XLSX file to upload.");
+            });
+        }
+        UploadFormat format = UploadFormat.fromFileName(file.fileName()).filter(f -> f != UploadFormat.JSON).orElse(null);
+        byte[] content = read(file);
+        boolean confirm = "on".equals(confirmWarnings) || "true".equals(confirmWarnings);
+        return attempt(roundId, () -> {
+            if (format == null) {
+                throw new DomainException.BadRequest("Upload a .csv or .xlsx file.");
+            }
+            return submissions.submit(roundId, new SubmissionService.Upload(
+                    format == UploadFormat.XLSX ? SubmissionService.Channel.XLSX : SubmissionService.Channel.CSV, format,
+                    content, file.fileName(), file.contentType()), confirm, null, clientAddress());
+        });
+    }
+
+    @POST
+    @Path("my-rounds/{roundId}/messages")
+    @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response postMessage(@PathParam("roundId") long roundId, @FormParam("body") String body) {
+        return attempt(roundId, () -> {
+            messages.postAsLaboratory(roundId, body);
+            return null;
+        });
+    }
+
+    // ---- coordinators ----------------------------------------------------------------------------------------
+
+    @GET
+    @Path("rounds/{roundId}/submissions")
+    @RolesAllowed(Role.COORDINATOR_NAME)
+    public TemplateInstance roundSubmissions(@PathParam("roundId") long roundId) {
+        return Templates.roundSubmissions(rounds.window(roundId), queries.participations(roundId), queries.flags(roundId),
+                messages.allOfRound(roundId));
+    }
+
+    @POST
+    @Path("rounds/{roundId}/submissions/{laboratoryId}/messages")
+    @RolesAllowed(Role.COORDINATOR_NAME)
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public TemplateInstance reply(@PathParam("roundId") long roundId, @PathParam("laboratoryId") long laboratoryId,
+                                  @FormParam("body") String body) {
+        messages.replyAsCoordinator(roundId, laboratoryId, body);
+        return roundSubmissions(roundId);
+    }
+
+    // ---- helpers ------------------------------------------------------------------------------------------------
+
+    private Response attempt(long roundId, java.util.function.Supplier<SubmissionViews.Receipt> action) {
+        try {
+            SubmissionViews.Receipt receipt = action.get();
+            return Response.ok(page(roundId, receipt == null ? null : new Outcome(receipt, null, List.of(), false))).build();
+        } catch (DomainException.NotFound | DomainException.Forbidden e) {
+            throw e;
+        } catch (DomainException e) {
+            boolean warnings = !e.details().isEmpty() && e.details().stream().allMatch(d -> d.key().startsWith("warning."));
+            return Response.status(e.status()).entity(page(roundId, new Outcome(null, e.detail(), e.details(), warnings))).build();
+        }
+    }
+
+    private TemplateInstance page(long roundId, Outcome outcome) {
+        SubmissionViews.MySubmission mine = queries.mine(roundId);
+        List<FormRow> rows = mine.roundState().equals("OPEN_FOR_RESULTS") ? rows(roundId) : List.of();
+        return Templates.results(mine, rows, outcome, messages.ownThread(roundId));
+    }
+
+    private List<FormRow> rows(long roundId) {
+        RoundAccess.SubmissionWindow window = rounds.window(roundId);
+        return rounds.openMeasurands(roundId).stream()
+                .flatMap(m -> window.itemLabels().stream().map(item -> new FormRow(m.element(), item, m.unit(),
+                        "%".equals(m.unit()) ? "mg/kg" : "%",
+                        m.methodGroups().stream().map(g -> g.toLowerCase().replace('_', '-')).toList(), m.reportingDigits(),
+                        m.element() + "." + item)))
+                .toList();
+    }
+
+    /** The form's fields as the JSON upload format, so that the form goes through the same validation as files. */
+    byte[] formAsJson(List<FormRow> rows, MultivaluedMap<String, String> form) {
+        ObjectNode root = mapper.createObjectNode();
+        ArrayNode results = root.putArray("results");
+        for (FormRow row : rows) {
+            String value = trimmed(form.getFirst("value." + row.fieldKey()));
+            if (value == null) {
+                continue; // a measurand left empty is not reported
+            }
+            ObjectNode result = results.addObject();
+            result.put("measurand", row.element());
+            result.put("item", row.item());
+            result.put("value", value);
+            result.put("unit", orDefault(form.getFirst("unit." + row.fieldKey()), row.unit()));
+            putIfPresent(result, "expandedUncertainty", form.getFirst("u." + row.fieldKey()));
+            putIfPresent(result, "coverageFactor", form.getFirst("k." + row.fieldKey()));
+            result.put("method", orDefault(form.getFirst("method." + row.fieldKey()), row.methods().get(0)));
+            String replicates = trimmed(form.getFirst("replicates." + row.fieldKey()));
+            result.put("replicates", replicates == null ? 1 : parseReplicates(replicates));
+        }
+        try {
+            return mapper.writeValueAsBytes(root);
+        } catch (com.fasterxml.jackson.core.JsonProcessingException e) {
+            throw new IllegalStateException(e);
+        }
+    }
+
+    private static int parseReplicates(String text) {
+        try {
+            return Integer.parseInt(text);
+        } catch (NumberFormatException e) {
+            return -1; // refused by the intake with its own message
+        }
+    }
+
+    private static void putIfPresent(ObjectNode node, String field, String value) {
+        String clean = trimmed(value);
+        if (clean != null) {
+            node.put(field, clean);
+        }
+    }
+
+    private static String orDefault(String value, String fallback) {
+        String clean = trimmed(value);
+        return clean == null ? fallback : clean;
+    }
+
+    private static String trimmed(String value) {
+        return value == null || value.isBlank() ? null : value.strip();
+    }
+
+    private static byte[] read(FileUpload file) {
+        try {
+            return Files.readAllBytes(file.uploadedFile());
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+    }
+
+    private String clientAddress() {
+        return request.remoteAddress() == null ? null : request.remoteAddress().hostAddress();
+    }
+}

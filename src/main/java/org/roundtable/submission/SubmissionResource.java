@@ -1,0 +1,118 @@
+package org.roundtable.submission;
+
+import com.fasterxml.jackson.databind.ObjectMapper;
+import io.vertx.core.http.HttpServerRequest;
+import jakarta.annotation.security.RolesAllowed;
+import jakarta.ws.rs.Consumes;
+import jakarta.ws.rs.GET;
+import jakarta.ws.rs.HeaderParam;
+import jakarta.ws.rs.POST;
+import jakarta.ws.rs.Path;
+import jakarta.ws.rs.PathParam;
+import jakarta.ws.rs.Produces;
+import jakarta.ws.rs.QueryParam;
+import jakarta.ws.rs.core.MediaType;
+import jakarta.ws.rs.core.Response;
+import org.roundtable.account.Role;
+import org.roundtable.submission.intake.UploadFormat;
+
+import java.util.List;
+
+/**
+ * JSON API for a laboratory's results: members, managers and their LIMS tokens submit and read back their own
+ * results. The coordinators' side is {@link RoundSubmissionResource}.
+ */
+@Path("/api/v1/my-rounds")
+@Produces(MediaType.APPLICATION_JSON)
+public class SubmissionResource {
+
+    static final String XLSX_TYPE = "application/vnd.openxmlformats-officedocument.spreadsheetml.sheet";
+
+    private final SubmissionService submissions;
+    private final SubmissionQueries queries;
+    private final SubmissionMessages messages;
+    private final ObjectMapper mapper;
+    private final HttpServerRequest request;
+
+    public SubmissionResource(SubmissionService submissions, SubmissionQueries queries, SubmissionMessages messages,
+                              ObjectMapper mapper, HttpServerRequest request) {
+        this.submissions = submissions;
+        this.queries = queries;
+        this.messages = messages;
+        this.mapper = mapper;
+        this.request = request;
+    }
+
+    public record NewMessage(String body) {
+    }
+
+    // ---- laboratories -------------------------------------------------------------------------------------
+
+    /**
+     * Submits results as JSON: {@code {"results":[{"measurand":"Cr","item":"A","value":"18.12","unit":"%",...}]}}.
+     * Send an {@code Idempotency-Key} header to make retries safe; add {@code ?confirmWarnings=true} once the
+     * warnings of a first attempt were checked.
+     */
+    @POST
+    @Path("{roundId}/submission")
+    @Consumes(MediaType.APPLICATION_JSON)
+    @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
+    public Response submitJson(@PathParam("roundId") long roundId, byte[] body,
+                               @QueryParam("confirmWarnings") boolean confirmWarnings,
+                               @HeaderParam("Idempotency-Key") String idempotencyKey) {
+        SubmissionViews.Receipt receipt = submissions.submit(roundId, new SubmissionService.Upload(
+                SubmissionService.Channel.JSON, UploadFormat.JSON, body == null ? new byte[0] : body, null,
+                MediaType.APPLICATION_JSON), confirmWarnings, idempotencyKey, clientAddress());
+        return Response.status(201).entity(receipt).build();
+    }
+
+    /** Submits a CSV ({@code text/csv}) or XLSX file as the request body. */
+    @POST
+    @Path("{roundId}/submission/file")
+    @Consumes({"text/csv", XLSX_TYPE})
+    @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
+    public Response submitFile(@PathParam("roundId") long roundId, byte[] body,
+                               @HeaderParam("Content-Type") String contentType,
+                               @QueryParam("confirmWarnings") boolean confirmWarnings,
+                               @HeaderParam("Idempotency-Key") String idempotencyKey) {
+        boolean xlsx = contentType != null && contentType.startsWith(XLSX_TYPE);
+        SubmissionViews.Receipt receipt = submissions.submit(roundId, new SubmissionService.Upload(
+                xlsx ? SubmissionService.Channel.XLSX : SubmissionService.Channel.CSV,
+                xlsx ? UploadFormat.XLSX : UploadFormat.CSV, body == null ? new byte[0] : body,
+                xlsx ? "api-upload.xlsx" : "api-upload.csv", contentType), confirmWarnings, idempotencyKey, clientAddress());
+        return Response.status(201).entity(receipt).build();
+    }
+
+    @GET
+    @Path("{roundId}/submission")
+    @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
+    public SubmissionViews.MySubmission mySubmission(@PathParam("roundId") long roundId) {
+        return queries.mine(roundId);
+    }
+
+    @GET
+    @Path("{roundId}/submission/revisions/{revision}")
+    @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
+    public SubmissionViews.Revision myRevision(@PathParam("roundId") long roundId, @PathParam("revision") int revision) {
+        return queries.myRevision(roundId, revision);
+    }
+
+    @GET
+    @Path("{roundId}/messages")
+    @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
+    public List<SubmissionViews.Message> myMessages(@PathParam("roundId") long roundId) {
+        return messages.ownThread(roundId);
+    }
+
+    @POST
+    @Path("{roundId}/messages")
+    @Consumes(MediaType.APPLICATION_JSON)
+    @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
+    public Response postMessage(@PathParam("roundId") long roundId, NewMessage message) {
+        return Response.status(201).entity(messages.postAsLaboratory(roundId, message == null ? null : message.body())).build();
+    }
+
+    private String clientAddress() {
+        return request.remoteAddress() == null ? null : request.remoteAddress().hostAddress();
+    }
+}

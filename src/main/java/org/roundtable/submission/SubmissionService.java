@@ -1,0 +1,360 @@
+package org.roundtable.submission;
+
+import com.fasterxml.jackson.core.JsonProcessingException;
+import com.fasterxml.jackson.databind.ObjectMapper;
+import io.quarkus.narayana.jta.QuarkusTransaction;
+import jakarta.enterprise.context.ApplicationScoped;
+import jakarta.persistence.EntityManager;
+import org.hibernate.Session;
+import org.roundtable.account.CurrentUser;
+import org.roundtable.account.SessionKey;
+import org.roundtable.audit.AuditTrail;
+import org.roundtable.platform.DomainException;
+import org.roundtable.platform.IdempotencyStore;
+import org.roundtable.platform.Secrets;
+import org.roundtable.scheme.RoundAccess;
+import org.roundtable.submission.intake.IntakeResult;
+import org.roundtable.submission.intake.ReportedNumber;
+import org.roundtable.submission.intake.ReportedResult;
+import org.roundtable.submission.intake.ResultIntake;
+import org.roundtable.submission.intake.UploadFormat;
+import org.roundtable.submission.intake.UploadRules;
+
+import java.nio.charset.StandardCharsets;
+import java.sql.PreparedStatement;
+import java.sql.Types;
+import java.time.Clock;
+import java.time.Duration;
+import java.time.OffsetDateTime;
+import java.time.ZoneOffset;
+import java.time.format.DateTimeFormatter;
+import java.util.HexFormat;
+import java.util.List;
+import java.util.Optional;
+import java.util.stream.Collectors;
+
+/**
+ * Accepting a laboratory's results: one validation path for every channel (form, CSV, XLSX, JSON API), all or
+ * nothing, each accepted submit a new immutable revision with a receipt given only after commit.
+ *
+ * <p>Order of work: the upload is parsed and validated first, outside any transaction (a rejected upload touches
+ * nothing). Then, in one transaction: the round row is read under a shared lock and its state and deadline checked
+ * (a lifecycle step waits for writes in flight, so a submit racing the close is fully in or refused); the
+ * Idempotency-Key, if any, is claimed (a retry gets the original receipt); the laboratory's submission row is locked
+ * ({@code FOR UPDATE}, so two simultaneous submits become revisions n and n+1); the revision, its results and the
+ * uploaded file are written; review flags are raised; one audit event records the revision with its payload hash.
+ */
+@ApplicationScoped
+public class SubmissionService {
+
+    /** How close two submissions from one client address must be to be flagged. */
+    static final Duration NEAR_SIMULTANEOUS = Duration.ofMinutes(2);
+    private static final DateTimeFormatter DEADLINE = DateTimeFormatter.ofPattern("yyyy-MM-dd HH:mm");
+
+    public enum Channel { FORM, CSV, XLSX, JSON, CORRECTION }
+
+    /** What was sent: the bytes as received, their format and (for files) a name for the record. */
+    public record Upload(Channel channel, UploadFormat format, byte[] content, String fileName, String contentType) {
+    }
+
+    private final RoundAccess rounds;
+    private final SubmissionRules rules;
+    private final IdempotencyStore idempotency;
+    private final AuditTrail audit;
+    private final CurrentUser currentUser;
+    private final EntityManager entityManager;
+    private final ObjectMapper mapper;
+    private final Clock clock;
+    private final byte[] fingerprintKey;
+    private final ResultIntake intake = new ResultIntake();
+
+    public SubmissionService(RoundAccess rounds, SubmissionRules rules, IdempotencyStore idempotency, AuditTrail audit,
+                             CurrentUser currentUser, EntityManager entityManager, ObjectMapper mapper,
+                             SessionKey sessionKey, Clock clock) {
+        this.rounds = rounds;
+        this.rules = rules;
+        this.idempotency = idempotency;
+        this.audit = audit;
+        this.currentUser = currentUser;
+        this.entityManager = entityManager;
+        this.mapper = mapper;
+        this.clock = clock;
+        this.fingerprintKey = sessionKey.derive("client-address");
+    }
+
+    /**
+     * A laboratory submits results for a round it is enrolled in.
+     *
+     * @param confirmWarnings the laboratory has seen and confirms the warnings (values outside the expected range…)
+     * @param idempotencyKey  optional; a retry with the same key and payload returns the first receipt
+     * @throws DomainException.NotFound      the laboratory is not enrolled (same answer as for a missing round)
+     * @throws DomainException.Unprocessable the upload has errors (every one listed with row, column, value, key), or
+     *                                       warnings not yet confirmed (listed the same way, key prefix
+     *                                       {@code warning.})
+     * @throws DomainException.Conflict      the round is not open for results, or the deadline passed and the round
+     *                                       refuses late results
+     */
+    public SubmissionViews.Receipt submit(long roundId, Upload upload, boolean confirmWarnings, String idempotencyKey,
+                                          String clientAddress) {
+        long laboratoryId = currentUser.requireLaboratoryId();
+        rounds.participantCode(roundId, laboratoryId).orElseThrow(() -> new DomainException.NotFound("The round"));
+        IntakeResult.Accepted accepted = validate(roundId, upload, confirmWarnings);
+        String requestHash = Secrets.sha256Hex(roundId + "\n" + upload.channel() + "\n" + Secrets.sha256Hex(upload.content()));
+        return QuarkusTransaction.requiringNew().call(() -> {
+            RoundAccess.SubmissionWindow window = rounds.lockForSubmission(roundId);
+            if (idempotencyKey != null) {
+                // a retry gets its original receipt even if the round closed in between
+                Optional<IdempotencyStore.StoredAnswer> earlier = idempotency.claim(scope(laboratoryId), idempotencyKey, requestHash);
+                if (earlier.isPresent()) {
+                    return read(earlier.get().body());
+                }
+            }
+            if (!window.openForResults()) {
+                throw new DomainException.Conflict("The round " + window.roundCode() + " is not open for results (it is "
+                        + window.state().toLowerCase().replace('_', ' ') + ").");
+            }
+            OffsetDateTime now = now();
+            boolean late = now.isAfter(window.resultDeadline());
+            if (late && window.refusesLateResults()) {
+                throw new DomainException.Conflict("The result deadline passed at " + deadlineText(window)
+                        + ". This round does not accept late results.");
+            }
+            SubmissionViews.Receipt receipt = store(roundId, laboratoryId, upload, accepted, late, now, null, null,
+                    fingerprint(clientAddress));
+            if (idempotencyKey != null) {
+                idempotency.complete(scope(laboratoryId), idempotencyKey, 201, write(receipt));
+            }
+            return receipt;
+        });
+    }
+
+    /**
+     * A coordinator stores a confirmed transcription correction after the close (before any report): a new revision
+     * with the reason and the evidence, audited. Validation as for the laboratory; warnings count as confirmed.
+     */
+    public SubmissionViews.Receipt correct(long roundId, long laboratoryId, byte[] json, String reason, String evidence) {
+        if (reason == null || reason.isBlank() || evidence == null || evidence.isBlank()) {
+            throw new DomainException.BadRequest("A correction needs a reason and the evidence (e.g. the lab's raw data).");
+        }
+        rounds.participantCode(roundId, laboratoryId).orElseThrow(() -> new DomainException.NotFound("The laboratory's submission"));
+        Upload upload = new Upload(Channel.CORRECTION, UploadFormat.JSON, json, null, null);
+        IntakeResult.Accepted accepted = validate(roundId, upload, true);
+        return QuarkusTransaction.requiringNew().call(() -> {
+            RoundAccess.SubmissionWindow window = rounds.lockForSubmission(roundId);
+            if (!window.closedBeforeIssue()) {
+                throw new DomainException.Conflict("Corrections are made after the round closes and before a report is"
+                        + " issued; the round is " + window.state().toLowerCase().replace('_', ' ') + ".");
+            }
+            return store(roundId, laboratoryId, upload, accepted, false, now(), strip(reason, 2000), strip(evidence, 2000), null);
+        });
+    }
+
+    private IntakeResult.Accepted validate(long roundId, Upload upload, boolean confirmWarnings) {
+        UploadRules uploadRules = rules.forRound(roundId);
+        IntakeResult result = intake.read(upload.content(), upload.format(), uploadRules);
+        if (result instanceof IntakeResult.Rejected rejected) {
+            List<DomainException.Detail> details = rejected.problems().stream()
+                    .map(p -> new DomainException.Detail(p.row() == 0 ? null : p.row(), p.column(), p.value(), p.key(), p.message()))
+                    .toList();
+            throw new DomainException.Unprocessable("The upload was not accepted: " + details.size()
+                    + (details.size() == 1 ? " problem" : " problems") + ". Nothing was saved.", details);
+        }
+        IntakeResult.Accepted accepted = (IntakeResult.Accepted) result;
+        if (!accepted.warnings().isEmpty() && !confirmWarnings) {
+            List<DomainException.Detail> details = accepted.warnings().stream()
+                    .map(w -> new DomainException.Detail(w.row() == 0 ? null : w.row(), w.column(), w.value(),
+                            "warning." + w.key(), w.message()))
+                    .toList();
+            throw new DomainException.Unprocessable("Please check these values and confirm them. Nothing was saved yet.",
+                    details);
+        }
+        return accepted;
+    }
+
+    private SubmissionViews.Receipt store(long roundId, long laboratoryId, Upload upload, IntakeResult.Accepted accepted,
+                                         boolean late, OffsetDateTime now, String correctionReason, String evidence,
+                                         String clientFingerprint) {
+        entityManager.createNativeQuery("""
+                INSERT INTO submission (round_id, laboratory_id, created_at, updated_at) VALUES (:r, :l, :now, :now)
+                ON CONFLICT (round_id, laboratory_id) DO NOTHING
+                """).setParameter("r", roundId).setParameter("l", laboratoryId).setParameter("now", now).executeUpdate();
+        Object[] submission = (Object[]) entityManager.createNativeQuery("""
+                SELECT id, current_revision FROM submission WHERE round_id = :r AND laboratory_id = :l FOR UPDATE
+                """).setParameter("r", roundId).setParameter("l", laboratoryId).getSingleResult();
+        long submissionId = ((Number) submission[0]).longValue();
+        int revision = ((Number) submission[1]).intValue() + 1;
+        String receiptId = "RT-" + Secrets.randomToken(16);
+        String valuesHash = valuesHash(accepted.results());
+        List<SubmissionViews.Warning> warnings = accepted.warnings().stream()
+                .map(w -> new SubmissionViews.Warning(w.row(), w.column(), w.value(), w.key(), w.message())).toList();
+        long revisionId = ((Number) entityManager.createNativeQuery("""
+                INSERT INTO submission_revision (submission_id, revision, channel, receipt_id, payload_sha256,
+                       canonical_payload, values_sha256, submitted_by, submitted_role, submitted_at, late, warnings_json,
+                       detection_json, client_fingerprint, correction_reason, correction_evidence)
+                VALUES (:submission, :revision, :channel, :receipt, :sha, :payload, :values, :by, :role, :at, :late,
+                        :warnings, :detection, :fingerprint, :reason, :evidence)
+                RETURNING id
+                """)
+                .setParameter("submission", submissionId).setParameter("revision", revision)
+                .setParameter("channel", upload.channel().name()).setParameter("receipt", receiptId)
+                .setParameter("sha", accepted.sha256()).setParameter("payload", accepted.canonicalJson())
+                .setParameter("values", valuesHash).setParameter("by", currentUser.username())
+                .setParameter("role", currentUser.roleName().isEmpty() ? "system" : currentUser.roleName())
+                .setParameter("at", now).setParameter("late", late)
+                .setParameter("warnings", write(warnings)).setParameter("detection", write(accepted.detection()))
+                .setParameter("fingerprint", clientFingerprint).setParameter("reason", correctionReason)
+                .setParameter("evidence", evidence)
+                .getSingleResult()).longValue();
+        insertResults(revisionId, accepted.results());
+        if (upload.channel() == Channel.CSV || upload.channel() == Channel.XLSX) {
+            entityManager.createNativeQuery("""
+                    INSERT INTO submission_upload (revision_id, file_name, content_type, size_bytes, sha256, content)
+                    VALUES (:revision, :name, :type, :size, :sha, :content)
+                    """)
+                    .setParameter("revision", revisionId).setParameter("name", safeFileName(upload.fileName()))
+                    .setParameter("type", upload.contentType() == null ? "application/octet-stream" : strip(upload.contentType(), 100))
+                    .setParameter("size", upload.content().length).setParameter("sha", Secrets.sha256Hex(upload.content()))
+                    .setParameter("content", upload.content())
+                    .executeUpdate();
+        }
+        entityManager.createNativeQuery("""
+                UPDATE submission SET current_revision = :revision, updated_at = :now, version = version + 1 WHERE id = :id
+                """).setParameter("revision", revision).setParameter("now", now).setParameter("id", submissionId).executeUpdate();
+        raiseFlags(roundId, laboratoryId, valuesHash, clientFingerprint, now);
+        audit.record(new AuditTrail.Event(currentUser.actor(),
+                correctionReason == null ? "submission.revision-accepted" : "submission.corrected",
+                "submission", submissionId + "/" + revision, null, accepted.sha256(),
+                "round=" + roundId + " laboratory=" + laboratoryId + " channel=" + upload.channel()
+                        + " results=" + accepted.results().size() + (late ? " late" : "")
+                        + (correctionReason == null ? "" : " reason=" + correctionReason)));
+        return new SubmissionViews.Receipt(submissionId, revision, receiptId, accepted.sha256(), now, late,
+                upload.channel().name(), warnings);
+    }
+
+    /** One batched insert for all results of a revision (no per-row round trips). */
+    private void insertResults(long revisionId, List<ReportedResult> results) {
+        entityManager.unwrap(Session.class).doWork(connection -> {
+            try (PreparedStatement insert = connection.prepareStatement("""
+                    INSERT INTO reported_result (revision_id, element, item_label, value_as_reported, unit_as_reported,
+                           less_than, reported_number, value_in_measurand_unit, expanded_uncertainty_as_reported,
+                           expanded_uncertainty, coverage_factor, method_group, replicates, replicate_values)
+                    VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)
+                    """)) {
+                for (ReportedResult r : results) {
+                    insert.setLong(1, revisionId);
+                    insert.setString(2, r.measurand());
+                    insert.setString(3, r.item());
+                    insert.setString(4, r.valueAsReported());
+                    insert.setString(5, r.unit().symbol());
+                    insert.setBoolean(6, r.lessThan());
+                    insert.setBigDecimal(7, r.value().value());
+                    insert.setBigDecimal(8, r.massFraction());
+                    insert.setString(9, r.expandedUncertainty().map(ReportedNumber::asReported).orElse(null));
+                    if (r.expandedUncertaintyInCanonicalUnit().isPresent()) {
+                        insert.setBigDecimal(10, r.expandedUncertaintyInCanonicalUnit().get());
+                    } else {
+                        insert.setNull(10, Types.NUMERIC);
+                    }
+                    insert.setBigDecimal(11, r.coverageFactor().value());
+                    insert.setString(12, r.method().code());
+                    insert.setInt(13, r.replicateCount());
+                    insert.setString(14, r.replicateValues().isEmpty() ? null
+                            : r.replicateValues().stream().map(ReportedNumber::asReported).collect(Collectors.joining("|")));
+                    insert.addBatch();
+                }
+                insert.executeBatch();
+            }
+        });
+    }
+
+    /**
+     * Flags for the coordinator, never shown to laboratories: the same result vector as another laboratory's current
+     * revision; submissions from the same client address within {@link #NEAR_SIMULTANEOUS} for different
+     * laboratories (our reading of "linked accounts": the address is kept only as a keyed hash).
+     */
+    private void raiseFlags(long roundId, long laboratoryId, String valuesHash, String fingerprint, OffsetDateTime now) {
+        entityManager.createNativeQuery("""
+                INSERT INTO review_flag (round_id, kind, laboratory_id, other_laboratory_id, detail, raised_at)
+                SELECT :r, 'IDENTICAL_RESULTS', :l, s.laboratory_id, 'Every reported value equals the other laboratory''s current revision', :now
+                  FROM submission s JOIN submission_revision v ON v.submission_id = s.id AND v.revision = s.current_revision
+                 WHERE s.round_id = :r AND s.laboratory_id <> :l AND v.values_sha256 = :values
+                """).setParameter("r", roundId).setParameter("l", laboratoryId).setParameter("now", now)
+                .setParameter("values", valuesHash).executeUpdate();
+        if (fingerprint != null) {
+            entityManager.createNativeQuery("""
+                    INSERT INTO review_flag (round_id, kind, laboratory_id, other_laboratory_id, detail, raised_at)
+                    SELECT DISTINCT :r, 'NEAR_SIMULTANEOUS', :l, s.laboratory_id,
+                           'Submitted from the same client address within two minutes of the other laboratory', CAST(:now AS timestamptz)
+                      FROM submission s JOIN submission_revision v ON v.submission_id = s.id
+                     WHERE s.round_id = :r AND s.laboratory_id <> :l AND v.client_fingerprint = :fingerprint
+                       AND v.submitted_at > :since
+                    """).setParameter("r", roundId).setParameter("l", laboratoryId).setParameter("now", now)
+                    .setParameter("fingerprint", fingerprint).setParameter("since", now.minus(NEAR_SIMULTANEOUS))
+                    .executeUpdate();
+        }
+    }
+
+    /** SHA-256 over the reported values alone (element, item, value in the measurand's unit, less-than), sorted. */
+    static String valuesHash(List<ReportedResult> results) {
+        return Secrets.sha256Hex(results.stream()
+                .map(r -> r.measurand() + "|" + r.item() + "|" + (r.lessThan() ? "<" : "")
+                        + r.massFraction().stripTrailingZeros().toPlainString())
+                .sorted().collect(Collectors.joining("\n")));
+    }
+
+    private String fingerprint(String clientAddress) {
+        if (clientAddress == null || clientAddress.isBlank()) {
+            return null;
+        }
+        try {
+            javax.crypto.Mac mac = javax.crypto.Mac.getInstance("HmacSHA256");
+            mac.init(new javax.crypto.spec.SecretKeySpec(fingerprintKey, "HmacSHA256"));
+            return HexFormat.of().formatHex(mac.doFinal(clientAddress.getBytes(StandardCharsets.UTF_8)));
+        } catch (java.security.GeneralSecurityException e) {
+            throw new IllegalStateException(e);
+        }
+    }
+
+    private static String scope(long laboratoryId) {
+        return "laboratory:" + laboratoryId;
+    }
+
+    private static String deadlineText(RoundAccess.SubmissionWindow window) {
+        java.time.ZoneId zone = java.time.ZoneId.of(window.deadlineTimeZone());
+        return DEADLINE.format(window.resultDeadline().atZoneSameInstant(zone)) + " " + window.deadlineTimeZone();
+    }
+
+    static String safeFileName(String name) {
+        if (name == null || name.isBlank()) {
+            return "upload";
+        }
+        String base = name.replace('\\', '/');
+        base = base.substring(base.lastIndexOf('/') + 1).replaceAll("[^A-Za-z0-9._ -]", "_");
+        return base.isBlank() ? "upload" : strip(base, 200);
+    }
+
+    private static String strip(String text, int max) {
+        String clean = text.strip();
+        return clean.length() <= max ? clean : clean.substring(0, max);
+    }
+
+    private String write(Object value) {
+        try {
+            return mapper.writeValueAsString(value);
+        } catch (JsonProcessingException e) {
+            throw new IllegalStateException(e);
+        }
+    }
+
+    private SubmissionViews.Receipt read(String json) {
+        try {
+            return mapper.readValue(json, SubmissionViews.Receipt.class);
+        } catch (JsonProcessingException e) {
+            throw new IllegalStateException("stored receipt unreadable", e);
+        }
+    }
+
+    private OffsetDateTime now() {
+        return OffsetDateTime.now(clock).withOffsetSameInstant(ZoneOffset.UTC);
+    }
+}
