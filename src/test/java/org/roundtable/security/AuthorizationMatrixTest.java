@@ -37,6 +37,13 @@ class AuthorizationMatrixTest {
             "member-own", "member-other", "auditor-granted", "auditor-other", "token-own", "token-other");
     static final String MISSING_ID = "987654321";
 
+    /** The media types each endpoint consumes, so that requests reach the endpoint rather than a 415. */
+    static final Map<String, java.util.Set<String>> CONSUMES = EndpointInventory.all().stream().collect(Collectors.toMap(
+            EndpointInventory.Endpoint::key, e -> {
+                jakarta.ws.rs.Consumes c = e.javaMethod().getAnnotation(jakarta.ws.rs.Consumes.class);
+                return c == null ? java.util.Set.<String>of() : java.util.Set.of(c.value());
+            }));
+
     record Row(String method, String path, Map<String, String> expected) {
         String key() {
             return method + " " + path;
@@ -145,7 +152,18 @@ class AuthorizationMatrixTest {
         if (row.method().equals("GET")) {
             return request.get(path);
         }
-        if (api) {
+        java.util.Set<String> consumes = CONSUMES.getOrDefault(row.key(), java.util.Set.of());
+        if (consumes.contains("multipart/form-data")) {
+            request = request.multiPart("file", "results.csv", "measurand,value\n".getBytes(StandardCharsets.UTF_8), "text/csv");
+            if (withCsrf && caller.csrfToken() != null) {
+                request = request.multiPart("_csrf", caller.csrfToken());
+            }
+        } else if (consumes.contains("text/csv")) {
+            request = request.contentType("text/csv").body("measurand,value\n");
+            if (withCsrf && caller.csrfToken() != null) {
+                request = request.header("X-CSRF-Token", caller.csrfToken());
+            }
+        } else if (api) {
             request = request.contentType("application/json").body("{}");
             if (withCsrf && caller.csrfToken() != null) {
                 request = request.header("X-CSRF-Token", caller.csrfToken());
@@ -247,7 +265,7 @@ class AuthorizationMatrixTest {
     }
 
     private static String withMissingIds(String path) {
-        return path.replaceAll("\\{[A-Za-z]+Id}", MISSING_ID);
+        return path.replaceAll("\\{[A-Za-z]+}", MISSING_ID);
     }
 
     static List<Row> rows() {
