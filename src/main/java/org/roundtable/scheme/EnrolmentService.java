@@ -337,7 +337,7 @@ public class EnrolmentService {
     public MyRound acknowledgeReceipt(long roundId, Receipt receipt) {
         long lab = currentUser.requireLaboratoryId();
         ownCode(roundId, lab);
-        gate.enter(roundId, RoundAction.ACKNOWLEDGE_RECEIPT);
+        gate.enterShared(roundId, RoundAction.ACKNOWLEDGE_RECEIPT);
         if (receipt == null || receipt.itemLabel() == null || receipt.itemLabel().isBlank()) {
             throw new DomainException.BadRequest("Name the item by its label.");
         }
