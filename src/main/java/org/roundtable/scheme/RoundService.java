@@ -205,6 +205,13 @@ public class RoundService {
         return resultsVisibleBeyondOwnLab(gate.find(roundId));
     }
 
+    /** How a result arriving now (injected clock) would be treated under the round's state and late-result policy. */
+    @Transactional
+    public ResultTiming resultTiming(long roundId) {
+        Round round = gate.find(roundId);
+        return ResultTiming.of(round.state, round.resultDeadline.toInstant(), round.latePolicy, clock.instant());
+    }
+
     static boolean resultsVisibleBeyondOwnLab(Round round) {
         return round.state.resultsVisibleBeyondOwnLab();
     }
