@@ -9,6 +9,7 @@ import jakarta.transaction.Transactional;
 import org.eclipse.microprofile.config.inject.ConfigProperty;
 import org.jboss.logging.Logger;
 import org.roundtable.account.DemoAccounts;
+import org.roundtable.scheme.DemoSchemes;
 
 /**
  * Loads the demo scenario into an empty database when {@code roundtable.demo.enabled} is true (set by
@@ -24,12 +25,14 @@ public class DemoData {
     private final boolean enabled;
     private final EntityManager entityManager;
     private final DemoAccounts accounts;
+    private final DemoSchemes schemes;
 
     public DemoData(@ConfigProperty(name = "roundtable.demo.enabled", defaultValue = "false") boolean enabled,
-                    EntityManager entityManager, DemoAccounts accounts) {
+                    EntityManager entityManager, DemoAccounts accounts, DemoSchemes schemes) {
         this.enabled = enabled;
         this.entityManager = entityManager;
         this.accounts = accounts;
+        this.schemes = schemes;
     }
 
     void onStart(@Observes StartupEvent event) {
@@ -52,6 +55,7 @@ public class DemoData {
             return false;
         }
         accounts.load();
+        schemes.load();
         return true;
     }
 }

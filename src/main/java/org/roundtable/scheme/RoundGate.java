@@ -31,6 +31,20 @@ public class RoundGate {
         return round;
     }
 
+    /**
+     * Like {@link #enter}, with a shared lock ({@code SELECT ... FOR SHARE}): for work many laboratories do at
+     * once (receipts). They do not wait for each other, but a state change waits for them and they for it.
+     */
+    @Transactional(Transactional.TxType.MANDATORY)
+    public Round enterShared(long roundId, RoundAction action) {
+        Round round = entityManager.find(Round.class, roundId, LockModeType.PESSIMISTIC_READ);
+        if (round == null) {
+            throw new DomainException.NotFound("The round");
+        }
+        RoundStateMachine.require(round.state, action);
+        return round;
+    }
+
     @Transactional(Transactional.TxType.MANDATORY)
     public Round find(long roundId) {
         Round round = entityManager.find(Round.class, roundId);

@@ -214,6 +214,19 @@ public class RoundPages {
     }
 
     @POST
+    @Path("rounds/{roundId}/items/{itemId}/replacement")
+    @RolesAllowed(Role.COORDINATOR_NAME)
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response replace(@PathParam("roundId") long roundId, @PathParam("itemId") long itemId,
+                            @FormParam("reason") String reason) {
+        return attempt(() -> {
+            EnrolmentService.ItemView item = enrolments.replace(roundId, itemId, new EnrolmentService.Replacement(reason));
+            return roundPage(roundId, null, "Replacement of item " + item.itemLabel() + " for " + item.participantCode()
+                    + " recorded as dispatched.", null);
+        }, e -> roundPage(roundId, e, null, null));
+    }
+
+    @POST
     @Path("rounds/{roundId}/items/withdrawal")
     @RolesAllowed(Role.COORDINATOR_NAME)
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)

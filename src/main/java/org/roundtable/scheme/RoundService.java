@@ -182,7 +182,7 @@ public class RoundService {
         if (previous.sha256().equals(canonical.sha256())) {
             throw new DomainException.Conflict("The plan is unchanged (same hash as version " + previous.version() + ").");
         }
-        PlanStore.PlanVersion version = plans.append(roundId, canonical, change.reason().strip(), currentUser.username(), now());
+        PlanStore.PlanVersion version = plans.append(roundId, canonical, change.reason().strip(), currentUser.actor().name(), now());
         audit.record(new AuditTrail.Event(currentUser.actor(), "round.plan-version", "evaluation-plan",
                 roundId + "/" + version.version(), previous.sha256(), version.sha256(),
                 "version=" + version.version() + " reason=" + version.reason()));
@@ -203,6 +203,13 @@ public class RoundService {
     @Transactional
     public boolean resultsVisibleBeyondOwnLab(long roundId) {
         return resultsVisibleBeyondOwnLab(gate.find(roundId));
+    }
+
+    /** How a result arriving now (injected clock) would be treated under the round's state and late-result policy. */
+    @Transactional
+    public ResultTiming resultTiming(long roundId) {
+        Round round = gate.find(roundId);
+        return ResultTiming.of(round.state, round.resultDeadline.toInstant(), round.latePolicy, clock.instant());
     }
 
     static boolean resultsVisibleBeyondOwnLab(Round round) {
@@ -231,7 +238,7 @@ public class RoundService {
                     throw new DomainException.Conflict("Write and save the evaluation plan before freezing it.");
                 }
                 PlanDocument.Canonical canonical = canonical(round, PlanDocument.read(round.draftPlan, mapper));
-                PlanStore.PlanVersion v = plans.append(round.id, canonical, "Frozen before enrolment", currentUser.username(), now());
+                PlanStore.PlanVersion v = plans.append(round.id, canonical, "Frozen before enrolment", currentUser.actor().name(), now());
                 detail = "planVersion=1 planSha256=" + v.sha256();
             }
             case CONFIRM_QUALIFICATION, OPEN_FOR_RESULTS -> {

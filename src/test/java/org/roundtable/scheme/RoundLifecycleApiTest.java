@@ -3,6 +3,7 @@ package org.roundtable.scheme;
 import io.quarkus.test.junit.QuarkusTest;
 import io.restassured.response.Response;
 import jakarta.inject.Inject;
+import org.junit.jupiter.api.TestInstance;
 import org.junit.jupiter.params.ParameterizedTest;
 import org.junit.jupiter.params.provider.Arguments;
 import org.junit.jupiter.params.provider.MethodSource;
@@ -22,16 +23,18 @@ import static org.assertj.core.api.Assertions.assertThat;
  * are refused with 409 and a message naming the state, and change nothing.
  */
 @QuarkusTest
+@TestInstance(TestInstance.Lifecycle.PER_CLASS)
 class RoundLifecycleApiTest {
 
     @Inject
     World world;
 
-    // one laboratory and two sign-ins serve every case: each case has its own round
-    private static long lab;
-    private static World.Browser coordinator;
-    private static World.Browser member;
+    // one laboratory and two sign-ins serve every case of this class (one test instance); each case has its own round
+    private long lab;
+    private World.Browser coordinator;
+    private World.Browser member;
 
+    /** Signs in on the first case (not in a BeforeAll: the HTTP port is set up per test). */
     private void signInOnce() {
         if (coordinator == null) {
             lab = world.laboratory();

@@ -74,5 +74,11 @@ class RoundPagesTest {
         assertThat(ack.statusCode()).isEqualTo(200);
         assertThat(ack.asString()).contains("Receipt of item A recorded.").contains("Received");
         assertThat(memberA.request().accept("text/html").get("/rounds/" + round).statusCode()).isEqualTo(403);
+
+        World.Browser coordinator = world.signIn(world.user("coordinator", null));
+        Response replaced = coordinator.form().accept("text/html").formParam("reason", "Disc cracked on arrival")
+                .post("/rounds/" + round + "/items/" + world.itemOf(round, labA) + "/replacement");
+        assertThat(replaced.statusCode()).isEqualTo(200);
+        assertThat(replaced.asString()).contains("Replacement of item A").contains("(replacement)");
     }
 }

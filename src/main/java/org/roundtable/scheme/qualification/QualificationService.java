@@ -225,7 +225,7 @@ public class QualificationService {
                 INSERT INTO qualification_decision (round_id, element, decision, reason, decided_by, decided_at)
                 VALUES (:r, :e, :d, :reason, :by, :at)
                 """).setParameter("r", roundId).setParameter("e", element).setParameter("d", decision.name())
-                .setParameter("reason", reason).setParameter("by", currentUser.username()).setParameter("at", now)
+                .setParameter("reason", reason).setParameter("by", currentUser.actor().name()).setParameter("at", now)
                 .executeUpdate();
         audit.record(new AuditTrail.Event(currentUser.actor(), "qualification.decided", "round", Long.toString(roundId),
                 null, null, "element=" + element + " decision=" + decision + (reason == null ? "" : " reason=" + reason)));
@@ -373,7 +373,7 @@ public class QualificationService {
                     .setParameter("sigma", java.math.BigDecimal.valueOf(s.sigma().value()))
                     .setParameter("source", s.sigma().source())
                     .setParameter("csv", s.csv()).setParameter("sha", dataHash).setParameter("figures", s.figures())
-                    .setParameter("passed", s.passed()).setParameter("by", currentUser.username()).setParameter("at", now)
+                    .setParameter("passed", s.passed()).setParameter("by", currentUser.actor().name()).setParameter("at", now)
                     .executeUpdate();
             audit.record(new AuditTrail.Event(currentUser.actor(), "qualification." + s.kind().toLowerCase(Locale.ROOT)
                     + "-uploaded", "round", Long.toString(roundId), null, dataHash,

@@ -1,0 +1,181 @@
+package org.roundtable.scheme;
+
+import jakarta.enterprise.context.ApplicationScoped;
+import jakarta.persistence.EntityManager;
+import jakarta.transaction.Transactional;
+import org.roundtable.scheme.qualification.QualificationService;
+
+import java.time.Clock;
+import java.time.LocalDate;
+import java.time.LocalDateTime;
+import java.util.ArrayList;
+import java.util.List;
+
+/**
+ * The demo's scheme and rounds, loaded through the real services so that the audit trail, the hashes and
+ * the state table are exercised as in use. Everything is invented: the scheme office, the numbers (demo only,
+ * not reference values). Three rounds:
+ * <ul>
+ *   <li>NLS-2026-2 — prepared and open for results, the five demo laboratories enrolled, Mn qualified from
+ *       homogeneity data, the other measurands accepted by a recorded decision;</li>
+ *   <li>NLS-2026-1 — an earlier round, closed; its dates and timestamps are set back about four months after
+ *       it was walked through the workflow (the services stamp "now" from the injected clock);</li>
+ *   <li>NLS-2027-1 — a draft with a draft plan.</li>
+ * </ul>
+ */
+@ApplicationScoped
+public class DemoSchemes {
+
+    /** element, unit, digits, expected min, max, method groups, σpt (fixed, demo). */
+    record DemoMeasurand(String element, String unit, int digits, String min, String max, List<String> groups, String sigmaPt) {
+    }
+
+    static final List<DemoMeasurand> MEASURANDS = List.of(
+            new DemoMeasurand("C", "%", 3, "0.02", "1.1", List.of("SPARK_OES", "COMBUSTION"), "0.012"),
+            new DemoMeasurand("N", "mg/kg", 0, "10", "550", List.of("INERT_GAS_FUSION", "SPARK_OES"), "9"),
+            new DemoMeasurand("Si", "%", 3, "0.02", "1.54", List.of("SPARK_OES", "XRF", "ICP_OES"), "0.010"),
+            new DemoMeasurand("P", "%", 4, "0.006", "0.085", List.of("SPARK_OES", "ICP_OES"), "0.0015"),
+            new DemoMeasurand("S", "%", 4, "0.001", "0.055", List.of("SPARK_OES", "COMBUSTION"), "0.0012"),
+            new DemoMeasurand("Cr", "%", 3, "0.007", "8.14", List.of("SPARK_OES", "XRF", "ICP_OES"), "0.025"),
+            new DemoMeasurand("Mn", "%", 3, "0.03", "2.0", List.of("SPARK_OES", "XRF", "ICP_OES"), "0.020"),
+            new DemoMeasurand("Ni", "%", 3, "0.006", "5.0", List.of("SPARK_OES", "XRF", "ICP_OES"), "0.015"),
+            new DemoMeasurand("Cu", "%", 3, "0.006", "0.5", List.of("SPARK_OES", "ICP_OES"), "0.008"),
+            new DemoMeasurand("Mo", "%", 3, "0.007", "1.3", List.of("SPARK_OES", "XRF", "ICP_OES"), "0.010"));
+
+    static final String INSTRUCTIONS = """
+            Treat the disc as a routine sample. Grind a fresh surface before analysis and burn at least two spots away \
+            from the edge; report the mean of your routine number of burns, not of extra ones. Report each element in \
+            the unit and with the decimal places given in the round. Carbon, sulfur and nitrogen may be determined by \
+            combustion or inert-gas fusion on chips taken from the disc. Keep the disc until the final report is issued.""";
+
+    /** Mn homogeneity data for the open round: 10 discs in duplicate (invented, demo only). */
+    static final String MN_HOMOGENEITY = """
+            item,replicate,measurand,value
+            D03,1,Mn,1.212
+            D03,2,Mn,1.208
+            D11,1,Mn,1.205
+            D11,2,Mn,1.210
+            D17,1,Mn,1.214
+            D17,2,Mn,1.211
+            D24,1,Mn,1.209
+            D24,2,Mn,1.206
+            D31,1,Mn,1.210
+            D31,2,Mn,1.213
+            D38,1,Mn,1.207
+            D38,2,Mn,1.211
+            D45,1,Mn,1.213
+            D45,2,Mn,1.209
+            D52,1,Mn,1.208
+            D52,2,Mn,1.212
+            D59,1,Mn,1.211
+            D59,2,Mn,1.207
+            D66,1,Mn,1.206
+            D66,2,Mn,1.209
+            """;
+
+    private final SchemeService schemes;
+    private final RoundService rounds;
+    private final EnrolmentService enrolments;
+    private final QualificationService qualification;
+    private final EntityManager entityManager;
+    private final Clock clock;
+
+    public DemoSchemes(SchemeService schemes, RoundService rounds, EnrolmentService enrolments,
+                       QualificationService qualification, EntityManager entityManager, Clock clock) {
+        this.schemes = schemes;
+        this.rounds = rounds;
+        this.enrolments = enrolments;
+        this.qualification = qualification;
+        this.entityManager = entityManager;
+        this.clock = clock;
+    }
+
+    /** Loads the scheme and rounds; the demo laboratories must exist already. */
+    @Transactional(Transactional.TxType.MANDATORY)
+    public void load() {
+        SchemeService.SchemeView scheme = schemes.create(new SchemeService.NewScheme("Northmarch low-alloy steel scheme",
+                "LOW_ALLOY_STEEL"));
+        for (DemoMeasurand m : MEASURANDS) {
+            schemes.putMeasurand(scheme.id(), new SchemeService.MeasurandEntry(m.element(), m.unit(), m.digits(), m.min(),
+                    m.max(), m.groups()));
+        }
+        @SuppressWarnings("unchecked")
+        List<Number> labs = entityManager.createNativeQuery("SELECT id FROM laboratory ORDER BY id LIMIT 5").getResultList();
+        LocalDate today = LocalDate.now(clock);
+
+        // an earlier round, closed, then placed about four months back
+        long past = walk(scheme.id(), "NLS-2026-1", "Low-alloy steel disc, 38 mm, lot 26-014", today.minusDays(130),
+                today.minusDays(102), labs, RoundAction.CLOSE);
+        shiftBack(past, 100);
+
+        // the current round, open for results
+        walk(scheme.id(), "NLS-2026-2", "Low-alloy steel disc, 38 mm, lot 26-031", today.minusDays(5), today.plusDays(23),
+                labs, RoundAction.OPEN_FOR_RESULTS);
+
+        // next year's round, still a draft
+        RoundService.RoundView draft = rounds.create(details(scheme.id(), "NLS-2027-1",
+                "Low-alloy steel disc, 38 mm, lot to be chosen", today.plusDays(60), today.plusDays(88)));
+        rounds.saveDraftPlan(draft.id(), plan());
+    }
+
+    private long walk(long schemeId, String code, String items, LocalDate dispatch, LocalDate deadline, List<Number> labs,
+                      RoundAction until) {
+        RoundService.RoundView round = rounds.create(details(schemeId, code, items, dispatch, deadline));
+        rounds.saveDraftPlan(round.id(), plan());
+        rounds.transition(round.id(), RoundAction.FREEZE_PLAN.name());
+        rounds.transition(round.id(), RoundAction.OPEN_ENROLMENT.name());
+        for (Number lab : labs) {
+            enrolments.enrol(round.id(), new EnrolmentService.Enrolment(lab.longValue(), null, null, null, null, null, null));
+        }
+        qualification.uploadHomogeneity(round.id(), new QualificationService.Upload(MN_HOMOGENEITY));
+        for (DemoMeasurand m : MEASURANDS) {
+            if (!m.element().equals("Mn")) {
+                qualification.decide(round.id(), new QualificationService.DecisionRequest(m.element(), "ACCEPT",
+                        "Lot homogeneity for this element shown by the producer's spark OES survey of 20 discs (demo)."));
+            }
+        }
+        rounds.transition(round.id(), RoundAction.CONFIRM_QUALIFICATION.name());
+        rounds.transition(round.id(), RoundAction.DISPATCH_ITEMS.name());
+        rounds.transition(round.id(), RoundAction.OPEN_FOR_RESULTS.name());
+        if (until == RoundAction.CLOSE) {
+            rounds.transition(round.id(), RoundAction.CLOSE.name());
+        }
+        return round.id();
+    }
+
+    private void shiftBack(long roundId, int days) {
+        entityManager.flush();
+        entityManager.createNativeQuery("""
+                UPDATE round SET created_at = created_at - make_interval(days => :d),
+                       state_changed_at = state_changed_at - make_interval(days => :d) WHERE id = :r
+                """).setParameter("d", days).setParameter("r", roundId).executeUpdate();
+        entityManager.createNativeQuery("""
+                UPDATE item_dispatch SET dispatched_at = dispatched_at - make_interval(days => :d),
+                       received_at = dispatched_at - make_interval(days => :d - 3), status = 'RECEIVED',
+                       received_by = 'demo', item_condition = 'GOOD' WHERE round_id = :r
+                """).setParameter("d", days).setParameter("r", roundId).executeUpdate();
+        entityManager.createNativeQuery("""
+                UPDATE round_participant SET enrolled_at = enrolled_at - make_interval(days => :d) WHERE round_id = :r
+                """).setParameter("d", days).setParameter("r", roundId).executeUpdate();
+        entityManager.clear();
+    }
+
+    private static RoundService.RoundDetails details(long schemeId, String code, String items, LocalDate dispatch,
+                                                     LocalDate deadline) {
+        return new RoundService.RoundDetails(schemeId, code, items, 1, List.of("A"), dispatch.toString(),
+                LocalDateTime.of(deadline, java.time.LocalTime.of(17, 0)).toString(), "Europe/London", INSTRUCTIONS,
+                Round.LatePolicy.ACCEPT_FLAGGED_UNSCORED.name(), Round.CodeScope.ROUND.name());
+    }
+
+    private static EvaluationPlan plan() {
+        List<EvaluationPlan.MeasurandPlan> entries = new ArrayList<>();
+        for (DemoMeasurand m : MEASURANDS) {
+            entries.add(new EvaluationPlan.MeasurandPlan(m.element(), "CONSENSUS_ALL", null, null, null, null, null,
+                    "FIXED", m.sigmaPt(), null, null, null, null, null, List.of("Z_OR_Z_PRIME"), "10",
+                    m.element().equals("C") || m.element().equals("S") ? "0.010" : null,
+                    "Results reported as \"<\" are not used for the assigned value; obvious blunders are confirmed with the laboratory.",
+                    null, null, null));
+        }
+        return new EvaluationPlan(entries);
+    }
+}
