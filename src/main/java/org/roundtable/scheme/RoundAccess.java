@@ -47,12 +47,9 @@ public class RoundAccess {
             return RoundState.CLOSED.name().equals(state) || RoundState.EVALUATING.name().equals(state);
         }
 
-        public boolean refusesLateResults() {
-            return Round.LatePolicy.REFUSE.name().equals(latePolicy);
-        }
-
-        public boolean scoresLateResults() {
-            return Round.LatePolicy.ACCEPT_FLAGGED_SCORED.name().equals(latePolicy);
+        /** How a result arriving at {@code at} is treated under the round's state and late-result policy. */
+        public ResultTiming timingAt(java.time.Instant at) {
+            return ResultTiming.of(RoundState.valueOf(state), resultDeadline.toInstant(), Round.LatePolicy.valueOf(latePolicy), at);
         }
     }
 
@@ -120,10 +117,11 @@ public class RoundAccess {
                 .orElseThrow(() -> new DomainException.Conflict("The round has no frozen evaluation plan."));
         Map<String, Measurand> catalogue = new LinkedHashMap<>();
         schemes.catalogue(round.schemeId).forEach(m -> catalogue.put(m.element, m));
+        java.util.Set<String> withdrawn = qualification.withdrawnElements(roundId);
         return plan.measurands().stream()
                 .map(EvaluationPlan.MeasurandPlan::element)
                 .filter(catalogue::containsKey)
-                .filter(element -> !qualification.withdrawn(roundId, element))
+                .filter(element -> !withdrawn.contains(element))
                 .map(catalogue::get)
                 .map(m -> new OpenMeasurand(m.element, m.unit, m.reportingDigits, m.expectedMin, m.expectedMax,
                         Arrays.asList(m.methodGroups.split(","))))

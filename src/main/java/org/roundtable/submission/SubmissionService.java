@@ -12,6 +12,7 @@ import org.roundtable.audit.AuditTrail;
 import org.roundtable.platform.DomainException;
 import org.roundtable.platform.IdempotencyStore;
 import org.roundtable.platform.Secrets;
+import org.roundtable.scheme.ResultTiming;
 import org.roundtable.scheme.RoundAccess;
 import org.roundtable.submission.intake.IntakeResult;
 import org.roundtable.submission.intake.ReportedNumber;
@@ -114,13 +115,15 @@ public class SubmissionService {
                         + window.state().toLowerCase().replace('_', ' ') + ").");
             }
             OffsetDateTime now = now();
-            boolean late = now.isAfter(window.resultDeadline());
-            if (late && window.refusesLateResults()) {
+            ResultTiming timing = window.timingAt(now.toInstant());
+            if (timing == ResultTiming.REFUSED) {
                 throw new DomainException.Conflict("The result deadline passed at " + deadlineText(window)
                         + ". This round does not accept late results.");
             }
+            boolean late = timing != ResultTiming.ON_TIME;
+            // only browser sessions are compared by address: LIMS integrations of many laboratories often share one host
             SubmissionViews.Receipt receipt = store(roundId, laboratoryId, upload, accepted, late, now, null, null,
-                    fingerprint(clientAddress));
+                    currentUser.viaApiToken() ? null : fingerprint(clientAddress));
             if (idempotencyKey != null) {
                 idempotency.complete(scope(laboratoryId), idempotencyKey, 201, write(receipt));
             }
@@ -269,8 +272,8 @@ public class SubmissionService {
 
     /**
      * Flags for the coordinator, never shown to laboratories: the same result vector as another laboratory's current
-     * revision; submissions from the same client address within {@link #NEAR_SIMULTANEOUS} for different
-     * laboratories (our reading of "linked accounts": the address is kept only as a keyed hash).
+     * revision; browser submissions from the same client address within {@link #NEAR_SIMULTANEOUS} for different
+     * laboratories, once per pair (our reading of "linked accounts": the address is kept only as a keyed hash).
      */
     private void raiseFlags(long roundId, long laboratoryId, String valuesHash, String fingerprint, OffsetDateTime now) {
         entityManager.createNativeQuery("""
@@ -288,6 +291,8 @@ public class SubmissionService {
                       FROM submission s JOIN submission_revision v ON v.submission_id = s.id
                      WHERE s.round_id = :r AND s.laboratory_id <> :l AND v.client_fingerprint = :fingerprint
                        AND v.submitted_at > :since
+                       AND NOT EXISTS (SELECT 1 FROM review_flag f WHERE f.round_id = :r AND f.kind = 'NEAR_SIMULTANEOUS'
+                                          AND f.laboratory_id = :l AND f.other_laboratory_id = s.laboratory_id)
                     """).setParameter("r", roundId).setParameter("l", laboratoryId).setParameter("now", now)
                     .setParameter("fingerprint", fingerprint).setParameter("since", now.minus(NEAR_SIMULTANEOUS))
                     .executeUpdate();

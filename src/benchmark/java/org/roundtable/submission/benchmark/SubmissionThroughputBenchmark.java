@@ -129,7 +129,7 @@ public final class SubmissionThroughputBenchmark {
                     while ((i = next.getAndIncrement()) < to) {
                         HttpRequest request = HttpRequest.newBuilder(uri).timeout(Duration.ofSeconds(60))
                                 .header("Authorization", "Bearer " + tokens[i]).header("Content-Type", "application/json")
-                                .header("Idempotency-Key", "bench-" + i)
+                                .header("Idempotency-Key", "benchmark-" + i)
                                 .POST(HttpRequest.BodyPublishers.ofString(payload(i))).build();
                         long t0 = System.nanoTime();
                         try {

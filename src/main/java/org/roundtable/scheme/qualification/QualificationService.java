@@ -267,12 +267,16 @@ public class QualificationService {
                 .orElse(false);
     }
 
-    /** Whether the coordinator's latest decision withdrew the measurand from the round (for submissions). */
+    /** The measurands the coordinator's latest decision withdrew from the round (for submissions). */
     @Transactional
-    public boolean withdrawn(long roundId, String element) {
-        return status(roundId).stream().filter(q -> q.element().equals(element)).findFirst()
-                .map(q -> q.decision() != null && Decision.WITHDRAW_MEASURAND.name().equals(q.decision().decision()))
-                .orElse(false);
+    public java.util.Set<String> withdrawnElements(long roundId) {
+        @SuppressWarnings("unchecked")
+        List<String> elements = entityManager.createNativeQuery("""
+                SELECT d.element FROM qualification_decision d
+                 WHERE d.round_id = :r AND d.decision = 'WITHDRAW_MEASURAND'
+                   AND d.id = (SELECT max(id) FROM qualification_decision x WHERE x.round_id = d.round_id AND x.element = d.element)
+                """).setParameter("r", roundId).getResultList();
+        return java.util.Set.copyOf(elements);
     }
 
     // ---- internals -------------------------------------------------------------------------------------
