@@ -74,6 +74,16 @@ class DescriptiveNistTest {
     }
 
     @Test
+    void manganeseRoundGivesMeanAndSd() {
+        // CALC: computed independently in Python and R, no published source (constructed data); rel 1e-9
+        double[] x = {0.742, 0.751, 0.748, 0.739, 0.755, 0.746, 0.744, 0.750, 0.747, 0.741, 0.753,
+            0.745, 0.749, 0.738, 0.752, 0.743, 0.746, 0.790, 0.772, 0.748};
+        assertEquals(0.74995, Descriptive.mean(x), 0.74995 * 1e-9);
+        // SD printed to 9 significant digits: half a unit in the last digit (abs 5e-11)
+        assertEquals(0.0119052178, Descriptive.standardDeviation(x), 5e-11);
+    }
+
+    @Test
     void rejectsNanAndTooFewValues() {
         assertThrows(IllegalArgumentException.class, () -> Descriptive.mean(new double[] {1, Double.NaN}));
         assertThrows(IllegalArgumentException.class, () -> Descriptive.standardDeviation(new double[] {1}));
