@@ -15,9 +15,7 @@ import org.roundtable.statistics.score.ScoreKind;
 
 class MeasurandEvaluationTest {
 
-    /** Mn in low-alloy steel, % m/m, p = 20: constructed demo data. */
-    static final double[] MANGANESE = {0.742, 0.751, 0.748, 0.739, 0.755, 0.746, 0.744, 0.750,
-        0.747, 0.741, 0.753, 0.745, 0.749, 0.738, 0.752, 0.743, 0.746, 0.790, 0.772, 0.748};
+    static final double[] MANGANESE = DemoData.manganese();
 
     static List<ParticipantResult> results(double[] values) {
         List<ParticipantResult> list = new ArrayList<>();

@@ -20,9 +20,7 @@ class EvaluateCommandTest {
 
     static final String HEADER = "participant,measurand,unit,value,expanded_uncertainty,coverage_factor,method\n";
 
-    /** Mn in low-alloy steel, % m/m, p = 20: constructed demo data. */
-    static final double[] MANGANESE = {0.742, 0.751, 0.748, 0.739, 0.755, 0.746, 0.744, 0.750,
-        0.747, 0.741, 0.753, 0.745, 0.749, 0.738, 0.752, 0.743, 0.746, 0.790, 0.772, 0.748};
+    static final double[] MANGANESE = org.roundtable.statistics.DemoData.manganese();
 
     @TempDir
     Path dir;

@@ -68,7 +68,7 @@ class DescriptiveNistTest {
     void creosoteCellMeansGiveMeanAndSd() {
         // CALC: computed independently in Python and R, no published source (input: ISO 5725-5:1998
         // creosote example as quoted secondarily)
-        double[] x = {24.140, 20.155, 19.500, 20.300, 20.705, 17.570, 20.100, 20.940, 21.185};
+        double[] x = org.roundtable.statistics.DemoData.creosote();
         assertEquals(20.5105555556, Descriptive.mean(x), 1e-10);
         assertEquals(1.7268965018, Descriptive.standardDeviation(x), 1e-10);
     }
@@ -76,8 +76,7 @@ class DescriptiveNistTest {
     @Test
     void manganeseRoundGivesMeanAndSd() {
         // CALC: computed independently in Python and R, no published source (constructed data); rel 1e-9
-        double[] x = {0.742, 0.751, 0.748, 0.739, 0.755, 0.746, 0.744, 0.750, 0.747, 0.741, 0.753,
-            0.745, 0.749, 0.738, 0.752, 0.743, 0.746, 0.790, 0.772, 0.748};
+        double[] x = org.roundtable.statistics.DemoData.manganese();
         assertEquals(0.74995, Descriptive.mean(x), 0.74995 * 1e-9);
         // SD printed to 9 significant digits: half a unit in the last digit (abs 5e-11)
         assertEquals(0.0119052178, Descriptive.standardDeviation(x), 5e-11);
