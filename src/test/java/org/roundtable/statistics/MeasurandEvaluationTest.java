@@ -69,7 +69,7 @@ class MeasurandEvaluationTest {
         // u/sigma = 0.4 > 0.3 -> z'
         assertEquals(ScoreKind.Z_PRIME, r.scoreUsed());
         assertFalse(hasWarning(r, "zeta-en-biased"));
-        // L01 0.742, U = 0.008, k = 2: zeta = -0.008/sqrt(0.004^2 + 0.004^2), En = -0.008/sqrt(0.008^2 + 0.008^2)
+        // arithmetic (no source): L01 0.742, U = 0.008, k = 2: zeta = -0.008/sqrt(0.004^2 + 0.004^2), En = -0.008/sqrt(0.008^2 + 0.008^2)
         assertEquals(-0.008 / Math.sqrt(2 * 0.004 * 0.004), r.scores().get(0).zeta(), 1e-9);
         assertEquals(-0.008 / Math.sqrt(2 * 0.008 * 0.008), r.scores().get(0).en(), 1e-9);
     }
@@ -119,6 +119,7 @@ class MeasurandEvaluationTest {
     void zeroSpreadWithAGivenPlanStillScores() {
         Result r = MeasurandEvaluation.evaluate(new Input("Si", "% m/m",
                 results(new double[] {5.0, 5.0, 5.0, 5.1, 4.9}), 5.0, 0.0, 0.05));
+        // arithmetic: (5.1 - 5.0) / 0.05 = 2.0, satisfactory at the boundary
         assertEquals(2.0, r.scores().get(3).z(), 1e-9);
         assertEquals("satisfactory", r.scores().get(3).classification());
     }

@@ -95,7 +95,9 @@ class EvaluateCommandTest {
         assertEquals(0, r.exitCode(), r.err());
         JsonNode m = r.json().get("measurands").get(0);
         assertEquals(0.750, m.get("assignedValue").asDouble(), 0.0);
+        // u(x_pt) = U/2 = 0.002/2 (arithmetic)
         assertEquals(0.001, m.get("assignedValueUncertainty").asDouble(), 1e-15);
+        // arithmetic: (0.742 - 0.750) / 0.010 = -0.8 (common practice, no source)
         assertEquals(-0.8, m.get("scores").get(0).get("z").asDouble(), 1e-9);
     }
 
