@@ -1,7 +1,6 @@
 package org.roundtable.statistics;
 
 import java.util.ArrayList;
-import java.util.Arrays;
 import java.util.List;
 import java.util.Locale;
 import java.util.Objects;
@@ -11,6 +10,7 @@ import org.roundtable.statistics.robust.Median;
 import org.roundtable.statistics.robust.NormalizedIqr;
 import org.roundtable.statistics.robust.QuartileRule;
 import org.roundtable.statistics.robust.ScaledMad;
+import org.roundtable.statistics.robust.SortedCopy;
 import org.roundtable.statistics.score.CensoredResult;
 import org.roundtable.statistics.score.ScoreKind;
 import org.roundtable.statistics.score.ScoreSelection;
@@ -148,8 +148,7 @@ public final class MeasurandEvaluation {
         double[] values = results.stream().filter(r -> !r.lessThan()).mapToDouble(ParticipantResult::value).toArray();
         int p = values.length;
         int censored = results.size() - p;
-        double[] sorted = values.clone();
-        Arrays.sort(sorted);
+        double[] sorted = SortedCopy.of(values);
 
         if (p < MINIMUM_PARTICIPANTS) {
             warnings.add(new StatisticsWarning("few-participants", p + " results used: robust"

@@ -15,9 +15,7 @@ import org.roundtable.statistics.score.ScoreKind;
 
 class MeasurandEvaluationTest {
 
-    /** Mn in low-alloy steel, % m/m, p = 20: constructed demo data. */
-    static final double[] MANGANESE = {0.742, 0.751, 0.748, 0.739, 0.755, 0.746, 0.744, 0.750,
-        0.747, 0.741, 0.753, 0.745, 0.749, 0.738, 0.752, 0.743, 0.746, 0.790, 0.772, 0.748};
+    static final double[] MANGANESE = DemoData.manganese();
 
     static List<ParticipantResult> results(double[] values) {
         List<ParticipantResult> list = new ArrayList<>();
@@ -71,7 +69,7 @@ class MeasurandEvaluationTest {
         // u/sigma = 0.4 > 0.3 -> z'
         assertEquals(ScoreKind.Z_PRIME, r.scoreUsed());
         assertFalse(hasWarning(r, "zeta-en-biased"));
-        // L01 0.742, U = 0.008, k = 2: zeta = -0.008/sqrt(0.004^2 + 0.004^2), En = -0.008/sqrt(0.008^2 + 0.008^2)
+        // arithmetic (no source): L01 0.742, U = 0.008, k = 2: zeta = -0.008/sqrt(0.004^2 + 0.004^2), En = -0.008/sqrt(0.008^2 + 0.008^2)
         assertEquals(-0.008 / Math.sqrt(2 * 0.004 * 0.004), r.scores().get(0).zeta(), 1e-9);
         assertEquals(-0.008 / Math.sqrt(2 * 0.008 * 0.008), r.scores().get(0).en(), 1e-9);
     }
@@ -121,6 +119,7 @@ class MeasurandEvaluationTest {
     void zeroSpreadWithAGivenPlanStillScores() {
         Result r = MeasurandEvaluation.evaluate(new Input("Si", "% m/m",
                 results(new double[] {5.0, 5.0, 5.0, 5.1, 4.9}), 5.0, 0.0, 0.05));
+        // arithmetic: (5.1 - 5.0) / 0.05 = 2.0, satisfactory at the boundary
         assertEquals(2.0, r.scores().get(3).z(), 1e-9);
         assertEquals("satisfactory", r.scores().get(3).classification());
     }

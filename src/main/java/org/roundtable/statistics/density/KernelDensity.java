@@ -1,7 +1,6 @@
 package org.roundtable.statistics.density;
 
 import java.util.ArrayList;
-import java.util.Arrays;
 import java.util.List;
 import org.roundtable.statistics.Checks;
 import org.roundtable.statistics.descriptive.Descriptive;
@@ -68,8 +67,7 @@ public final class KernelDensity {
     /** Density estimate with Silverman's bandwidth. */
     public static KernelDensity of(double[] values) {
         Checks.requireFinite(values, 2, "kernel density");
-        double[] s = values.clone();
-        Arrays.sort(s);
+        double[] s = org.roundtable.statistics.robust.SortedCopy.of(values);
         return new KernelDensity(s, silvermanBandwidthOfSorted(s));
     }
 
@@ -77,16 +75,14 @@ public final class KernelDensity {
     public static KernelDensity of(double[] values, double bandwidth) {
         Checks.requireFinite(values, 1, "kernel density");
         Checks.requirePositive(bandwidth, "bandwidth");
-        double[] s = values.clone();
-        Arrays.sort(s);
+        double[] s = org.roundtable.statistics.robust.SortedCopy.of(values);
         return new KernelDensity(s, bandwidth);
     }
 
     /** Silverman's rule of thumb {@code 0.9·min(s, IQR/1.34)·p^(−1/5)} (R {@code bw.nrd0}). */
     public static double silvermanBandwidth(double[] values) {
         Checks.requireFinite(values, 2, "Silverman bandwidth");
-        double[] s = values.clone();
-        Arrays.sort(s);
+        double[] s = org.roundtable.statistics.robust.SortedCopy.of(values);
         return silvermanBandwidthOfSorted(s);
     }
 

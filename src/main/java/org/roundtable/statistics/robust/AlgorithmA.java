@@ -1,6 +1,5 @@
 package org.roundtable.statistics.robust;
 
-import java.util.Arrays;
 import java.util.List;
 import org.roundtable.statistics.Checks;
 import org.roundtable.statistics.StatisticsWarning;
@@ -177,8 +176,7 @@ public final class AlgorithmA {
      */
     public Result evaluate(double[] values) {
         Checks.requireFinite(values, 2, "Algorithm A");
-        double[] sorted = values.clone();
-        Arrays.sort(sorted);
+        double[] sorted = SortedCopy.of(values);
         return evaluateSorted(sorted);
     }
 

@@ -1,6 +1,5 @@
 package org.roundtable.statistics.robust;
 
-import java.util.Arrays;
 import org.roundtable.statistics.Checks;
 
 /**
@@ -29,8 +28,7 @@ public final class Median {
      */
     public static double of(double[] values) {
         Checks.requireFinite(values, 1, "median");
-        double[] sorted = values.clone();
-        Arrays.sort(sorted);
+        double[] sorted = SortedCopy.of(values);
         return ofSorted(sorted);
     }
 

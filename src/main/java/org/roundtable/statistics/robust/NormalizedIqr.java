@@ -1,6 +1,5 @@
 package org.roundtable.statistics.robust;
 
-import java.util.Arrays;
 import org.roundtable.statistics.Checks;
 
 /**
@@ -43,8 +42,7 @@ public final class NormalizedIqr {
      */
     public static double of(double[] values, QuartileRule rule) {
         Checks.requireFinite(values, 1, "nIQR");
-        double[] sorted = values.clone();
-        Arrays.sort(sorted);
+        double[] sorted = SortedCopy.of(values);
         return ofSorted(sorted, rule);
     }
 

@@ -1,6 +1,5 @@
 package org.roundtable.statistics.robust;
 
-import java.util.Arrays;
 import org.roundtable.statistics.Checks;
 
 /**
@@ -35,8 +34,7 @@ public final class ScaledMad {
      */
     public static double mad(double[] values) {
         Checks.requireFinite(values, 1, "MAD");
-        double[] sorted = values.clone();
-        Arrays.sort(sorted);
+        double[] sorted = SortedCopy.of(values);
         return madOfSorted(sorted, Median.ofSorted(sorted));
     }
 

@@ -20,9 +20,7 @@ class EvaluateCommandTest {
 
     static final String HEADER = "participant,measurand,unit,value,expanded_uncertainty,coverage_factor,method\n";
 
-    /** Mn in low-alloy steel, % m/m, p = 20: constructed demo data. */
-    static final double[] MANGANESE = {0.742, 0.751, 0.748, 0.739, 0.755, 0.746, 0.744, 0.750,
-        0.747, 0.741, 0.753, 0.745, 0.749, 0.738, 0.752, 0.743, 0.746, 0.790, 0.772, 0.748};
+    static final double[] MANGANESE = org.roundtable.statistics.DemoData.manganese();
 
     @TempDir
     Path dir;
@@ -97,7 +95,9 @@ class EvaluateCommandTest {
         assertEquals(0, r.exitCode(), r.err());
         JsonNode m = r.json().get("measurands").get(0);
         assertEquals(0.750, m.get("assignedValue").asDouble(), 0.0);
+        // u(x_pt) = U/2 = 0.002/2 (arithmetic)
         assertEquals(0.001, m.get("assignedValueUncertainty").asDouble(), 1e-15);
+        // arithmetic: (0.742 - 0.750) / 0.010 = -0.8 (common practice, no source)
         assertEquals(-0.8, m.get("scores").get(0).get("z").asDouble(), 1e-9);
     }
 

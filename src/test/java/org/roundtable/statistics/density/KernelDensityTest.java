@@ -14,11 +14,8 @@ import org.junit.jupiter.api.Test;
  */
 class KernelDensityTest {
 
-    /** Mn in low-alloy steel, % m/m, p = 20: constructed demo data. */
-    static final double[] MANGANESE = {0.742, 0.751, 0.748, 0.739, 0.755, 0.746, 0.744, 0.750,
-        0.747, 0.741, 0.753, 0.745, 0.749, 0.738, 0.752, 0.743, 0.746, 0.790, 0.772, 0.748};
-    /** Creosote cell means, ISO 5725-5:1998 example (secondary quotation). */
-    static final double[] CREOSOTE = {24.140, 20.155, 19.500, 20.300, 20.705, 17.570, 20.100, 20.940, 21.185};
+    static final double[] MANGANESE = org.roundtable.statistics.DemoData.manganese();
+    static final double[] CREOSOTE = org.roundtable.statistics.DemoData.creosote();
     /** Two populations, 7 + 5 values: constructed demo data. */
     static final double[] TWO_GROUPS = {1.00, 1.01, 0.99, 1.005, 0.995, 1.002, 0.998, 1.10, 1.11, 1.09, 1.105, 1.095};
 

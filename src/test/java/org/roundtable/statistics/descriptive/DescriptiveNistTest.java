@@ -68,9 +68,18 @@ class DescriptiveNistTest {
     void creosoteCellMeansGiveMeanAndSd() {
         // CALC: computed independently in Python and R, no published source (input: ISO 5725-5:1998
         // creosote example as quoted secondarily)
-        double[] x = {24.140, 20.155, 19.500, 20.300, 20.705, 17.570, 20.100, 20.940, 21.185};
+        double[] x = org.roundtable.statistics.DemoData.creosote();
         assertEquals(20.5105555556, Descriptive.mean(x), 1e-10);
         assertEquals(1.7268965018, Descriptive.standardDeviation(x), 1e-10);
+    }
+
+    @Test
+    void manganeseRoundGivesMeanAndSd() {
+        // CALC: computed independently in Python and R, no published source (constructed data); rel 1e-9
+        double[] x = org.roundtable.statistics.DemoData.manganese();
+        assertEquals(0.74995, Descriptive.mean(x), 0.74995 * 1e-9);
+        // SD printed to 9 significant digits: half a unit in the last digit (abs 5e-11)
+        assertEquals(0.0119052178, Descriptive.standardDeviation(x), 5e-11);
     }
 
     @Test

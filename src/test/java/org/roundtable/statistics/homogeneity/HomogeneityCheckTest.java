@@ -56,6 +56,15 @@ class HomogeneityCheckTest {
     }
 
     @Test
+    void chromiumMeanSquaresOfTheUnderlyingAnova() {
+        // CALC: MS_between = 0.000553333333, MS_within = 0.00028 (Python and R, no published source); rel 1e-8
+        org.roundtable.statistics.precision.OneWayAnova.Result a =
+                org.roundtable.statistics.precision.OneWayAnova.of(CHROMIUM);
+        assertEquals(0.000553333333, a.msBetween(), 0.000553333333 * 1e-8);
+        assertEquals(0.00028, a.msWithin(), 0.00028 * 1e-8);
+    }
+
+    @Test
     void chromiumAllowanceWithTheTableFactors() {
         // CALC: c = 1.88 (0.03)^2 + 1.01 s_w^2 = 0.0019748000 (rel 1e-8), s_w^2 = MS_within = 0.00028
         HomogeneityCheck.Result r = HomogeneityCheck.evaluate(CHROMIUM, 0.10);

@@ -31,7 +31,9 @@ class AlgorithmATest {
 
     @Test
     void creosoteIterationTraceMatchesTheFirstFiveSteps() {
-        // CALC: computed independently in Python and R, no published source; abs 1e-6
+        // CALC: computed independently in Python and R, no published source; abs 1e-6.
+        // Step 4 (20.411869, 1.038801) is close to the ISO 5725-5:1998 printed answer as quoted
+        // secondarily (about 20.41 and 1.04; from memory / secondary, not asserted).
         double[][] trace = {{20.387222, 0.985597}, {20.406605, 1.009683}, {20.410912, 1.026682},
             {20.411869, 1.038801}, {20.412082, 1.047480}};
         for (int i = 0; i < trace.length; i++) {

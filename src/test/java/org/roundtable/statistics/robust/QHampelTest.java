@@ -180,6 +180,7 @@ class QHampelTest {
             x[i] = 5 + 0.1 * r.nextGaussian();
         }
         QHampel.Result q = QHampel.evaluate(x);
+        // simulated N(5, 0.1^2) data, seed 42: the estimates must be near the true parameters
         assertEquals(0.1, q.robustSd(), 0.01);
         assertEquals(5.0, q.robustMean(), 0.02);
     }

@@ -1,0 +1,2 @@
+package org.roundtable;
+class Placeholder {}
