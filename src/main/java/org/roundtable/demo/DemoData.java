@@ -10,6 +10,7 @@ import org.eclipse.microprofile.config.inject.ConfigProperty;
 import org.jboss.logging.Logger;
 import org.roundtable.account.DemoAccounts;
 import org.roundtable.scheme.DemoSchemes;
+import org.roundtable.submission.DemoSubmissions;
 
 /**
  * Loads the demo scenario into an empty database when {@code roundtable.demo.enabled} is true (set by
@@ -26,13 +27,16 @@ public class DemoData {
     private final EntityManager entityManager;
     private final DemoAccounts accounts;
     private final DemoSchemes schemes;
+    private final DemoSubmissions submissions;
 
     public DemoData(@ConfigProperty(name = "roundtable.demo.enabled", defaultValue = "false") boolean enabled,
-                    EntityManager entityManager, DemoAccounts accounts, DemoSchemes schemes) {
+                    EntityManager entityManager, DemoAccounts accounts, DemoSchemes schemes,
+                    DemoSubmissions submissions) {
         this.enabled = enabled;
         this.entityManager = entityManager;
         this.accounts = accounts;
         this.schemes = schemes;
+        this.submissions = submissions;
     }
 
     void onStart(@Observes StartupEvent event) {
@@ -40,10 +44,19 @@ public class DemoData {
             return;
         }
         boolean loaded = load();
+        if (loaded) {
+            loadSubmissions();
+        }
         String logins = accounts.describeLogins();
         String banner = (loaded ? "Demo data loaded." : "Demo data already present.") + " Demo sign-ins (password for all: "
                 + DemoAccounts.DEMO_PASSWORD + "):\n" + logins;
         LOG.info(banner);
+    }
+
+    /** Demo results go through the submission service, each in its own transaction, after the round is committed. */
+    @ActivateRequestContext
+    void loadSubmissions() {
+        submissions.load();
     }
 
     @Transactional
