@@ -26,6 +26,7 @@ import org.jfree.chart.axis.CategoryLabelPositions;
 import org.jfree.chart.axis.NumberAxis;
 import org.jfree.chart.axis.SymbolAxis;
 import org.jfree.chart.axis.ValueAxis;
+import org.jfree.chart.plot.CategoryMarker;
 import org.jfree.chart.plot.CategoryPlot;
 import org.jfree.chart.plot.IntervalMarker;
 import org.jfree.chart.plot.Marker;
@@ -141,7 +142,7 @@ public final class ReportCharts {
                 + " participants." + (m.scoreKind() == ScoreKind.EN
                         ? " Lines at En = \u00b11."
                         : " Lines at \u00b12 (questionable beyond) and \u00b13 (unsatisfactory from).")
-                + (ownCode != null ? " Your bar is outlined in copper." : "");
+                + (ownCode != null ? " Your bar stands on a copper band and is labelled." : "");
         return new ReportChart("zbars-" + safe(m.id()), caption, WIDTH, HEIGHT, scored.size(),
                 () -> buildScoreBars(m, scored, ownCode, symbol));
     }
@@ -163,27 +164,17 @@ public final class ReportCharts {
             }
             paints.add(ownCode == null || own ? colour : ReportColours.pale(colour));
         }
-        final int highlighted = ownColumn;
         BarRenderer renderer = new BarRenderer() {
             @Override
             public Paint getItemPaint(int row, int column) {
                 return paints.get(column);
             }
-
-            @Override
-            public Paint getItemOutlinePaint(int row, int column) {
-                return column == highlighted ? ReportColours.COPPER : paints.get(column);
-            }
-
-            @Override
-            public Stroke getItemOutlineStroke(int row, int column) {
-                return column == highlighted ? new BasicStroke(2.5f) : new BasicStroke(0.5f);
-            }
         };
         renderer.setBarPainter(new StandardBarPainter());
         renderer.setShadowVisible(false);
-        renderer.setDrawBarOutline(true);
+        renderer.setDrawBarOutline(false);
         renderer.setItemMargin(0);
+        renderer.setMinimumBarLength(0.8);
         renderer.setMaximumBarWidth(0.06);
         renderer.setDefaultToolTipGenerator(null);
 
@@ -220,16 +211,19 @@ public final class ReportCharts {
             plot.addRangeMarker(marker(-3, ReportColours.BAD, REFERENCE_STROKE, ReportFormat.MINUS + "3"),
                     Layer.FOREGROUND);
         }
-        if (highlighted >= 0) {
-            // label just across the zero line from the bar, leaning into the chart so it is never cut off
-            ParticipantResult own = scored.get(highlighted);
+        if (ownColumn >= 0) {
+            // a copper band behind the own bar, and a label just across the zero line leaning into the chart
+            ParticipantResult own = scored.get(ownColumn);
+            CategoryMarker band = new CategoryMarker(own.participantCode(),
+                    ReportColours.mix(ReportColours.COPPER, Color.WHITE, 0.6), new BasicStroke(scored.size() > MAX_LABELLED ? 3f : 14f));
+            band.setDrawAsLine(true);
+            plot.addDomainMarker(band, Layer.BACKGROUND);
             double s = primaryScore(m, own);
-            double y = s >= 0 ? -0.25 : 0.25;
             CategoryTextAnnotation label = new CategoryTextAnnotation(
-                    own.participantCode() + " " + ReportFormat.signedScore(s), own.participantCode(), y);
+                    own.participantCode() + " " + ReportFormat.signedScore(s), own.participantCode(), s >= 0 ? -0.25 : 0.25);
             label.setFont(HIGHLIGHT_FONT);
             label.setPaint(ReportColours.COPPER);
-            boolean leftHalf = highlighted < scored.size() / 2;
+            boolean leftHalf = ownColumn < scored.size() / 2;
             label.setTextAnchor(s >= 0
                     ? (leftHalf ? TextAnchor.TOP_LEFT : TextAnchor.TOP_RIGHT)
                     : (leftHalf ? TextAnchor.BOTTOM_LEFT : TextAnchor.BOTTOM_RIGHT));

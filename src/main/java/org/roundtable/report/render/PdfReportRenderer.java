@@ -9,6 +9,7 @@ import com.openhtmltopdf.render.DefaultObjectDrawerFactory;
 import com.openhtmltopdf.render.RenderingContext;
 import java.awt.Shape;
 import java.awt.geom.Rectangle2D;
+import java.io.ByteArrayInputStream;
 import java.io.ByteArrayOutputStream;
 import java.io.IOException;
 import java.io.OutputStream;
@@ -42,7 +43,8 @@ import org.w3c.dom.Element;
  * an SVG parse, needs no Batik dependency, and keeps large rounds fast.
  *
  * <p>Fonts: DejaVu Sans regular and bold are embedded as subsets (the built-in PDF fonts lack
- * U+2212, σ and ζ). Page layout: running header (scheme, round, report id, status), footer
+ * U+2212, σ and ζ); they are handed to PDFBox without their GSUB table, see
+ * {@link ReportFonts#withoutGlyphSubstitution(String)}. Page layout: running header (scheme, round, report id, status), footer
  * "page x of y", a final "End of report" line.
  *
  * <p>Reproducible bytes: producer, title, creation and modification dates come from the model
@@ -55,6 +57,9 @@ public final class PdfReportRenderer {
 
     /** Producer string written into the PDF. */
     public static final String PRODUCER = "Roundtable report renderer";
+
+    private static final byte[] REGULAR_FONT = ReportFonts.withoutGlyphSubstitution(ReportFonts.REGULAR_RESOURCE);
+    private static final byte[] BOLD_FONT = ReportFonts.withoutGlyphSubstitution(ReportFonts.BOLD_RESOURCE);
 
     /** Renders the round report. */
     public byte[] render(RoundReport report) {
@@ -103,9 +108,9 @@ public final class PdfReportRenderer {
                 .withHtmlContent(built.xhtml(), null)
                 .useObjectDrawerFactory(drawers)
                 .withProducer(PRODUCER)
-                .useFont(() -> ReportFonts.open(ReportFonts.REGULAR_RESOURCE), ReportFonts.FAMILY, 400,
+                .useFont(() -> new ByteArrayInputStream(REGULAR_FONT), ReportFonts.FAMILY, 400,
                         BaseRendererBuilder.FontStyle.NORMAL, true)
-                .useFont(() -> ReportFonts.open(ReportFonts.BOLD_RESOURCE), ReportFonts.FAMILY, 700,
+                .useFont(() -> new ByteArrayInputStream(BOLD_FONT), ReportFonts.FAMILY, 700,
                         BaseRendererBuilder.FontStyle.NORMAL, true);
         try (PdfBoxRenderer renderer = builder.buildPdfRenderer()) {
             renderer.layout();

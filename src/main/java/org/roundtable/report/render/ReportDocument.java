@@ -212,9 +212,11 @@ final class ReportDocument {
 
     private void writeOwnSummary() {
         heading("Your results at a glance", "own-summary");
-        out.append("<table class=\"results\">\n<thead><tr><th>Measurand</th><th class=\"num\">Your result</th>"
-                + "<th class=\"num\">U</th><th class=\"num\">x<sub>pt</sub></th><th class=\"num\">\u03c3<sub>pt</sub></th>"
-                + "<th>Score</th><th class=\"num\">Value</th><th>Assessment</th></tr></thead>\n<tbody>\n");
+        out.append("<table class=\"results\">\n<thead><tr><th style=\"width: 24%\">Measurand</th>"
+                + "<th class=\"num\" style=\"width: 14%\">Your result</th><th class=\"num\" style=\"width: 10%\">U</th>"
+                + "<th class=\"num\" style=\"width: 10%\">x<sub>pt</sub></th>"
+                + "<th class=\"num\" style=\"width: 10%\">\u03c3<sub>pt</sub></th><th style=\"width: 7%\">Score</th>"
+                + "<th class=\"num\" style=\"width: 9%\">Value</th><th>Assessment</th></tr></thead>\n<tbody>\n");
         for (MeasurandSection m : report.measurands()) {
             for (ParticipantResult r : m.results()) {
                 if (!r.participantCode().equals(ownCode)) {
@@ -414,11 +416,14 @@ final class ReportDocument {
 
     private void writeResultsTable(MeasurandSection m) {
         int dd = dispersionDigits(m);
-        out.append("<h4>Results and scores</h4>\n<table class=\"results\">\n<thead><tr><th>Participant</th>"
-                + "<th class=\"num\">Result</th><th class=\"num\">U</th><th class=\"num\">k</th><th>Method group</th>"
-                + "<th class=\"num\">z</th><th class=\"num\">z\u2032</th><th class=\"num\">\u03b6</th>"
-                + "<th class=\"num\">En</th><th>Assessment (").append(ReportCharts.scoreSymbol(m.scoreKind()))
-                .append(")</th><th>Notes</th></tr></thead>\n<tbody>\n");
+        // fixed table layout with the widths of the header cells: large rounds lay out much faster
+        out.append("<h4>Results and scores</h4>\n<table class=\"results\">\n<thead><tr>"
+                + "<th style=\"width: 11%\">Participant</th><th class=\"num\" style=\"width: 9%\">Result</th>"
+                + "<th class=\"num\" style=\"width: 8%\">U</th><th class=\"num\" style=\"width: 4%\">k</th>"
+                + "<th style=\"width: 13%\">Method group</th><th class=\"num\" style=\"width: 6.5%\">z</th>"
+                + "<th class=\"num\" style=\"width: 6.5%\">z\u2032</th><th class=\"num\" style=\"width: 6.5%\">\u03b6</th>"
+                + "<th class=\"num\" style=\"width: 6.5%\">En</th><th style=\"width: 13%\">Assessment (")
+                .append(ReportCharts.scoreSymbol(m.scoreKind())).append(")</th><th>Notes</th></tr></thead>\n<tbody>\n");
         List<ParticipantResult> rows = new ArrayList<>(m.results());
         rows.sort(Comparator.comparing(ParticipantResult::participantCode));
         for (ParticipantResult r : rows) {
@@ -433,9 +438,15 @@ final class ReportDocument {
                     .append("</td><td class=\"num\">").append(ReportFormat.score(r.zPrime()))
                     .append("</td><td class=\"num\">").append(ReportFormat.score(r.zeta()))
                     .append("</td><td class=\"num\">").append(ReportFormat.score(r.en()))
-                    .append("</td><td>").append(assessment(r)).append("</td><td>").append(notes(r)).append("</td></tr>\n");
+                    .append("</td>").append(assessmentCell(r)).append("<td>").append(notes(r)).append("</td></tr>\n");
         }
         out.append("</tbody></table>\n");
+    }
+
+    /** The assessment as a table cell whose class carries the colour (one element less per row than a span). */
+    private static String assessmentCell(ParticipantResult r) {
+        Classification c = r.classification();
+        return c == null ? "<td class=\"unscored\">not scored</td>" : "<td class=\"" + c.word() + "\">" + c.word() + "</td>";
     }
 
     private static String assessment(ParticipantResult r) {
