@@ -80,6 +80,8 @@ public final class ReportCharts {
     public static final int YOUDEN_SIZE = 420;
     /** Participant codes are printed on the axis up to this many participants. */
     public static final int MAX_LABELLED = 40;
+    /** A rug of the individual results is drawn under the density up to this many results. */
+    public static final int MAX_RUG = 200;
     /** Score axis limit: bars beyond ± this are cut at the edge of the plot. */
     public static final double SCORE_AXIS_LIMIT = 8;
     /** Value axes show at most x_pt ± this many σ_pt. */
@@ -246,7 +248,8 @@ public final class ReportCharts {
             return null;
         }
         String caption = "Kernel density of the " + values.length + " results for " + m.title()
-                + " (Gaussian kernel, Silverman bandwidth), with x_pt and x_pt \u00b1 2\u03c3_pt."
+                + " (Gaussian kernel, Silverman bandwidth), with x_pt and x_pt \u00b1 2\u03c3_pt"
+                + (values.length <= MAX_RUG ? "; ticks mark the results." : ".")
                 + (ownCode != null ? " Your result is marked in copper." : "");
         return new ReportChart("density-" + safe(m.id()), caption, WIDTH, HEIGHT, values.length,
                 () -> buildDensity(m, used, values, ownCode));
@@ -283,7 +286,11 @@ public final class ReportCharts {
         XYSeries rug = new XYSeries("results", false, true);
         XYSeries ownRug = new XYSeries("own", false, true);
         for (ParticipantResult r : used) {
-            (r.participantCode().equals(ownCode) ? ownRug : rug).add(r.value(), 0.0);
+            if (r.participantCode().equals(ownCode)) {
+                ownRug.add(r.value(), 0.0);
+            } else if (used.size() <= MAX_RUG) {
+                rug.add(r.value(), 0.0);
+            }
         }
         XYSeriesCollection curveData = new XYSeriesCollection(curve);
         XYSeriesCollection rugData = new XYSeriesCollection();

@@ -22,6 +22,8 @@ import java.util.Calendar;
 import java.util.GregorianCalendar;
 import java.util.Map;
 import java.util.TimeZone;
+import java.util.logging.Level;
+import java.util.logging.Logger;
 import org.apache.pdfbox.cos.COSArray;
 import org.apache.pdfbox.cos.COSString;
 import org.apache.pdfbox.pdmodel.PDDocument;
@@ -57,6 +59,16 @@ public final class PdfReportRenderer {
 
     /** Producer string written into the PDF. */
     public static final String PRODUCER = "Roundtable report renderer";
+
+    /**
+     * openhtmltopdf logs at INFO for every document; warnings and errors still pass. Held in a field
+     * so that the logger, and with it the level, is not garbage-collected.
+     */
+    private static final Logger OPENHTMLTOPDF_LOG = Logger.getLogger("com.openhtmltopdf");
+
+    static {
+        OPENHTMLTOPDF_LOG.setLevel(Level.WARNING);
+    }
 
     private static final byte[] REGULAR_FONT = ReportFonts.withoutGlyphSubstitution(ReportFonts.REGULAR_RESOURCE);
     private static final byte[] BOLD_FONT = ReportFonts.withoutGlyphSubstitution(ReportFonts.BOLD_RESOURCE);

@@ -426,9 +426,11 @@ final class ReportDocument {
                 .append(ReportCharts.scoreSymbol(m.scoreKind())).append(")</th><th>Notes</th></tr></thead>\n<tbody>\n");
         List<ParticipantResult> rows = new ArrayList<>(m.results());
         rows.sort(Comparator.comparing(ParticipantResult::participantCode));
+        int row = 0;
         for (ParticipantResult r : rows) {
             boolean own = r.participantCode().equals(ownCode);
-            out.append(own ? "<tr class=\"own\">" : "<tr>").append("<td>").append(esc(r.participantCode()))
+            row++;
+            out.append(own ? "<tr class=\"own\">" : row % 5 == 0 ? "<tr class=\"rule\">" : "<tr>").append("<td>").append(esc(r.participantCode()))
                     .append(own ? " (you)" : "").append("</td><td class=\"num\">")
                     .append(esc(ReportFormat.minusSigns(r.reportedValue())))
                     .append("</td><td class=\"num\">").append(ReportFormat.decimal(r.expandedUncertainty(), dd))
