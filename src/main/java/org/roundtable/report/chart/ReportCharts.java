@@ -75,7 +75,7 @@ public final class ReportCharts {
     /** Width of a full-width chart in CSS pixels (≈ 170 mm). */
     public static final int WIDTH = 640;
     /** Height of a full-width chart in CSS pixels. */
-    public static final int HEIGHT = 250;
+    public static final int HEIGHT = 220;
     /** Width and height of a Youden plot. */
     public static final int YOUDEN_SIZE = 420;
     /** Participant codes are printed on the axis up to this many participants. */
@@ -217,7 +217,7 @@ public final class ReportCharts {
             // a copper band behind the own bar, and a label just across the zero line leaning into the chart
             ParticipantResult own = scored.get(ownColumn);
             CategoryMarker band = new CategoryMarker(own.participantCode(),
-                    ReportColours.mix(ReportColours.COPPER, Color.WHITE, 0.6), new BasicStroke(scored.size() > MAX_LABELLED ? 3f : 14f));
+                    ReportColours.mix(ReportColours.COPPER, Color.WHITE, 0.6), new BasicStroke(scored.size() > MAX_LABELLED ? 3f : 14f, BasicStroke.CAP_BUTT, BasicStroke.JOIN_MITER));
             band.setDrawAsLine(true);
             plot.addDomainMarker(band, Layer.BACKGROUND);
             double s = primaryScore(m, own);

@@ -7,6 +7,7 @@ import com.openhtmltopdf.pdfboxout.PdfBoxRenderer;
 import com.openhtmltopdf.pdfboxout.PdfRendererBuilder;
 import com.openhtmltopdf.render.DefaultObjectDrawerFactory;
 import com.openhtmltopdf.render.RenderingContext;
+import com.openhtmltopdf.util.XRLog;
 import java.awt.Shape;
 import java.awt.geom.Rectangle2D;
 import java.io.ByteArrayInputStream;
@@ -23,7 +24,6 @@ import java.util.GregorianCalendar;
 import java.util.Map;
 import java.util.TimeZone;
 import java.util.logging.Level;
-import java.util.logging.Logger;
 import org.apache.pdfbox.cos.COSArray;
 import org.apache.pdfbox.cos.COSString;
 import org.apache.pdfbox.pdmodel.PDDocument;
@@ -60,14 +60,11 @@ public final class PdfReportRenderer {
     /** Producer string written into the PDF. */
     public static final String PRODUCER = "Roundtable report renderer";
 
-    /**
-     * openhtmltopdf logs at INFO for every document; warnings and errors still pass. Held in a field
-     * so that the logger, and with it the level, is not garbage-collected.
-     */
-    private static final Logger OPENHTMLTOPDF_LOG = Logger.getLogger("com.openhtmltopdf");
-
     static {
-        OPENHTMLTOPDF_LOG.setLevel(Level.WARNING);
+        // openhtmltopdf logs several INFO lines for every document; keep its warnings and errors only
+        for (String logger : XRLog.listRegisteredLoggers()) {
+            XRLog.setLevel(logger, Level.WARNING);
+        }
     }
 
     private static final byte[] REGULAR_FONT = ReportFonts.withoutGlyphSubstitution(ReportFonts.REGULAR_RESOURCE);

@@ -318,7 +318,7 @@ final class ReportDocument {
 
     private void writeOverview() {
         heading("Measurands at a glance", "overview");
-        out.append("<table>\n<thead><tr><th>Measurand</th><th>Unit</th><th class=\"num\">n</th>"
+        out.append("<table>\n<thead><tr><th style=\"width: 22%\">Measurand</th><th>Unit</th><th class=\"num\">n</th>"
                 + "<th class=\"num\">x<sub>pt</sub></th><th class=\"num\">u(x<sub>pt</sub>)</th>"
                 + "<th class=\"num\">\u03c3<sub>pt</sub></th><th>Score</th><th class=\"num\">satisfactory</th>"
                 + "<th class=\"num\">questionable</th><th class=\"num\">unsatisfactory</th></tr></thead>\n<tbody>\n");
