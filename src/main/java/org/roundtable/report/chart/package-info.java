@@ -1,0 +1,7 @@
+/**
+ * Report charts drawn with JFreeChart in Roundtable's own style: described by {@link
+ * org.roundtable.report.chart.ReportChart}, built by {@link org.roundtable.report.chart.ReportCharts},
+ * drawn to SVG by {@link org.roundtable.report.chart.SvgCharts} and to PDF vector graphics by the PDF
+ * renderer.
+ */
+package org.roundtable.report.chart;

@@ -1,0 +1,2 @@
+/** Shared look of the reports: number formatting, colours and the bundled fonts. */
+package org.roundtable.report.style;

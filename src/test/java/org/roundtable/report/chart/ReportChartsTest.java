@@ -1,0 +1,146 @@
+package org.roundtable.report.chart;
+
+import static org.assertj.core.api.Assertions.assertThat;
+
+import java.io.ByteArrayInputStream;
+import java.nio.charset.StandardCharsets;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Set;
+import javax.xml.parsers.DocumentBuilderFactory;
+import org.junit.jupiter.api.Test;
+import org.roundtable.report.SampleRoundBuilder;
+import org.roundtable.report.model.MeasurandSection;
+import org.roundtable.report.model.RoundReport;
+import org.roundtable.report.style.ReportColours;
+import org.w3c.dom.Document;
+import org.w3c.dom.Element;
+import org.w3c.dom.NodeList;
+
+/** The SVG charts: well-formed, one bar per scored result, the own bar alone highlighted, reproducible. */
+class ReportChartsTest {
+
+    private final RoundReport round = SampleRoundBuilder.lowAlloySteel().build();
+
+    @Test
+    void scoreBarsAreWellFormedSvgWithOneBarPerScoredResult() throws Exception {
+        MeasurandSection manganese = round.measurand("Mn-A").orElseThrow();
+        ReportChart chart = ReportCharts.scoreBars(manganese, null);
+        Document svg = parse(SvgCharts.toSvgElement(chart));
+        assertThat(svg.getDocumentElement().getLocalName()).isEqualTo("svg");
+        assertThat(chart.markCount()).isEqualTo(12);
+        assertThat(filledRectangles(svg, Set.of(ReportColours.GOOD, ReportColours.WARN, ReportColours.BAD))).hasSize(12);
+        // one questionable bar: P05, z = -2.30
+        assertThat(filledRectangles(svg, Set.of(ReportColours.WARN))).hasSize(1);
+    }
+
+    @Test
+    void excludedAndCensoredResultsGetNoBar() throws Exception {
+        MeasurandSection nickel = round.measurand("Ni").orElseThrow();
+        Document svg = parse(SvgCharts.toSvgElement(ReportCharts.scoreBars(nickel, null)));
+        assertThat(filledRectangles(svg, Set.of(ReportColours.GOOD, ReportColours.WARN, ReportColours.BAD))).hasSize(11);
+        MeasurandSection nitrogen = round.measurand("N").orElseThrow();
+        assertThat(ReportCharts.scoreBars(nitrogen, null).markCount()).isEqualTo(11);
+    }
+
+    @Test
+    void scoreBarsDrawTheTwoAndThreeLinesOnBothSides() throws Exception {
+        String svg = SvgCharts.toSvgElement(ReportCharts.scoreBars(round.measurand("Cr").orElseThrow(), null));
+        assertThat(svg).contains(">+2<").contains(">\u22122<").contains(">+3<").contains(">\u22123<");
+        assertThat(svg).contains("stroke:rgb(184,134,11)").contains("stroke:rgb(164,48,42)");
+    }
+
+    @Test
+    void inALaboratoryReportOnlyTheOwnBarKeepsItsFullColourAndIsLabelled() throws Exception {
+        String svg = SvgCharts.toSvgElement(ReportCharts.scoreBars(round.measurand("Mn-A").orElseThrow(), "P05"));
+        Document document = parse(svg);
+        // P05 is questionable and keeps the full warn colour; the eleven others are drawn pale
+        assertThat(filledRectangles(document, Set.of(ReportColours.WARN))).hasSize(1);
+        assertThat(filledRectangles(document, Set.of(ReportColours.GOOD))).isEmpty();
+        assertThat(filledRectangles(document, Set.of(ReportColours.pale(ReportColours.GOOD)))).hasSize(11);
+        assertThat(svg).contains(">P05 \u22122.30<");
+        java.awt.Color band = ReportColours.mix(ReportColours.COPPER, java.awt.Color.WHITE, 0.6);
+        assertThat(svg).contains("stroke:rgb(" + band.getRed() + "," + band.getGreen() + "," + band.getBlue() + ")");
+    }
+
+    @Test
+    void densityChartMarksTheAssignedValueAndTwoSigmaLines() throws Exception {
+        ReportChart chart = ReportCharts.density(round.measurand("Mn-A").orElseThrow(), null);
+        String svg = SvgCharts.toSvgElement(chart);
+        parse(svg);
+        assertThat(svg).contains(">x\u209a\u209c<").contains(">+2\u03c3\u209a\u209c<").contains(">\u22122\u03c3\u209a\u209c<");
+        assertThat(chart.markCount()).isEqualTo(12);
+    }
+
+    @Test
+    void densityIsLeftOutWhenAllValuesAreEqual() {
+        MeasurandSection m = round.measurand("Mn-A").orElseThrow();
+        var same = m.results().stream()
+                .map(r -> new org.roundtable.report.model.ParticipantResult(r.participantCode(), r.itemLabel(), "0.748",
+                        0.748, r.unit(), r.expandedUncertainty(), r.coverageFactor(), r.methodGroup(), 0.0, 0.0, 0.0,
+                        0.0, r.classification(), false, "", false, "", false))
+                .toList();
+        MeasurandSection flat = new MeasurandSection(m.id(), m.name(), m.itemLabel(), m.unit(), m.reportingDigits(),
+                m.n(), m.assignedValue(), m.assignedValueMethod(), m.assignedValueUncertainty(), m.sigmaPt(),
+                m.sigmaPtMethod(), m.robust(), m.methodGroups(), m.warnings(), m.scoreKind(), m.scoreChoiceReason(),
+                same);
+        assertThat(ReportCharts.density(flat, null)).isNull();
+    }
+
+    @Test
+    void uncertaintyChartHasOneErrorBarPerResultWithU() throws Exception {
+        ReportChart chart = ReportCharts.uncertaintyBars(round.measurand("Cr").orElseThrow(), null);
+        parse(SvgCharts.toSvgElement(chart));
+        assertThat(chart.markCount()).isEqualTo(12);
+        assertThat(chart.caption()).contains("11 of 12 reported U");
+    }
+
+    @Test
+    void youdenPlotPairsTheParticipantsWithResultsOnBothItems() throws Exception {
+        ReportChart chart = ReportCharts.youden(round, "Mn-A", "Mn-B", "P05");
+        String svg = SvgCharts.toSvgElement(chart);
+        parse(svg);
+        assertThat(chart.markCount()).isEqualTo(12);
+        assertThat(svg).contains("fill:rgb(181,101,29)");
+    }
+
+    @Test
+    void theSameChartGivesTheSameSvg() {
+        ReportChart chart = ReportCharts.scoreBars(round.measurand("C").orElseThrow(), null);
+        assertThat(SvgCharts.toSvgElement(chart)).isEqualTo(SvgCharts.toSvgElement(chart));
+    }
+
+    @Test
+    void aThousandParticipantsGiveAThousandBarsWithoutCodesOnTheAxis() throws Exception {
+        RoundReport large = SampleRoundBuilder.synthetic(1000, 1).build();
+        String svg = SvgCharts.toSvgElement(ReportCharts.scoreBars(large.measurands().get(0), null));
+        Document document = parse(svg);
+        // a score of exactly 0 (result equal to x_pt) is a bar of no height, which is not drawn
+        long nonZero = large.measurands().get(0).results().stream().filter(r -> r.z() != 0.0).count();
+        assertThat(nonZero).isGreaterThan(900);
+        assertThat(filledRectangles(document, Set.of(ReportColours.GOOD, ReportColours.WARN, ReportColours.BAD)))
+                .hasSize((int) nonZero);
+        assertThat(svg).doesNotContain(">P0001<");
+    }
+
+    static Document parse(String svg) throws Exception {
+        DocumentBuilderFactory factory = DocumentBuilderFactory.newInstance();
+        factory.setNamespaceAware(true);
+        return factory.newDocumentBuilder().parse(new ByteArrayInputStream(svg.getBytes(StandardCharsets.UTF_8)));
+    }
+
+    static List<Element> filledRectangles(Document svg, Set<java.awt.Color> colours) {
+        List<String> fills = colours.stream()
+                .map(c -> "fill:rgb(" + c.getRed() + "," + c.getGreen() + "," + c.getBlue() + ")").toList();
+        List<Element> found = new ArrayList<>();
+        NodeList rects = svg.getElementsByTagNameNS("*", "rect");
+        for (int i = 0; i < rects.getLength(); i++) {
+            Element rect = (Element) rects.item(i);
+            String style = rect.getAttribute("style");
+            if (fills.stream().anyMatch(style::startsWith)) {
+                found.add(rect);
+            }
+        }
+        return found;
+    }
+}
