@@ -23,7 +23,7 @@ import java.util.Arrays;
 @QuarkusMain
 public final class RoundtableMain {
 
-    private RoundtableMain() {
+    RoundtableMain() {
     }
 
     public static void main(String... args) {

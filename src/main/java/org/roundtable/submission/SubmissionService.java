@@ -165,7 +165,8 @@ public class SubmissionService {
                     .map(p -> new DomainException.Detail(p.row() == 0 ? null : p.row(), p.column(), p.value(), p.key(), p.message()))
                     .toList();
             throw new DomainException.Unprocessable("The upload was not accepted: " + details.size()
-                    + (details.size() == 1 ? " problem" : " problems") + ". Nothing was saved.", details);
+                    + (details.size() == 1 ? " problem" : " problems") + ". Nothing was saved. Read as "
+                    + describe(rejected.detection()) + ".", details);
         }
         IntakeResult.Accepted accepted = (IntakeResult.Accepted) result;
         if (!accepted.warnings().isEmpty() && !confirmWarnings) {
@@ -236,7 +237,7 @@ public class SubmissionService {
                         + " results=" + accepted.results().size() + (late ? " late" : "")
                         + (correctionReason == null ? "" : " reason=" + correctionReason)));
         return new SubmissionViews.Receipt(submissionId, revision, receiptId, accepted.sha256(), now, late,
-                upload.channel().name(), warnings);
+                upload.channel().name(), warnings, describe(accepted.detection()));
     }
 
     /** One batched insert for all results of a revision (no per-row round trips). */
@@ -323,6 +324,21 @@ public class SubmissionService {
         } catch (java.security.GeneralSecurityException e) {
             throw new IllegalStateException(e);
         }
+    }
+
+    /** How the upload was read, in words: format, encoding and byte order mark, delimiter, decimal separator. */
+    static String describe(org.roundtable.submission.intake.Detection d) {
+        StringBuilder out = new StringBuilder(d.format().name());
+        if (d.encoding() != null) {
+            out.append(", ").append(d.encoding()).append(d.byteOrderMark() ? " with byte order mark" : "");
+        }
+        if (d.delimiter() != null) {
+            out.append(", delimiter '").append(d.delimiter()).append('\'');
+        }
+        if (d.decimalSeparator() != null) {
+            out.append(", decimal '").append(d.decimalSeparator()).append('\'');
+        }
+        return out.toString();
     }
 
     private static String scope(long laboratoryId) {

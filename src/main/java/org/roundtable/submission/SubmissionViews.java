@@ -17,10 +17,11 @@ public final class SubmissionViews {
     /**
      * Proof that a revision was stored: given only after its transaction committed.
      *
-     * @param sha256 SHA-256 of the canonical payload (the accepted results as canonical JSON)
+     * @param sha256   SHA-256 of the canonical payload (the accepted results as canonical JSON)
+     * @param detected how the upload was read, e.g. "CSV, UTF-8 with byte order mark, delimiter ';', decimal ','"
      */
     public record Receipt(long submissionId, int revision, String receiptId, String sha256, OffsetDateTime serverTime,
-                          boolean late, String channel, List<Warning> confirmedWarnings) {
+                          boolean late, String channel, List<Warning> confirmedWarnings, String detected) {
     }
 
     /** One result as the laboratory reported it, with the value converted exactly to the measurand's unit. */

@@ -106,7 +106,10 @@ class SubmissionTest {
         System.arraycopy(bom, 0, withBom, 0, bom.length);
         System.arraycopy(body, 0, withBom, bom.length, body.length);
         given().header("Authorization", "Bearer " + token).contentType("text/csv").body(withBom)
-                .post("/api/v1/my-rounds/" + round + "/submission/file").then().statusCode(201);
+                .post("/api/v1/my-rounds/" + round + "/submission/file").then().statusCode(201)
+                .body("detected", containsString("byte order mark"))
+                .body("detected", containsString("delimiter ';'"))
+                .body("detected", containsString("decimal ','"));
     }
 
     @Test
