@@ -1,5 +1,6 @@
 package org.roundtable.scheme;
 
+import org.roundtable.submission.intake.ChemicalElements;
 import org.roundtable.platform.DomainException;
 
 import java.util.List;
@@ -11,18 +12,8 @@ import java.util.List;
  */
 public final class ChemicalElement {
 
-    /** Symbols in order of atomic number, H (1) to U (92). */
-    public static final List<String> SYMBOLS = List.of(
-            "H", "He", "Li", "Be", "B", "C", "N", "O", "F", "Ne",
-            "Na", "Mg", "Al", "Si", "P", "S", "Cl", "Ar", "K", "Ca",
-            "Sc", "Ti", "V", "Cr", "Mn", "Fe", "Co", "Ni", "Cu", "Zn",
-            "Ga", "Ge", "As", "Se", "Br", "Kr", "Rb", "Sr", "Y", "Zr",
-            "Nb", "Mo", "Tc", "Ru", "Rh", "Pd", "Ag", "Cd", "In", "Sn",
-            "Sb", "Te", "I", "Xe", "Cs", "Ba", "La", "Ce", "Pr", "Nd",
-            "Pm", "Sm", "Eu", "Gd", "Tb", "Dy", "Ho", "Er", "Tm", "Yb",
-            "Lu", "Hf", "Ta", "W", "Re", "Os", "Ir", "Pt", "Au", "Hg",
-            "Tl", "Pb", "Bi", "Po", "At", "Rn", "Fr", "Ra", "Ac", "Th",
-            "Pa", "U");
+    /** Symbols in order of atomic number, H (1) to U (92): the one table, kept by the result intake. */
+    public static final List<String> SYMBOLS = ChemicalElements.SYMBOLS;
 
     private ChemicalElement() {
     }
