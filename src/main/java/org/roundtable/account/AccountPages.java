@@ -14,6 +14,7 @@ import jakarta.ws.rs.Produces;
 import jakarta.ws.rs.core.MediaType;
 import jakarta.ws.rs.core.Response;
 import org.roundtable.platform.DomainException;
+import org.roundtable.platform.FormActions;
 
 import java.time.LocalDate;
 import java.time.LocalTime;
@@ -21,7 +22,6 @@ import java.time.OffsetDateTime;
 import java.time.ZoneOffset;
 import java.time.format.DateTimeParseException;
 import java.util.List;
-import java.util.function.Supplier;
 
 /** Pages for administering users (admin), laboratories (coordinator, admin), one's own laboratory (lab manager) and an auditor's grants. */
 @Path("/")
@@ -84,7 +84,7 @@ public class AccountPages {
     public Response createUser(@FormParam("username") String username, @FormParam("displayName") String displayName,
                                @FormParam("email") String email, @FormParam("role") String role,
                                @FormParam("laboratoryId") String laboratoryId) {
-        return attempt(() -> usersPage(accounts.create(new AccountService.NewUser(username, displayName, email, role,
+        return FormActions.attempt(() -> usersPage(accounts.create(new AccountService.NewUser(username, displayName, email, role,
                 Role.fromName(role).map(Role::belongsToLaboratory).orElse(false) ? parseId(laboratoryId) : null)), null),
                 e -> usersPage(null, e));
     }
@@ -94,7 +94,7 @@ public class AccountPages {
     @RolesAllowed(Role.ADMIN_NAME)
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
     public Response setEnabled(@PathParam("userId") long userId, @FormParam("enabled") boolean enabled) {
-        return attempt(() -> {
+        return FormActions.attempt(() -> {
             accounts.setEnabled(userId, enabled);
             return usersPage(null, null);
         }, e -> usersPage(null, e));
@@ -104,14 +104,14 @@ public class AccountPages {
     @Path("admin/users/{userId}/password-link")
     @RolesAllowed(Role.ADMIN_NAME)
     public Response passwordLink(@PathParam("userId") long userId) {
-        return attempt(() -> usersPage(accounts.startPasswordReset(userId), null), e -> usersPage(null, e));
+        return FormActions.attempt(() -> usersPage(accounts.startPasswordReset(userId), null), e -> usersPage(null, e));
     }
 
     @POST
     @Path("admin/users/{userId}/two-step-reset")
     @RolesAllowed(Role.ADMIN_NAME)
     public Response resetTwoStep(@PathParam("userId") long userId) {
-        return attempt(() -> {
+        return FormActions.attempt(() -> {
             accounts.get(userId);
             twoStep.reset(userId);
             return usersPage(null, null);
@@ -124,7 +124,7 @@ public class AccountPages {
     @Path("laboratories")
     @RolesAllowed({Role.COORDINATOR_NAME, Role.ADMIN_NAME})
     public TemplateInstance laboratoriesPage() {
-        return Templates.laboratories(laboratories.listAll(), null, null, baseUrl());
+        return Templates.laboratories(laboratories.listAll(), null, null, FormActions.baseUrl(request));
     }
 
     @POST
@@ -135,11 +135,11 @@ public class AccountPages {
                           @FormParam("country") String country, @FormParam("contactName") String contactName,
                           @FormParam("contactEmail") String contactEmail,
                           @FormParam("managerUsername") String managerUsername) {
-        return attempt(() -> {
+        return FormActions.attempt(() -> {
             LaboratoryService.CreatedLaboratory created = laboratories.create(new LaboratoryService.NewLaboratory(
                     name, organisation, country, contactName, contactEmail, managerUsername, null));
-            return Templates.laboratories(laboratories.listAll(), created, null, baseUrl());
-        }, e -> Templates.laboratories(laboratories.listAll(), null, e, baseUrl()));
+            return Templates.laboratories(laboratories.listAll(), created, null, FormActions.baseUrl(request));
+        }, e -> Templates.laboratories(laboratories.listAll(), null, e, FormActions.baseUrl(request)));
     }
 
     // ---- lab manager: my laboratory ---------------------------------------------------------------------
@@ -157,7 +157,7 @@ public class AccountPages {
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
     public Response addMember(@FormParam("username") String username, @FormParam("displayName") String displayName,
                               @FormParam("email") String email, @FormParam("role") String role) {
-        return attempt(() -> myLaboratoryPage(accounts.createOwnLaboratoryMember(username, displayName, email, role),
+        return FormActions.attempt(() -> myLaboratoryPage(accounts.createOwnLaboratoryMember(username, displayName, email, role),
                 null, null), e -> myLaboratoryPage(null, null, e));
     }
 
@@ -166,7 +166,7 @@ public class AccountPages {
     @RolesAllowed(Role.LAB_MANAGER_NAME)
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
     public Response setMemberEnabled(@PathParam("userId") long userId, @FormParam("enabled") boolean enabled) {
-        return attempt(() -> {
+        return FormActions.attempt(() -> {
             accounts.setOwnLaboratoryMemberEnabled(userId, enabled);
             return myLaboratoryPage(null, null, null);
         }, e -> myLaboratoryPage(null, null, e));
@@ -176,7 +176,7 @@ public class AccountPages {
     @Path("my-laboratory/members/{userId}/password-link")
     @RolesAllowed(Role.LAB_MANAGER_NAME)
     public Response memberPasswordLink(@PathParam("userId") long userId) {
-        return attempt(() -> myLaboratoryPage(accounts.startOwnLaboratoryMemberReset(userId), null, null),
+        return FormActions.attempt(() -> myLaboratoryPage(accounts.startOwnLaboratoryMemberReset(userId), null, null),
                 e -> myLaboratoryPage(null, null, e));
     }
 
@@ -185,14 +185,14 @@ public class AccountPages {
     @RolesAllowed(Role.LAB_MANAGER_NAME)
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
     public Response createToken(@FormParam("name") String name) {
-        return attempt(() -> myLaboratoryPage(null, tokens.create(name), null), e -> myLaboratoryPage(null, null, e));
+        return FormActions.attempt(() -> myLaboratoryPage(null, tokens.create(name), null), e -> myLaboratoryPage(null, null, e));
     }
 
     @POST
     @Path("my-laboratory/tokens/{tokenId}/revoke")
     @RolesAllowed(Role.LAB_MANAGER_NAME)
     public Response revokeToken(@PathParam("tokenId") long tokenId) {
-        return attempt(() -> {
+        return FormActions.attempt(() -> {
             tokens.revoke(tokenId);
             return myLaboratoryPage(null, null, null);
         }, e -> myLaboratoryPage(null, null, e));
@@ -203,7 +203,7 @@ public class AccountPages {
     @RolesAllowed(Role.LAB_MANAGER_NAME)
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
     public Response grant(@FormParam("auditorUsername") String auditorUsername, @FormParam("validUntil") String validUntil) {
-        return attempt(() -> {
+        return FormActions.attempt(() -> {
             grants.grant(auditorUsername, endOfDay(validUntil));
             return myLaboratoryPage(null, null, null);
         }, e -> myLaboratoryPage(null, null, e));
@@ -213,7 +213,7 @@ public class AccountPages {
     @Path("my-laboratory/auditor-grants/{grantId}/revoke")
     @RolesAllowed(Role.LAB_MANAGER_NAME)
     public Response revokeGrant(@PathParam("grantId") long grantId) {
-        return attempt(() -> {
+        return FormActions.attempt(() -> {
             grants.revoke(grantId);
             return myLaboratoryPage(null, null, null);
         }, e -> myLaboratoryPage(null, null, e));
@@ -231,34 +231,17 @@ public class AccountPages {
     // ---- helpers --------------------------------------------------------------------------------------------
 
     private TemplateInstance usersPage(AccountService.UserWithLink link, String error) {
-        return Templates.users(accounts.listAll(), laboratories.listAll(), link, error, baseUrl());
+        return Templates.users(accounts.listAll(), laboratories.listAll(), link, error, FormActions.baseUrl(request));
     }
 
     private TemplateInstance myLaboratoryPage(AccountService.UserWithLink link, ApiTokenService.CreatedToken newToken,
                                               String error) {
         return Templates.myLaboratory(laboratories.get(currentUser.requireLaboratoryId()),
                 accounts.listOwnLaboratoryMembers(), tokens.listOwn(), grants.listOwnLaboratory(), link, newToken,
-                error, baseUrl());
+                error, FormActions.baseUrl(request));
     }
 
-    /**
-     * Runs a form action; a "not found" (another laboratory's object or no object) propagates as such, other
-     * domain failures re-render the page with the message and the failure's status.
-     */
-    private static Response attempt(Supplier<TemplateInstance> action,
-                                    java.util.function.Function<String, TemplateInstance> onError) {
-        try {
-            return Response.ok(action.get()).build();
-        } catch (DomainException.NotFound | DomainException.Forbidden e) {
-            throw e;
-        } catch (DomainException e) {
-            return Response.status(e.status()).entity(onError.apply(e.detail())).build();
-        }
-    }
 
-    private String baseUrl() {
-        return request.scheme() + "://" + request.authority();
-    }
 
     private static Long parseId(String value) {
         if (value == null || value.isBlank()) {

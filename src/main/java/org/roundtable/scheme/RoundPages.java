@@ -18,12 +18,11 @@ import jakarta.ws.rs.core.Response;
 import org.roundtable.account.LaboratoryService;
 import org.roundtable.account.Role;
 import org.roundtable.platform.DomainException;
+import org.roundtable.platform.FormActions;
 import org.roundtable.scheme.qualification.QualificationService;
 
 import java.util.Arrays;
 import java.util.List;
-import java.util.function.Function;
-import java.util.function.Supplier;
 
 /**
  * Pages for preparing rounds (coordinators: schemes, catalogue, rounds, plan, enrolment, items,
@@ -98,7 +97,7 @@ public class RoundPages {
     @RolesAllowed(Role.COORDINATOR_NAME)
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
     public Response createScheme(@FormParam("name") String name, @FormParam("materialFamily") String family) {
-        return attempt(() -> {
+        return FormActions.attempt(() -> {
             SchemeService.SchemeView created = schemes.create(new SchemeService.NewScheme(name, family));
             return Templates.scheme(created, names(MethodGroup.values()), null, "Scheme created. Add its measurands.");
         }, this::schemesPage);
@@ -119,7 +118,7 @@ public class RoundPages {
                                  @FormParam("unit") String unit, @FormParam("reportingDigits") String digits,
                                  @FormParam("expectedMin") String min, @FormParam("expectedMax") String max,
                                  @FormParam("methodGroups") List<String> groups) {
-        return attempt(() -> {
+        return FormActions.attempt(() -> {
             SchemeService.MeasurandView m = schemes.putMeasurand(schemeId, new SchemeService.MeasurandEntry(element, unit,
                     integer(digits, "reporting digits"), min, max, groups));
             return Templates.scheme(schemes.get(schemeId), names(MethodGroup.values()), null, m.element() + " saved.");
@@ -146,7 +145,7 @@ public class RoundPages {
                                 @FormParam("resultDeadline") String resultDeadline, @FormParam("timeZone") String timeZone,
                                 @FormParam("instructions") String instructions, @FormParam("latePolicy") String latePolicy,
                                 @FormParam("codeScope") String codeScope) {
-        return attempt(() -> {
+        return FormActions.attempt(() -> {
             Integer items = integer(itemsPerLaboratory, "items per laboratory");
             List<String> labels = itemLabels == null || itemLabels.isBlank() ? null
                     : Arrays.stream(itemLabels.split(",")).map(String::strip).toList();
@@ -170,7 +169,7 @@ public class RoundPages {
     @RolesAllowed(Role.COORDINATOR_NAME)
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
     public Response transition(@PathParam("roundId") long roundId, @FormParam("action") String action) {
-        return attempt(() -> {
+        return FormActions.attempt(() -> {
             RoundService.RoundView after = rounds.transition(roundId, action);
             return roundPage(roundId, null, "Done: the round is now " + SchemeFormats.words(after.state()).toLowerCase() + ".", null);
         }, e -> roundPage(roundId, e, null, null));
@@ -183,7 +182,7 @@ public class RoundPages {
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
     public Response savePlan(@PathParam("roundId") long roundId, @FormParam("plan") String planText,
                              @FormParam("reason") String reason) {
-        return attempt(() -> {
+        return FormActions.attempt(() -> {
             EvaluationPlan plan = parsePlan(planText);
             if (RoundState.valueOf(rounds.get(roundId).state()) == RoundState.DRAFT) {
                 rounds.saveDraftPlan(roundId, plan);
@@ -203,11 +202,11 @@ public class RoundPages {
                           @FormParam("country") String country, @FormParam("contactName") String contactName,
                           @FormParam("contactEmail") String contactEmail,
                           @FormParam("managerUsername") String managerUsername) {
-        return attempt(() -> {
+        return FormActions.attempt(() -> {
             Long existing = laboratoryId == null || laboratoryId.isBlank() ? null : (long) integer(laboratoryId, "laboratory");
             EnrolmentService.Enrolled enrolled = enrolments.enrol(roundId, new EnrolmentService.Enrolment(existing,
                     organisation, name, country, contactName, contactEmail, managerUsername));
-            String link = enrolled.passwordLinkPath() == null ? null : baseUrl() + enrolled.passwordLinkPath();
+            String link = enrolled.passwordLinkPath() == null ? null : FormActions.baseUrl(request) + enrolled.passwordLinkPath();
             return roundPage(roundId, null, enrolled.participant().laboratoryName() + " enrolled as "
                     + enrolled.participant().participantCode() + ".", link);
         }, e -> roundPage(roundId, e, null, null));
@@ -219,7 +218,7 @@ public class RoundPages {
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
     public Response replace(@PathParam("roundId") long roundId, @PathParam("itemId") long itemId,
                             @FormParam("reason") String reason) {
-        return attempt(() -> {
+        return FormActions.attempt(() -> {
             EnrolmentService.ItemView item = enrolments.replace(roundId, itemId, new EnrolmentService.Replacement(reason));
             return roundPage(roundId, null, "Replacement of item " + item.itemLabel() + " for " + item.participantCode()
                     + " recorded as dispatched.", null);
@@ -232,7 +231,7 @@ public class RoundPages {
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
     public Response withdraw(@PathParam("roundId") long roundId, @FormParam("itemLabel") String label,
                              @FormParam("reason") String reason) {
-        return attempt(() -> {
+        return FormActions.attempt(() -> {
             enrolments.withdraw(roundId, new EnrolmentService.Withdrawal(label, reason));
             return roundPage(roundId, null, "Item withdrawn; the participants have a notice.", null);
         }, e -> roundPage(roundId, e, null, null));
@@ -243,7 +242,7 @@ public class RoundPages {
     @RolesAllowed(Role.COORDINATOR_NAME)
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
     public Response homogeneity(@PathParam("roundId") long roundId, @FormParam("csv") String csv) {
-        return attempt(() -> {
+        return FormActions.attempt(() -> {
             qualification.uploadHomogeneity(roundId, new QualificationService.Upload(csv));
             return roundPage(roundId, null, "Homogeneity data checked.", null);
         }, e -> roundPage(roundId, e, null, null));
@@ -254,7 +253,7 @@ public class RoundPages {
     @RolesAllowed(Role.COORDINATOR_NAME)
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
     public Response stability(@PathParam("roundId") long roundId, @FormParam("csv") String csv) {
-        return attempt(() -> {
+        return FormActions.attempt(() -> {
             qualification.uploadStability(roundId, new QualificationService.Upload(csv));
             return roundPage(roundId, null, "Stability data checked.", null);
         }, e -> roundPage(roundId, e, null, null));
@@ -266,7 +265,7 @@ public class RoundPages {
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
     public Response decide(@PathParam("roundId") long roundId, @FormParam("element") String element,
                            @FormParam("decision") String decision, @FormParam("reason") String reason) {
-        return attempt(() -> {
+        return FormActions.attempt(() -> {
             qualification.decide(roundId, new QualificationService.DecisionRequest(element, decision, reason));
             return roundPage(roundId, null, "Decision recorded for " + element + ".", null);
         }, e -> roundPage(roundId, e, null, null));
@@ -294,7 +293,7 @@ public class RoundPages {
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
     public Response acknowledge(@PathParam("roundId") long roundId, @FormParam("itemLabel") String label,
                                 @FormParam("condition") String condition, @FormParam("note") String note) {
-        return attempt(() -> Templates.myRound(enrolments.acknowledgeReceipt(roundId,
+        return FormActions.attempt(() -> Templates.myRound(enrolments.acknowledgeReceipt(roundId,
                         new EnrolmentService.Receipt(label, condition, note)), null, "Receipt of item " + label + " recorded."),
                 e -> Templates.myRound(enrolments.myRound(roundId), e, null));
     }
@@ -350,21 +349,5 @@ public class RoundPages {
         }
     }
 
-    /**
-     * Runs a form action; "not found" and "not allowed" propagate (so another laboratory's round looks
-     * exactly like a missing one), other domain failures re-render the page with the message and status.
-     */
-    private static Response attempt(Supplier<TemplateInstance> action, Function<String, TemplateInstance> onError) {
-        try {
-            return Response.ok(action.get()).build();
-        } catch (DomainException.NotFound | DomainException.Forbidden e) {
-            throw e;
-        } catch (DomainException e) {
-            return Response.status(e.status()).entity(onError.apply(e.detail())).build();
-        }
-    }
 
-    private String baseUrl() {
-        return request.scheme() + "://" + request.authority();
-    }
 }
