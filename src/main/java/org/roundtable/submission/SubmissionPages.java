@@ -34,9 +34,18 @@ import java.util.List;
 @Produces(MediaType.TEXT_HTML)
 public class SubmissionPages {
 
-    /** One input row of the results form: a measurand and item. */
+    /**
+     * One input row of the results form: a measurand and item, with what the laboratory entered last (kept when a
+     * submit is refused, so nothing has to be typed twice).
+     */
     public record FormRow(String element, String item, String unit, String otherUnit, List<String> methods, int digits,
-                          String fieldKey) {
+                          String fieldKey, Entered entered) {
+    }
+
+    /** The values of one form row as entered (empty strings when nothing was entered). */
+    public record Entered(String value, String unit, String uncertainty, String coverageFactor, String method,
+                          String replicates) {
+        static final Entered NOTHING = new Entered("", null, "", "2", null, "1");
     }
 
     /** Outcome shown on the page after a submit. */
@@ -78,7 +87,7 @@ public class SubmissionPages {
     @Path("my-rounds/{roundId}/results")
     @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
     public TemplateInstance results(@PathParam("roundId") long roundId) {
-        return page(roundId, null);
+        return page(roundId, null, null);
     }
 
     @POST
@@ -86,9 +95,9 @@ public class SubmissionPages {
     @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
     public Response submitForm(@PathParam("roundId") long roundId, MultivaluedMap<String, String> form) {
-        byte[] json = formAsJson(rows(roundId), form);
+        byte[] json = formAsJson(rows(roundId, null), form);
         boolean confirm = "on".equals(form.getFirst("confirmWarnings")) || "true".equals(form.getFirst("confirmWarnings"));
-        return attempt(roundId, () -> submissions.submit(roundId, new SubmissionService.Upload(SubmissionService.Channel.FORM,
+        return attempt(roundId, form, () -> submissions.submit(roundId, new SubmissionService.Upload(SubmissionService.Channel.FORM,
                 UploadFormat.JSON, json, null, null), confirm, null, clientAddress()));
     }
 
@@ -150,31 +159,53 @@ public class SubmissionPages {
     // ---- helpers ------------------------------------------------------------------------------------------------
 
     private Response attempt(long roundId, java.util.function.Supplier<SubmissionViews.Receipt> action) {
+        return attempt(roundId, null, action);
+    }
+
+    /** Runs a submit; on a refusal the page shows every problem and keeps what was entered in the form. */
+    private Response attempt(long roundId, MultivaluedMap<String, String> form,
+                             java.util.function.Supplier<SubmissionViews.Receipt> action) {
         try {
             SubmissionViews.Receipt receipt = action.get();
-            return Response.ok(page(roundId, receipt == null ? null : new Outcome(receipt, null, List.of(), false))).build();
+            return Response.ok(page(roundId, receipt == null ? null : new Outcome(receipt, null, List.of(), false), null)).build();
         } catch (DomainException.NotFound | DomainException.Forbidden e) {
             throw e;
         } catch (DomainException e) {
             boolean warnings = !e.details().isEmpty() && e.details().stream().allMatch(d -> d.key().startsWith("warning."));
-            return Response.status(e.status()).entity(page(roundId, new Outcome(null, e.detail(), e.details(), warnings))).build();
+            return Response.status(e.status())
+                    .entity(page(roundId, new Outcome(null, e.detail(), e.details(), warnings), form)).build();
         }
     }
 
-    private TemplateInstance page(long roundId, Outcome outcome) {
+    private TemplateInstance page(long roundId, Outcome outcome, MultivaluedMap<String, String> form) {
         SubmissionViews.MySubmission mine = queries.mine(roundId);
-        List<FormRow> rows = mine.roundState().equals("OPEN_FOR_RESULTS") ? rows(roundId) : List.of();
+        List<FormRow> rows = mine.roundState().equals("OPEN_FOR_RESULTS") ? rows(roundId, form) : List.of();
         return Templates.results(mine, rows, outcome, messages.ownThread(roundId));
     }
 
-    private List<FormRow> rows(long roundId) {
+    private List<FormRow> rows(long roundId, MultivaluedMap<String, String> form) {
         RoundAccess.SubmissionWindow window = rounds.window(roundId);
         return rounds.openMeasurands(roundId).stream()
-                .flatMap(m -> window.itemLabels().stream().map(item -> new FormRow(m.element(), item, m.unit(),
-                        "%".equals(m.unit()) ? "mg/kg" : "%",
-                        m.methodGroups().stream().map(g -> g.toLowerCase().replace('_', '-')).toList(), m.reportingDigits(),
-                        m.element() + "." + item)))
+                .flatMap(m -> window.itemLabels().stream().map(item -> {
+                    String key = m.element() + "." + item;
+                    return new FormRow(m.element(), item, m.unit(), "%".equals(m.unit()) ? "mg/kg" : "%",
+                            m.methodGroups().stream().map(g -> g.toLowerCase().replace('_', '-')).toList(),
+                            m.reportingDigits(), key, entered(form, key));
+                }))
                 .toList();
+    }
+
+    private static Entered entered(MultivaluedMap<String, String> form, String key) {
+        if (form == null) {
+            return Entered.NOTHING;
+        }
+        return new Entered(text(form.getFirst("value." + key)), form.getFirst("unit." + key),
+                text(form.getFirst("u." + key)), text(form.getFirst("k." + key)), form.getFirst("method." + key),
+                text(form.getFirst("replicates." + key)));
+    }
+
+    private static String text(String value) {
+        return value == null ? "" : value.strip();
     }
 
     /** The form's fields as the JSON upload format, so that the form goes through the same validation as files. */

@@ -60,6 +60,9 @@ class ResultsPageBrowserTest {
         assertThat(browser.findElement(By.id("problems")).getText()).contains("outside the expected range");
         assertThat(browser.getPageSource()).contains("Nothing submitted yet");
 
+        assertThat(browser.findElement(By.name("value.Cr.A")).getAttribute("value")).as("the entry is kept").isEqualTo("1.81");
+        assertThat(browser.findElement(By.name("u.Cr.A")).getAttribute("value")).isEqualTo("0.05");
+        browser.findElement(By.name("value.Cr.A")).clear();
         browser.findElement(By.name("value.Cr.A")).sendKeys("18.12");
         browser.findElement(By.cssSelector("form[action$='/results/form'] input[name='confirmWarnings']")).click();
         browser.findElement(By.cssSelector("form[action$='/results/form'] button")).click();
