@@ -11,6 +11,7 @@ import jakarta.ws.rs.POST;
 import jakarta.ws.rs.Path;
 import jakarta.ws.rs.PathParam;
 import jakarta.ws.rs.Produces;
+import jakarta.ws.rs.QueryParam;
 import jakarta.ws.rs.core.MediaType;
 import jakarta.ws.rs.core.Response;
 import org.roundtable.platform.DomainException;
@@ -28,15 +29,17 @@ import java.util.List;
 @Produces(MediaType.TEXT_HTML)
 public class AccountPages {
 
+    /** Rows shown at once on the users and laboratories pages; a search narrows them down. */
+    static final int PAGE_SIZE = 200;
+
     @CheckedTemplate(basePath = "account")
     static class Templates {
-        static native TemplateInstance users(List<AccountService.UserView> users,
-                                             List<LaboratoryService.LaboratoryView> laboratories,
+        static native TemplateInstance users(LaboratoryService.Page<AccountService.UserView> users, String query,
                                              AccountService.UserWithLink link, String error, String baseUrl);
 
-        static native TemplateInstance laboratories(List<LaboratoryService.LaboratoryView> laboratories,
-                                                    LaboratoryService.CreatedLaboratory created, String error,
-                                                    String baseUrl);
+        static native TemplateInstance laboratories(LaboratoryService.Page<LaboratoryService.LaboratoryView> laboratories,
+                                                    String query, LaboratoryService.CreatedLaboratory created,
+                                                    String error, String baseUrl);
 
         static native TemplateInstance myLaboratory(LaboratoryService.LaboratoryView laboratory,
                                                     List<AccountService.UserView> members,
@@ -73,8 +76,8 @@ public class AccountPages {
     @GET
     @Path("admin/users")
     @RolesAllowed(Role.ADMIN_NAME)
-    public TemplateInstance users() {
-        return usersPage(null, null);
+    public TemplateInstance users(@QueryParam("q") String query) {
+        return Templates.users(accounts.search(query, PAGE_SIZE), query, null, null, FormActions.baseUrl(request));
     }
 
     @POST
@@ -123,8 +126,8 @@ public class AccountPages {
     @GET
     @Path("laboratories")
     @RolesAllowed({Role.COORDINATOR_NAME, Role.ADMIN_NAME})
-    public TemplateInstance laboratoriesPage() {
-        return Templates.laboratories(laboratories.listAll(), null, null, FormActions.baseUrl(request));
+    public TemplateInstance laboratoriesPage(@QueryParam("q") String query) {
+        return Templates.laboratories(laboratories.search(query, PAGE_SIZE), query, null, null, FormActions.baseUrl(request));
     }
 
     @POST
@@ -138,8 +141,8 @@ public class AccountPages {
         return FormActions.attempt(() -> {
             LaboratoryService.CreatedLaboratory created = laboratories.create(new LaboratoryService.NewLaboratory(
                     name, organisation, country, contactName, contactEmail, managerUsername, null));
-            return Templates.laboratories(laboratories.listAll(), created, null, FormActions.baseUrl(request));
-        }, e -> Templates.laboratories(laboratories.listAll(), null, e, FormActions.baseUrl(request)));
+            return Templates.laboratories(laboratories.search(null, PAGE_SIZE), null, created, null, FormActions.baseUrl(request));
+        }, e -> Templates.laboratories(laboratories.search(null, PAGE_SIZE), null, null, e, FormActions.baseUrl(request)));
     }
 
     // ---- lab manager: my laboratory ---------------------------------------------------------------------
@@ -231,7 +234,7 @@ public class AccountPages {
     // ---- helpers --------------------------------------------------------------------------------------------
 
     private TemplateInstance usersPage(AccountService.UserWithLink link, String error) {
-        return Templates.users(accounts.listAll(), laboratories.listAll(), link, error, FormActions.baseUrl(request));
+        return Templates.users(accounts.search(null, PAGE_SIZE), null, link, error, FormActions.baseUrl(request));
     }
 
     private TemplateInstance myLaboratoryPage(AccountService.UserWithLink link, ApiTokenService.CreatedToken newToken,

@@ -76,6 +76,17 @@ public class AccountService {
         return users.listAll(io.quarkus.panache.common.Sort.by("username")).stream().map(UserView::of).toList();
     }
 
+    /** Up to {@code limit} users whose username or name contains {@code query} (all when blank), and the total. */
+    @Transactional
+    public LaboratoryService.Page<UserView> search(String query, int limit) {
+        String like = "%" + (query == null ? "" : query.strip().toLowerCase(Locale.ROOT)
+                .replace("\\", "\\\\").replace("%", "\\%").replace("_", "\\_")) + "%";
+        String where = "lower(username) like ?1 or lower(displayName) like ?1";
+        List<UserView> items = users.find(where, io.quarkus.panache.common.Sort.by("username"), like)
+                .page(0, limit).list().stream().map(UserView::of).toList();
+        return new LaboratoryService.Page<>(items, users.count(where, like));
+    }
+
     @Transactional
     public UserView get(long userId) {
         return UserView.of(users.findByIdOptional(userId).orElseThrow(() -> new DomainException.NotFound("The user")));

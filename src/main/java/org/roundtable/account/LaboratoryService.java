@@ -83,6 +83,20 @@ public class LaboratoryService {
         return laboratories.listAll(Sort.by("organisation").and("name")).stream().map(LaboratoryView::of).toList();
     }
 
+    /** Up to {@code limit} laboratories whose name or organisation contains {@code query} (all when blank), and the total. */
+    public record Page<T>(List<T> items, long total) {
+    }
+
+    @Transactional
+    public Page<LaboratoryView> search(String query, int limit) {
+        String like = "%" + (query == null ? "" : query.strip().toLowerCase(Locale.ROOT)
+                .replace("\\", "\\\\").replace("%", "\\%").replace("_", "\\_")) + "%";
+        String where = "lower(name) like ?1 or lower(organisation) like ?1";
+        List<LaboratoryView> items = laboratories.find(where, Sort.by("organisation").and("name"), like)
+                .page(0, limit).list().stream().map(LaboratoryView::of).toList();
+        return new Page<>(items, laboratories.count(where, like));
+    }
+
     /** One laboratory, if the caller may see it; otherwise "not found". */
     @Transactional
     public LaboratoryView get(long laboratoryId) {
