@@ -1,0 +1,187 @@
+package org.roundtable.report;
+
+import jakarta.enterprise.context.ApplicationScoped;
+import jakarta.persistence.EntityManager;
+import jakarta.transaction.Transactional;
+import org.roundtable.audit.Actor;
+import org.roundtable.audit.AuditTrail;
+import org.roundtable.platform.DomainException;
+import org.roundtable.platform.Secrets;
+import org.roundtable.report.model.ReportIdentity;
+import org.roundtable.report.model.ReportStatus;
+
+import java.time.Clock;
+import java.time.Instant;
+import java.time.OffsetDateTime;
+import java.time.ZoneOffset;
+import java.time.temporal.ChronoUnit;
+import java.util.List;
+import java.util.Objects;
+import java.util.Optional;
+import java.util.regex.Pattern;
+
+/**
+ * The store of issued documents: the exact bytes handed out and their SHA-256 (table {@code issued_document},
+ * append-only for every role). Issuing is the only write; an amendment is a new document that names the one
+ * it replaces, and "superseded by" is always read from that newer document.
+ */
+@ApplicationScoped
+public class IssuedDocuments {
+
+    /** A SHA-256 as this service stores and accepts it: 64 lower-case hex digits. */
+    public static final Pattern SHA256 = Pattern.compile("[0-9a-f]{64}");
+
+    private static final String COLUMNS = """
+            SELECT d.id, d.report_id, d.kind, d.status, d.round_id, d.laboratory_id, r.report_id, d.amendment_reason,
+                   d.sha256, d.issued_at, n.report_id
+              FROM issued_document d
+              LEFT JOIN issued_document r ON r.id = d.replaces_document_id
+              LEFT JOIN issued_document n ON n.replaces_document_id = d.id
+            """;
+
+    private final EntityManager entityManager;
+    private final AuditTrail audit;
+    private final Clock clock;
+
+    public IssuedDocuments(EntityManager entityManager, AuditTrail audit, Clock clock) {
+        this.entityManager = entityManager;
+        this.audit = audit;
+        this.clock = clock;
+    }
+
+    /**
+     * A document to issue.
+     *
+     * @param identity the identity printed on the document (report number, status, what it replaces and why)
+     * @param kind round, laboratory or history export
+     * @param roundId the round, if any
+     * @param laboratoryId the laboratory, for laboratory reports and history exports
+     * @param contentType the media type of {@code bytes}, e.g. {@code application/pdf}
+     * @param bytes the exact bytes handed out
+     */
+    public record Issue(ReportIdentity identity, DocumentKind kind, Long roundId, Long laboratoryId, String contentType,
+                        byte[] bytes) {
+
+        public Issue {
+            Objects.requireNonNull(identity, "identity");
+            Objects.requireNonNull(kind, "kind");
+            Objects.requireNonNull(contentType, "contentType");
+            Objects.requireNonNull(bytes, "bytes");
+            if (bytes.length == 0) {
+                throw new IllegalArgumentException("an issued document has content");
+            }
+        }
+    }
+
+    /**
+     * Stores the document's bytes and SHA-256 and records one audit event, in the caller's transaction (or a
+     * new one). An amendment must name an issued report that no other document has replaced yet.
+     *
+     * @throws DomainException.Conflict when the report number or the exact bytes were issued before, or the
+     *                                  replaced report is unknown or already superseded
+     */
+    @Transactional
+    public IssuedDocument issue(Issue issue, Actor actor) {
+        ReportIdentity identity = issue.identity();
+        if (find("WHERE d.report_id = :v", identity.reportId()).isPresent()) {
+            throw new DomainException.Conflict("Report " + identity.reportId() + " has been issued already; issue an amendment with a new report number.");
+        }
+        String sha256 = Secrets.sha256Hex(issue.bytes());
+        if (find("WHERE d.sha256 = :v", sha256).isPresent()) {
+            throw new DomainException.Conflict("A document with exactly these bytes has been issued already.");
+        }
+        Long replaces = null;
+        if (identity.status() == ReportStatus.AMENDED) {
+            IssuedDocument replaced = find("WHERE d.report_id = :v", identity.replacesReportId())
+                    .orElseThrow(() -> new DomainException.Conflict("The replaced report " + identity.replacesReportId() + " has not been issued."));
+            if (replaced.supersededBy() != null) {
+                throw new DomainException.Conflict("Report " + replaced.reportId() + " has already been replaced by " + replaced.supersededBy() + ".");
+            }
+            replaces = replaced.id();
+        }
+        Instant now = Instant.now(clock).truncatedTo(ChronoUnit.MICROS);
+        Number id = (Number) entityManager.createNativeQuery("""
+                INSERT INTO issued_document (report_id, kind, status, round_id, laboratory_id, replaces_document_id,
+                       amendment_reason, content_type, bytes, sha256, issued_at, issued_by)
+                VALUES (:reportId, :kind, :status, :round, :lab, :replaces, :reason, :type, :bytes, :sha, :at, :by)
+                RETURNING id
+                """)
+                .setParameter("reportId", identity.reportId())
+                .setParameter("kind", issue.kind().name())
+                .setParameter("status", identity.status().name())
+                .setParameter("round", issue.roundId())
+                .setParameter("lab", issue.laboratoryId())
+                .setParameter("replaces", replaces)
+                .setParameter("reason", identity.status() == ReportStatus.AMENDED ? identity.amendmentReason() : null)
+                .setParameter("type", issue.contentType())
+                .setParameter("bytes", issue.bytes())
+                .setParameter("sha", sha256)
+                .setParameter("at", OffsetDateTime.ofInstant(now, ZoneOffset.UTC))
+                .setParameter("by", actor.name())
+                .getSingleResult();
+        audit.record(new AuditTrail.Event(actor, "report.issue", "issued_document", Long.toString(id.longValue()),
+                null, sha256, issue.kind().name() + " " + identity.status().name() + " " + identity.reportId()
+                + (identity.replacesReportId() == null ? "" : " replaces " + identity.replacesReportId())));
+        return byId(id.longValue()).orElseThrow();
+    }
+
+    /** The issued document with this row id. */
+    @Transactional
+    public Optional<IssuedDocument> byId(long documentId) {
+        return find("WHERE d.id = :v", documentId);
+    }
+
+    /** The issued document with exactly this SHA-256 (lower-case hex), if any. */
+    @Transactional
+    public Optional<IssuedDocument> verify(String sha256) {
+        if (sha256 == null || !SHA256.matcher(sha256).matches()) {
+            throw new DomainException.BadRequest("A SHA-256 is 64 lower-case hexadecimal digits.");
+        }
+        return find("WHERE d.sha256 = :v", sha256);
+    }
+
+    /** The report number of the newer document that replaces this one, read from that document's link. */
+    @Transactional
+    public Optional<String> supersededBy(long documentId) {
+        @SuppressWarnings("unchecked")
+        List<Object> newer = entityManager.createNativeQuery(
+                        "SELECT report_id FROM issued_document WHERE replaces_document_id = :id")
+                .setParameter("id", documentId).getResultList();
+        return newer.stream().findFirst().map(Object::toString);
+    }
+
+    /** The exact bytes issued. */
+    @Transactional
+    public Optional<byte[]> content(long documentId) {
+        @SuppressWarnings("unchecked")
+        List<byte[]> rows = entityManager.createNativeQuery("SELECT bytes FROM issued_document WHERE id = :id")
+                .setParameter("id", documentId).getResultList();
+        return rows.stream().findFirst();
+    }
+
+    private Optional<IssuedDocument> find(String where, Object value) {
+        @SuppressWarnings("unchecked")
+        List<Object[]> rows = entityManager.createNativeQuery(COLUMNS + where).setParameter("v", value).getResultList();
+        return rows.stream().findFirst().map(IssuedDocuments::read);
+    }
+
+    private static IssuedDocument read(Object[] row) {
+        return new IssuedDocument(((Number) row[0]).longValue(), (String) row[1], DocumentKind.valueOf((String) row[2]),
+                ReportStatus.valueOf((String) row[3]), row[4] == null ? null : ((Number) row[4]).longValue(),
+                row[5] == null ? null : ((Number) row[5]).longValue(), (String) row[6], (String) row[7],
+                row[8].toString().strip(), instant(row[9]), (String) row[10]);
+    }
+
+    private static Instant instant(Object value) {
+        if (value instanceof OffsetDateTime odt) {
+            return odt.toInstant();
+        }
+        if (value instanceof Instant i) {
+            return i;
+        }
+        if (value instanceof java.sql.Timestamp ts) {
+            return ts.toInstant();
+        }
+        throw new IllegalStateException("unexpected timestamp type " + value.getClass());
+    }
+}
