@@ -185,6 +185,47 @@ class EvaluationServiceTest {
     }
 
     @Test
+    void horwitzSigmaPtWithTheThompsonModificationOnACertifiedValue() {
+        long[] labs = labs(2);
+        long round = world.round(RoundState.CLOSED, new EvaluationPlan(List.of(new EvaluationPlan.MeasurandPlan("Mn",
+                "CERTIFIED_REFERENCE", null, "0.750", "0.004", "2", null, "HORWITZ_THOMPSON", null, null, null, null,
+                null, null, null, null, null, null, null, null, null))), Round.LatePolicy.REFUSE, labs);
+        world.reportResult(round, labs[0], "Mn", "0.800", null, "spark-oes", false);
+        world.reportResult(round, labs[1], "Mn", "0.750", null, "spark-oes", false);
+
+        EvaluationViews.MeasurandOutcome mn = evaluations.run(round, false, COORDINATOR).measurands().get(0);
+
+        // CALC: Horwitz σ = 0.02·c^0.8495 with c = 0.0075 (Thompson 2000: 1.2e-7 ≤ c ≤ 0.138), in %: 0.0313252495
+        assertThat(mn.sigmaPt()).isCloseTo(0.031325249511362306, within(1e-15));
+        assertThat(mn.sigmaPtMethod()).isEqualTo("HORWITZ_THOMPSON");
+        // CALC: z = 0.050/0.0313252495 = 1.59615648
+        assertThat(mn.scoreUsed()).isEqualTo("z");
+        assertThat(scoreOf(mn, labs[0]).z()).isCloseTo(1.5961564801539418, within(1e-12));
+    }
+
+    @Test
+    void anExpertConsensusWithSigmaPtAsAPercentageOfIt() {
+        long[] labs = labs(4);
+        List<String> experts = List.of(Long.toString(labs[0]), Long.toString(labs[1]), Long.toString(labs[2]));
+        long round = world.round(RoundState.CLOSED, new EvaluationPlan(List.of(new EvaluationPlan.MeasurandPlan("Mn",
+                "EXPERT_CONSENSUS", null, null, null, null, experts, "PERCENT_OF_ASSIGNED", null, "5", null, null,
+                null, "0.5", null, null, null, null, null, null, null))), Round.LatePolicy.REFUSE, labs);
+        String[] values = {"10.1", "10.2", "10.6", "11.0"};
+        for (int i = 0; i < labs.length; i++) {
+            world.reportResult(round, labs[i], "Mn", values[i], null, "spark-oes", false);
+        }
+
+        EvaluationViews.MeasurandOutcome mn = evaluations.run(round, false, COORDINATOR).measurands().get(0);
+
+        // CALC: Algorithm A of the experts' 10.1 10.2 10.6: x* 10.3 (rel 1e-8); σpt = 5 % of it = 0.515
+        assertThat(mn.assignedValue()).isCloseTo(10.3, within(10.3 * 1e-8));
+        assertThat(mn.sigmaPt()).isCloseTo(0.515, within(1e-7));
+        // CALC: u(x_pt) = 0.2165267016 > 0.3·σpt, so z′ = 0.7/√(0.515² + u²) = 1.25298255
+        assertThat(mn.scoreUsed()).isEqualTo("zPrime");
+        assertThat(scoreOf(mn, labs[3]).zPrime()).isCloseTo(1.2529825547, within(1e-6));
+    }
+
+    @Test
     void aPreviewIsForCoordinatorsOnlyAndARunNeedsAClosedRound() {
         long lab = world.laboratory();
         long round = world.round(RoundState.OPEN_FOR_RESULTS, lab);
