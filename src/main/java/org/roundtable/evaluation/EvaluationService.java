@@ -145,13 +145,21 @@ public class EvaluationService {
         for (Row r : rows) {
             byMeasurand.computeIfAbsent(r.element() + "\u0000" + r.itemLabel(), k -> new ArrayList<>()).add(r);
         }
+        // measurands withdrawn by a qualification decision are not evaluated; every item of the others is, even
+        // without results (then with its warnings and no scores)
+        Set<String> open = new HashSet<>();
+        rounds.openMeasurands(roundId).forEach(m -> open.add(m.element()));
+        Set<String> items = new java.util.TreeSet<>();
+        window.itemLabels().stream().map(String::strip).filter(l -> !l.isEmpty()).forEach(items::add);
+        rows.forEach(r -> items.add(r.itemLabel()));
         List<EvaluationViews.MeasurandOutcome> outcomes = new ArrayList<>();
         for (EvaluationPlan.MeasurandPlan mp : plan.measurands()) {
-            for (Map.Entry<String, List<Row>> e : byMeasurand.entrySet()) {
-                if (e.getKey().startsWith(mp.element() + "\u0000")) {
-                    outcomes.add(evaluate(mp, units.getOrDefault(mp.element(), ""),
-                            e.getKey().substring(mp.element().length() + 1), e.getValue(), lateUnscored));
-                }
+            if (!open.contains(mp.element())) {
+                continue;
+            }
+            for (String item : items) {
+                List<Row> results = byMeasurand.getOrDefault(mp.element() + "\u0000" + item, List.of());
+                outcomes.add(evaluate(mp, units.getOrDefault(mp.element(), ""), item, results, lateUnscored));
             }
         }
         String outputsSha = outputsSha256(outcomes);

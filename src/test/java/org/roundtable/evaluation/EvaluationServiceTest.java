@@ -226,6 +226,24 @@ class EvaluationServiceTest {
     }
 
     @Test
+    void aPlannedMeasurandWithoutResultsIsReportedWithoutScores() {
+        long lab = world.laboratory();
+        long round = world.round(RoundState.CLOSED, new EvaluationPlan(List.of(
+                plan("Cr", "CONSENSUS_ALL", null, null, null, "0.10", null),
+                plan("Mn", "CONSENSUS_ALL", null, null, null, "0.010", null))), Round.LatePolicy.REFUSE, lab);
+        world.reportResult(round, lab, "Mn", "0.745", null, "spark-oes", false);
+
+        List<EvaluationViews.MeasurandOutcome> measurands = evaluations.run(round, false, COORDINATOR).measurands();
+
+        assertThat(measurands).extracting(EvaluationViews.MeasurandOutcome::element).containsExactly("Cr", "Mn");
+        EvaluationViews.MeasurandOutcome cr = measurands.get(0);
+        assertThat(cr.n()).isZero();
+        assertThat(cr.scores()).isEmpty();
+        assertThat(cr.assignedValue()).isNull();
+        assertThat(cr.warnings()).extracting(EvaluationViews.Warning::code).contains("too-few-values", "no-assigned-value");
+    }
+
+    @Test
     void aPreviewIsForCoordinatorsOnlyAndARunNeedsAClosedRound() {
         long lab = world.laboratory();
         long round = world.round(RoundState.OPEN_FOR_RESULTS, lab);
