@@ -64,6 +64,9 @@ class AuthorizationMatrixTest {
     @Inject
     World world;
 
+    @Inject
+    org.roundtable.evaluation.EvaluationService evaluations;
+
     private long labA;
     private long labB;
 
@@ -257,13 +260,19 @@ class AuthorizationMatrixTest {
             // a round where the endpoints can act: items out, laboratory A enrolled (laboratory B is not)
             // results need a round open for results; other round endpoints a dispatched one
             boolean results = resolved.contains("submission") || resolved.contains("results")
-                    || resolved.contains("messages") || resolved.contains("review-flags");
+                    || resolved.contains("messages") || resolved.contains("review-flags")
+                    || resolved.contains("evaluation");
             long round = world.round(results ? org.roundtable.scheme.RoundState.OPEN_FOR_RESULTS
                     : org.roundtable.scheme.RoundState.DISPATCHED, labA);
             resolved = resolved.replace("{roundId}", Long.toString(round));
             if (resolved.contains("{revision}")) {
                 world.submitCr(round, labA, "18.12");
                 resolved = resolved.replace("{revision}", "1");
+            }
+            if (resolved.contains("{version}")) {
+                int version = evaluations.run(round, true, new org.roundtable.audit.Actor("matrix", "coordinator", null))
+                        .run().version();
+                resolved = resolved.replace("{version}", Integer.toString(version));
             }
             if (resolved.contains("{itemId}")) {
                 resolved = resolved.replace("{itemId}", Long.toString(world.itemOf(round, labA)));

@@ -124,6 +124,20 @@ public class World {
      * for Cr, and one item "A" per laboratory from DISPATCHED on. Returns the round id.
      */
     public long round(org.roundtable.scheme.RoundState state, long... enrolledLaboratories) {
+        return round(state, simplePlan("0.10"), org.roundtable.scheme.Round.LatePolicy.REFUSE, false, enrolledLaboratories);
+    }
+
+    /**
+     * Like {@link #round(org.roundtable.scheme.RoundState, long...)} with the given plan and late-result policy;
+     * the scheme's catalogue has Cr (%, 2 digits) and Mn (%, 3 digits, 0.5 to 1.0, spark OES or XRF).
+     */
+    public long round(org.roundtable.scheme.RoundState state, org.roundtable.scheme.EvaluationPlan evaluationPlan,
+                      org.roundtable.scheme.Round.LatePolicy latePolicy, long... enrolledLaboratories) {
+        return round(state, evaluationPlan, latePolicy, true, enrolledLaboratories);
+    }
+
+    private long round(org.roundtable.scheme.RoundState state, org.roundtable.scheme.EvaluationPlan evaluationPlan,
+                       org.roundtable.scheme.Round.LatePolicy latePolicy, boolean withMn, long... enrolledLaboratories) {
         long scheme = scheme();
         String code = unique("R").toUpperCase();
         org.roundtable.scheme.Measurand cr = new org.roundtable.scheme.Measurand();
@@ -131,21 +145,34 @@ public class World {
         cr.unit = "%";
         cr.reportingDigits = 2;
         cr.methodGroups = "SPARK_OES,XRF";
-        org.roundtable.scheme.PlanDocument.Canonical plan = org.roundtable.scheme.PlanDocument.canonical(simplePlan("0.10"),
-                java.util.List.of(cr), new org.roundtable.scheme.PlanDocument.RoundSettings(code,
-                        org.roundtable.scheme.Round.LatePolicy.REFUSE, org.roundtable.scheme.Round.CodeScope.ROUND),
+        java.util.List<org.roundtable.scheme.Measurand> catalogue = new java.util.ArrayList<>(java.util.List.of(cr));
+        if (withMn) {
+            insert("INSERT INTO measurand (scheme_id, element, unit, reporting_digits, expected_min, expected_max, method_groups) "
+                    + "VALUES (?, 'Mn', '%', 3, 0.5, 1.0, 'SPARK_OES,XRF') RETURNING id", scheme);
+            org.roundtable.scheme.Measurand mn = new org.roundtable.scheme.Measurand();
+            mn.element = "Mn";
+            mn.unit = "%";
+            mn.reportingDigits = 3;
+            mn.methodGroups = "SPARK_OES,XRF";
+            catalogue.add(mn);
+        }
+        org.roundtable.scheme.PlanDocument.Canonical plan = org.roundtable.scheme.PlanDocument.canonical(evaluationPlan,
+                catalogue, new org.roundtable.scheme.PlanDocument.RoundSettings(code,
+                        latePolicy, org.roundtable.scheme.Round.CodeScope.ROUND),
                 new com.fasterxml.jackson.databind.ObjectMapper());
         boolean draft = state == org.roundtable.scheme.RoundState.DRAFT;
         long round = insert("INSERT INTO round (scheme_id, code, item_description, items_per_laboratory, item_labels, dispatch_date, "
                         + "result_deadline, deadline_time_zone, instructions, late_policy, state, state_changed_at, draft_plan, created_at) "
                         + "VALUES (?, ?, 'Stainless steel disc, 40 mm', 1, 'A', current_date, now() + interval '30 days', 'Europe/Berlin', "
-                        + "'Treat the disc as a routine sample.', 'REFUSE', ?, now(), ?, now()) RETURNING id",
-                scheme, code, state.name(), draft ? plan.json() : null);
+                        + "'Treat the disc as a routine sample.', ?, ?, now(), ?, now()) RETURNING id",
+                scheme, code, latePolicy.name(), state.name(), draft ? plan.json() : null);
         if (!draft) {
             insert("INSERT INTO evaluation_plan (round_id, plan_version, canonical_json, sha256, reason, frozen_by, frozen_at) "
                     + "VALUES (?, 1, ?, ?, 'Frozen before enrolment', 'world', now()) RETURNING round_id", round, plan.json(), plan.sha256());
-            insert("INSERT INTO qualification_decision (round_id, element, decision, reason, decided_by, decided_at) "
-                    + "VALUES (?, 'Cr', 'ACCEPT', 'Checked by the test world', 'world', now()) RETURNING id", round);
+            for (org.roundtable.scheme.EvaluationPlan.MeasurandPlan m : evaluationPlan.measurands()) {
+                insert("INSERT INTO qualification_decision (round_id, element, decision, reason, decided_by, decided_at) "
+                        + "VALUES (?, ?, 'ACCEPT', 'Checked by the test world', 'world', now()) RETURNING id", round, m.element());
+            }
         }
         boolean itemsOut = state.ordinal() >= org.roundtable.scheme.RoundState.DISPATCHED.ordinal()
                 && state != org.roundtable.scheme.RoundState.CANCELLED;
@@ -168,6 +195,32 @@ public class World {
                         + "\"method\":\"spark-oes\",\"replicates\":2}]}")
                 .post("/api/v1/my-rounds/" + roundId + "/submission")
                 .then().statusCode(201).extract().path("receiptId");
+    }
+
+    /**
+     * Writes one result of item "A" straight into the submission tables as a new revision of the laboratory's
+     * submission (which then holds only this result): {@code reported} is a number or {@code <number}, in %;
+     * {@code expandedUncertainty} may be null (k = 2). For evaluation tests that need many laboratories fast.
+     */
+    public void reportResult(long roundId, long laboratoryId, String element, String reported, String expandedUncertainty,
+                             String methodCode, boolean late) {
+        long submission = insert("INSERT INTO submission (round_id, laboratory_id, current_revision, created_at, updated_at) "
+                + "VALUES (?, ?, 0, now(), now()) ON CONFLICT (round_id, laboratory_id) DO UPDATE SET updated_at = now() "
+                + "RETURNING id", roundId, laboratoryId);
+        int revision = (int) insert("SELECT current_revision + 1 FROM submission WHERE id = ?", submission);
+        String sha = org.roundtable.platform.Secrets.sha256Hex(unique("payload"));
+        long revisionId = insert("INSERT INTO submission_revision (submission_id, revision, channel, receipt_id, payload_sha256, "
+                + "canonical_payload, values_sha256, submitted_by, submitted_role, submitted_at, late) "
+                + "VALUES (?, ?, 'JSON', ?, ?, '{}', ?, 'world', 'lab-member', now(), ?) RETURNING id",
+                submission, revision, unique("RCPT"), sha, sha, late);
+        boolean lessThan = reported.startsWith("<");
+        java.math.BigDecimal number = new java.math.BigDecimal(lessThan ? reported.substring(1) : reported);
+        insert("INSERT INTO reported_result (revision_id, element, item_label, value_as_reported, unit_as_reported, less_than, "
+                + "reported_number, value_in_measurand_unit, expanded_uncertainty_as_reported, expanded_uncertainty, "
+                + "coverage_factor, method_group, replicates) VALUES (?, ?, 'A', ?, '%', ?, ?, ?, ?, ?, 2, ?, 1) RETURNING revision_id",
+                revisionId, element, reported, lessThan, number, number, expandedUncertainty,
+                expandedUncertainty == null ? null : new java.math.BigDecimal(expandedUncertainty), methodCode);
+        sql("UPDATE submission SET current_revision = ? WHERE id = ?", revision, submission);
     }
 
     /** The current item "A" of the laboratory in the round. */

@@ -1,0 +1,661 @@
+package org.roundtable.evaluation;
+
+import com.fasterxml.jackson.core.JsonProcessingException;
+import com.fasterxml.jackson.core.type.TypeReference;
+import com.fasterxml.jackson.databind.ObjectMapper;
+import jakarta.enterprise.context.ApplicationScoped;
+import jakarta.persistence.EntityManager;
+import jakarta.transaction.Transactional;
+import org.eclipse.microprofile.config.inject.ConfigProperty;
+import org.hibernate.Session;
+import org.roundtable.audit.Actor;
+import org.roundtable.audit.AuditTrail;
+import org.roundtable.platform.DomainException;
+import org.roundtable.platform.Secrets;
+import org.roundtable.scheme.EvaluationPlan;
+import org.roundtable.scheme.PlanStore;
+import org.roundtable.scheme.Round;
+import org.roundtable.scheme.RoundAccess;
+import org.roundtable.scheme.RoundState;
+import org.roundtable.statistics.MeasurandEvaluation;
+import org.roundtable.statistics.StatisticsWarning;
+import org.roundtable.statistics.robust.AlgorithmA;
+import org.roundtable.statistics.robust.Median;
+import org.roundtable.statistics.robust.SortedCopy;
+import org.roundtable.statistics.score.ScoreKind;
+import org.roundtable.statistics.sigma.MassFractionUnit;
+import org.roundtable.statistics.sigma.SigmaPt;
+
+import java.math.BigDecimal;
+import java.sql.PreparedStatement;
+import java.sql.Types;
+import java.time.Clock;
+import java.time.OffsetDateTime;
+import java.time.ZoneOffset;
+import java.util.ArrayList;
+import java.util.HashMap;
+import java.util.HashSet;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.Set;
+import java.util.TreeMap;
+
+/**
+ * Evaluates a round: applies the frozen evaluation plan to the laboratories' current results and stores the
+ * outcome as a new, immutable, versioned run.
+ *
+ * <p>Per measurand (element) and item, in one transaction:
+ * <ol>
+ *   <li>reads every laboratory's current revision set-based (one query);</li>
+ *   <li>excludes late results when the round's late-result policy does not score them (recorded reason);
+ *       censored ("less than") results are set aside and classified by {@link MeasurandEvaluation};</li>
+ *   <li>obtains the assigned value as the plan says: {@code CONSENSUS_ALL} — Algorithm A over all results;
+ *       {@code CONSENSUS_METHOD_GROUP} / {@code EXPERT_CONSENSUS} — Algorithm A over that subset, whose x* and
+ *       u(x_pt) = 1.25·s*&#47;√p are then given to the evaluation of everyone; {@code CERTIFIED_REFERENCE} /
+ *       {@code REFERENCE_LABORATORY} — the plan's value and U (converted to k = 2);</li>
+ *   <li>obtains σpt as the plan says (fixed, % of x_pt, Horwitz with Thompson's modification, precision data,
+ *       or the round's robust SD) and scores with {@link MeasurandEvaluation#evaluate}, the same code the
+ *       offline {@code evaluate} command runs, so the numbers are the same;</li>
+ *   <li>adds per-method-group statistics and the plan's warnings (below the plan's minimum participants,
+ *       method groups further apart than allowed, u(x_pt) too large for z).</li>
+ * </ol>
+ * The run stores the SHA-256 of its inputs (plan version and hash, and every result read) and of its outputs,
+ * and is audited as one event carrying the outputs hash. A preview (round still open for results) is a run like
+ * any other, marked {@code preview}; all of it is for coordinators only.
+ */
+@ApplicationScoped
+public class EvaluationService {
+
+    static final String EXCLUDED_LATE = "late result: the round's late-result policy does not score it";
+
+    private static final ObjectMapper CANONICAL = new ObjectMapper();
+
+    private final EntityManager entityManager;
+    private final RoundAccess rounds;
+    private final PlanStore plans;
+    private final AuditTrail audit;
+    private final Clock clock;
+    private final String codeVersion;
+
+    public EvaluationService(EntityManager entityManager, RoundAccess rounds, PlanStore plans, AuditTrail audit,
+                             Clock clock,
+                             @ConfigProperty(name = "quarkus.application.version", defaultValue = "unknown")
+                             String codeVersion) {
+        this.entityManager = entityManager;
+        this.rounds = rounds;
+        this.plans = plans;
+        this.audit = audit;
+        this.clock = clock;
+        this.codeVersion = codeVersion;
+    }
+
+    /** One result as read from a laboratory's current revision. */
+    record Row(long laboratoryId, String participantCode, String element, String itemLabel, String reported,
+               BigDecimal value, boolean lessThan, BigDecimal expandedUncertainty, BigDecimal coverageFactor,
+               String methodGroup, boolean late) {
+
+        double number() {
+            return Double.parseDouble(value.toPlainString());
+        }
+    }
+
+    /**
+     * Runs the evaluation and stores it as the round's next version.
+     *
+     * @param roundId the round
+     * @param preview true for a preview on the results so far (round open for results, closed or evaluating);
+     *                false for a run on a closed round (CLOSED or EVALUATING)
+     * @param actor   who asked, for the run and the audit trail
+     * @return the stored run with all outputs
+     */
+    @Transactional
+    public EvaluationViews.Run run(long roundId, boolean preview, Actor actor) {
+        entityManager.createNativeQuery("SELECT id FROM round WHERE id = :r FOR UPDATE").setParameter("r", roundId)
+                .getResultList();
+        RoundAccess.SubmissionWindow window = rounds.window(roundId);
+        RoundState state = RoundState.valueOf(window.state());
+        boolean closed = state == RoundState.CLOSED || state == RoundState.EVALUATING;
+        if (preview ? !(closed || state == RoundState.OPEN_FOR_RESULTS) : !closed) {
+            throw new DomainException.Conflict(preview
+                    ? "A preview needs a round open for results, closed or being evaluated; this round is " + state + "."
+                    : "An evaluation needs a closed round (or one being evaluated); this round is " + state
+                    + ". Ask for a preview instead.");
+        }
+        PlanStore.PlanVersion planVersion = plans.latest(roundId)
+                .orElseThrow(() -> new DomainException.Conflict("The round has no frozen evaluation plan."));
+        EvaluationPlan plan = plans.current(roundId).orElseThrow();
+        Map<String, String> units = units(roundId);
+        boolean lateUnscored = Round.LatePolicy.ACCEPT_FLAGGED_UNSCORED.name().equals(window.latePolicy());
+        List<Row> rows = currentResults(roundId);
+
+        StringBuilder inputs = new StringBuilder();
+        inputs.append("round ").append(roundId).append('\n').append("plan ").append(planVersion.version()).append(' ')
+                .append(planVersion.sha256()).append('\n').append("late-policy ").append(window.latePolicy()).append('\n');
+        for (Row r : rows) {
+            inputs.append(String.join("\t", Long.toString(r.laboratoryId()), r.participantCode(), r.element(),
+                    r.itemLabel(), r.reported(), r.value().toPlainString(), Boolean.toString(r.lessThan()),
+                    r.expandedUncertainty() == null ? "" : r.expandedUncertainty().toPlainString(),
+                    r.coverageFactor() == null ? "" : r.coverageFactor().toPlainString(), r.methodGroup(),
+                    Boolean.toString(r.late()))).append('\n');
+        }
+
+        Map<String, List<Row>> byMeasurand = new TreeMap<>();
+        for (Row r : rows) {
+            byMeasurand.computeIfAbsent(r.element() + "\u0000" + r.itemLabel(), k -> new ArrayList<>()).add(r);
+        }
+        // measurands withdrawn by a qualification decision are not evaluated; every item of the others is, even
+        // without results (then with its warnings and no scores)
+        Set<String> open = new HashSet<>();
+        rounds.openMeasurands(roundId).forEach(m -> open.add(m.element()));
+        Set<String> items = new java.util.TreeSet<>();
+        window.itemLabels().stream().map(String::strip).filter(l -> !l.isEmpty()).forEach(items::add);
+        rows.forEach(r -> items.add(r.itemLabel()));
+        List<EvaluationViews.MeasurandOutcome> outcomes = new ArrayList<>();
+        for (EvaluationPlan.MeasurandPlan mp : plan.measurands()) {
+            if (!open.contains(mp.element())) {
+                continue;
+            }
+            for (String item : items) {
+                List<Row> results = byMeasurand.getOrDefault(mp.element() + "\u0000" + item, List.of());
+                outcomes.add(evaluate(mp, units.getOrDefault(mp.element(), ""), item, results, lateUnscored));
+            }
+        }
+        String outputsSha = outputsSha256(outcomes);
+        String inputsSha = Secrets.sha256Hex(inputs.toString());
+
+        Number last = (Number) entityManager.createNativeQuery(
+                "SELECT coalesce(max(version), 0) FROM evaluation_run WHERE round_id = :r")
+                .setParameter("r", roundId).getSingleResult();
+        int version = last.intValue() + 1;
+        OffsetDateTime now = OffsetDateTime.now(clock).withOffsetSameInstant(ZoneOffset.UTC);
+        long runId = ((Number) entityManager.createNativeQuery("""
+                INSERT INTO evaluation_run (round_id, version, preview, round_state, plan_version, plan_sha256,
+                    inputs_sha256, outputs_sha256, code_version, created_by, created_at)
+                VALUES (:round, :version, :preview, :state, :planVersion, :planSha, :inputs, :outputs, :code, :by, :at)
+                RETURNING id
+                """).setParameter("round", roundId).setParameter("version", version).setParameter("preview", preview)
+                .setParameter("state", state.name()).setParameter("planVersion", planVersion.version())
+                .setParameter("planSha", planVersion.sha256()).setParameter("inputs", inputsSha)
+                .setParameter("outputs", outputsSha).setParameter("code", codeVersion)
+                .setParameter("by", actor.name()).setParameter("at", now).getSingleResult()).longValue();
+        store(runId, outcomes);
+        audit.record(new AuditTrail.Event(actor, preview ? "evaluation.preview" : "evaluation.run", "round",
+                Long.toString(roundId), null, outputsSha, String.format(Locale.ROOT,
+                "version %d, plan version %d, inputs %s, %d measurand(s)", version, planVersion.version(), inputsSha,
+                outcomes.size())));
+        EvaluationViews.RunSummary summary = new EvaluationViews.RunSummary(roundId, version, preview, state.name(),
+                planVersion.version(), planVersion.sha256(), inputsSha, outputsSha, codeVersion, actor.name(), now);
+        return new EvaluationViews.Run(summary, outcomes);
+    }
+
+    /** The round's runs, oldest first. */
+    @Transactional
+    public List<EvaluationViews.RunSummary> runs(long roundId) {
+        rounds.window(roundId); // 404 for a round that does not exist
+        @SuppressWarnings("unchecked")
+        List<Object[]> found = entityManager.createNativeQuery("""
+                SELECT round_id, version, preview, round_state, plan_version, plan_sha256, inputs_sha256,
+                       outputs_sha256, code_version, created_by, created_at
+                  FROM evaluation_run WHERE round_id = :r ORDER BY version
+                """).setParameter("r", roundId).getResultList();
+        return found.stream().map(EvaluationService::summary).toList();
+    }
+
+    /** One run with all its outputs, read back from the stored rows. */
+    @Transactional
+    public EvaluationViews.Run run(long roundId, int version) {
+        @SuppressWarnings("unchecked")
+        List<Object[]> found = entityManager.createNativeQuery("""
+                SELECT round_id, version, preview, round_state, plan_version, plan_sha256, inputs_sha256,
+                       outputs_sha256, code_version, created_by, created_at, id
+                  FROM evaluation_run WHERE round_id = :r AND version = :v
+                """).setParameter("r", roundId).setParameter("v", version).getResultList();
+        if (found.isEmpty()) {
+            throw new DomainException.NotFound("The evaluation run");
+        }
+        long runId = ((Number) found.get(0)[11]).longValue();
+        return new EvaluationViews.Run(summary(found.get(0)), storedOutcomes(runId));
+    }
+
+    /** SHA-256 of the outputs' canonical JSON (fields in declaration order, doubles in shortest exact form). */
+    public static String outputsSha256(List<EvaluationViews.MeasurandOutcome> outcomes) {
+        try {
+            return Secrets.sha256Hex(CANONICAL.writeValueAsString(outcomes));
+        } catch (JsonProcessingException e) {
+            throw new IllegalStateException(e);
+        }
+    }
+
+    /**
+     * The round's current results in the offline {@code evaluate} command's CSV format
+     * ({@code participant,measurand,unit,value,expanded_uncertainty,coverage_factor,method}); participant is the
+     * participant code, measurand the element (with the item label when the round has more than one item).
+     */
+    @Transactional
+    public String exportCsv(long roundId) {
+        Map<String, String> units = units(roundId);
+        List<Row> rows = currentResults(roundId);
+        Set<String> items = new HashSet<>();
+        rows.forEach(r -> items.add(r.itemLabel()));
+        StringBuilder csv = new StringBuilder("participant,measurand,unit,value,expanded_uncertainty,coverage_factor,method\r\n");
+        for (Row r : rows) {
+            String measurand = items.size() > 1 ? r.element() + "-" + r.itemLabel() : r.element();
+            csv.append(r.participantCode()).append(',').append(measurand).append(',')
+                    .append(units.getOrDefault(r.element(), "")).append(',')
+                    .append(r.lessThan() ? "<" : "").append(r.value().toPlainString()).append(',')
+                    .append(r.expandedUncertainty() == null ? "" : r.expandedUncertainty().toPlainString()).append(',')
+                    .append(r.expandedUncertainty() == null || r.coverageFactor() == null ? ""
+                            : r.coverageFactor().toPlainString()).append(',')
+                    .append(r.methodGroup()).append("\r\n");
+        }
+        return csv.toString();
+    }
+
+    // ---- evaluation of one measurand --------------------------------------------------------------------------
+
+    private EvaluationViews.MeasurandOutcome evaluate(EvaluationPlan.MeasurandPlan mp, String unit, String item,
+                                                      List<Row> rows, boolean lateUnscored) {
+        List<Row> used = new ArrayList<>();
+        Map<Long, String> excluded = new LinkedHashMap<>();
+        for (Row r : rows) {
+            if (r.late() && lateUnscored) {
+                excluded.put(r.laboratoryId(), EXCLUDED_LATE);
+            } else {
+                used.add(r);
+            }
+        }
+        List<MeasurandEvaluation.ParticipantResult> inputs = used.stream().map(EvaluationService::participant).toList();
+        String method = mp.assignedValueMethod() == null ? EvaluationPlan.AssignedValueMethod.CONSENSUS_ALL.name()
+                : mp.assignedValueMethod();
+        String sigmaMethod = mp.sigmaPtMethod() == null ? EvaluationPlan.SigmaPtMethod.FIXED.name() : mp.sigmaPtMethod();
+        List<EvaluationViews.Warning> extra = new ArrayList<>();
+
+        Double assigned = null;
+        Double assignedU = null;
+        switch (EvaluationPlan.AssignedValueMethod.valueOf(method)) {
+            case CONSENSUS_ALL -> {
+            }
+            case CERTIFIED_REFERENCE, REFERENCE_LABORATORY -> {
+                assigned = number(mp.referenceValue());
+                Double bigU = number(mp.referenceExpandedUncertainty());
+                Double k = number(mp.coverageFactor());
+                assignedU = bigU == null ? null
+                        : k == null ? bigU : bigU / k * MeasurandEvaluation.DEFAULT_COVERAGE_FACTOR;
+            }
+            case CONSENSUS_METHOD_GROUP, EXPERT_CONSENSUS -> {
+                boolean group = method.equals(EvaluationPlan.AssignedValueMethod.CONSENSUS_METHOD_GROUP.name());
+                Set<String> experts = mp.expertLaboratories() == null ? Set.of() : Set.copyOf(mp.expertLaboratories());
+                List<MeasurandEvaluation.ParticipantResult> subset = new ArrayList<>();
+                for (int i = 0; i < used.size(); i++) {
+                    Row r = used.get(i);
+                    if (group ? sameGroup(r.methodGroup(), mp.methodGroup())
+                            : experts.contains(Long.toString(r.laboratoryId()))) {
+                        subset.add(inputs.get(i));
+                    }
+                }
+                MeasurandEvaluation.Result consensus = MeasurandEvaluation.evaluate(new MeasurandEvaluation.Input(
+                        mp.element(), unit, subset, null, null, null));
+                if (consensus.assignedValueSource() == MeasurandEvaluation.AssignedValueSource.ALGORITHM_A) {
+                    assigned = consensus.assignedValue();
+                    assignedU = MeasurandEvaluation.DEFAULT_COVERAGE_FACTOR * consensus.assignedValueUncertainty();
+                    extra.add(new EvaluationViews.Warning("subset-consensus", String.format(Locale.ROOT,
+                            "x_pt is the Algorithm A consensus of %d result(s) of %s, u(x_pt) = 1.25·s*/√p of that"
+                            + " subset; their own zeta and En are biased towards zero", consensus.n(),
+                            group ? "method group " + mp.methodGroup() : "the expert laboratories")));
+                    if (consensus.n() < MeasurandEvaluation.MINIMUM_PARTICIPANTS) {
+                        extra.add(new EvaluationViews.Warning("few-in-subset", consensus.n()
+                                + " result(s) in the subset that gives x_pt: the consensus is unreliable below "
+                                + MeasurandEvaluation.MINIMUM_PARTICIPANTS + " values (ISO Guide 35:2017, B.5.1 c)"));
+                    }
+                } else {
+                    extra.add(new EvaluationViews.Warning("no-subset-consensus", "The subset ("
+                            + (group ? "method group " + mp.methodGroup() : "expert laboratories") + ", "
+                            + subset.size() + " result(s)) gives no consensus value; not scored"));
+                }
+            }
+        }
+
+        Double sigma;
+        MeasurandEvaluation.Result result;
+        EvaluationPlan.SigmaPtMethod sm = EvaluationPlan.SigmaPtMethod.valueOf(sigmaMethod);
+        boolean needsAssigned = sm == EvaluationPlan.SigmaPtMethod.PERCENT_OF_ASSIGNED
+                || sm == EvaluationPlan.SigmaPtMethod.HORWITZ_THOMPSON;
+        boolean subsetFailed = assigned == null && !method.equals(EvaluationPlan.AssignedValueMethod.CONSENSUS_ALL.name());
+        if (needsAssigned) {
+            Double x = assigned;
+            if (x == null && !subsetFailed) {
+                x = MeasurandEvaluation.evaluate(new MeasurandEvaluation.Input(mp.element(), unit, inputs, null, null,
+                        null)).assignedValue();
+            }
+            sigma = x == null || !(x > 0) ? null : sm == EvaluationPlan.SigmaPtMethod.PERCENT_OF_ASSIGNED
+                    ? SigmaPt.percentOfAssigned(number(mp.sigmaPtPercent()), x)
+                    : SigmaPt.thompsonHorwitz(x, massFractionUnit(unit));
+        } else {
+            sigma = switch (sm) {
+                case FIXED, EARLIER_ROUNDS -> number(mp.sigmaPt());
+                case PRECISION_DATA -> SigmaPt.fromPrecision(number(mp.reproducibilitySd()),
+                        number(mp.repeatabilitySd()), Integer.parseInt(mp.replicates().strip()));
+                default -> null;
+            };
+        }
+        if (subsetFailed) {
+            // no assigned value from the subset: statistics of all results, but nobody is scored
+            result = MeasurandEvaluation.evaluate(new MeasurandEvaluation.Input(mp.element(), unit, inputs, null, null,
+                    sigma));
+        } else {
+            result = MeasurandEvaluation.evaluate(new MeasurandEvaluation.Input(mp.element(), unit, inputs, assigned,
+                    assignedU, sigma));
+        }
+
+        int minimum = mp.minimumParticipants() == null ? MeasurandEvaluation.MINIMUM_PARTICIPANTS
+                : Integer.parseInt(mp.minimumParticipants().strip());
+        if (result.n() < minimum && minimum != MeasurandEvaluation.MINIMUM_PARTICIPANTS) {
+            extra.add(new EvaluationViews.Warning("below-plan-minimum", result.n()
+                    + " result(s) used; the plan asks for at least " + minimum));
+        }
+        if (result.scoreUsed() == ScoreKind.Z_PRIME) {
+            extra.add(new EvaluationViews.Warning("uncertainty-of-assigned-value-large",
+                    "u(x_pt) > 0.3·sigma_pt: z' is used instead of z (ISO 13528:2015, 9.2.1); " + result.scoreUsedReason()));
+        }
+        List<EvaluationViews.MethodGroupStatistics> groups = methodGroups(used);
+        Double allowed = number(mp.allowedMethodGroupDifference());
+        if (allowed != null) {
+            List<Double> centres = groups.stream().map(g -> g.robustMean() != null ? g.robustMean() : g.median())
+                    .filter(java.util.Objects::nonNull).toList();
+            if (centres.size() > 1) {
+                double spread = centres.stream().mapToDouble(Double::doubleValue).max().orElseThrow()
+                        - centres.stream().mapToDouble(Double::doubleValue).min().orElseThrow();
+                if (spread > allowed) {
+                    extra.add(new EvaluationViews.Warning("method-groups-differ", String.format(Locale.ROOT,
+                            "The method groups' robust means differ by %s %s, more than the %s the plan allows",
+                            Double.toString(spread), unit, Double.toString(allowed))));
+                }
+            }
+        }
+
+        List<EvaluationViews.Warning> warnings = new ArrayList<>();
+        for (StatisticsWarning w : result.warnings()) {
+            if (subsetFailed && (w.code().equals("zeta-en-biased"))) {
+                continue;
+            }
+            warnings.add(new EvaluationViews.Warning(w.code(), w.message()));
+        }
+        warnings.addAll(extra);
+
+        List<EvaluationViews.Score> scores = new ArrayList<>();
+        for (int i = 0; i < used.size(); i++) {
+            Row r = used.get(i);
+            MeasurandEvaluation.ParticipantScore s = result.scores().get(i);
+            if (subsetFailed) {
+                s = new MeasurandEvaluation.ParticipantScore(s.participant(), s.reported(), s.value(), null, null, null,
+                        null, null);
+            }
+            scores.add(new EvaluationViews.Score(r.laboratoryId(), r.participantCode(), r.reported(), r.methodGroup(),
+                    s.value(), s.z(), s.zPrime(), s.zeta(), s.en(), s.classification(), null));
+        }
+        for (Row r : rows) {
+            if (excluded.containsKey(r.laboratoryId())) {
+                scores.add(new EvaluationViews.Score(r.laboratoryId(), r.participantCode(), r.reported(),
+                        r.methodGroup(), r.lessThan() ? null : r.number(), null, null, null, null, null,
+                        excluded.get(r.laboratoryId())));
+            }
+        }
+        return new EvaluationViews.MeasurandOutcome(mp.element(), item, unit, result.n(), result.censored(),
+                excluded.size(), method, subsetFailed ? null : result.assignedValue(),
+                subsetFailed ? null : result.assignedValueUncertainty(), result.sigmaPt(), sigmaMethod,
+                result.sigmaPtSource() == null ? null : result.sigmaPtSource().name(),
+                subsetFailed || result.scoreUsed() == null ? null : result.scoreUsed().jsonName(),
+                subsetFailed ? null : result.scoreUsedReason(), result.median(), result.madE(), result.nIqr(),
+                result.robustMean(), result.robustSd(), result.iterations(), result.converged(), warnings, groups,
+                scores);
+    }
+
+    private static MeasurandEvaluation.ParticipantResult participant(Row r) {
+        Double u = r.expandedUncertainty() == null ? null : Double.parseDouble(r.expandedUncertainty().toPlainString());
+        Double k = u == null || r.coverageFactor() == null ? null
+                : Double.parseDouble(r.coverageFactor().toPlainString());
+        return new MeasurandEvaluation.ParticipantResult(r.participantCode(),
+                r.lessThan() ? "<" + r.value().toPlainString() : r.value().toPlainString(), r.number(), r.lessThan(),
+                u, k, r.methodGroup());
+    }
+
+    /** n, median and Algorithm A per method group (censored results left out), groups in name order. */
+    static List<EvaluationViews.MethodGroupStatistics> methodGroups(List<Row> rows) {
+        Map<String, List<Double>> byGroup = new TreeMap<>();
+        for (Row r : rows) {
+            if (!r.lessThan()) {
+                byGroup.computeIfAbsent(r.methodGroup(), g -> new ArrayList<>()).add(r.number());
+            }
+        }
+        List<EvaluationViews.MethodGroupStatistics> groups = new ArrayList<>();
+        byGroup.forEach((group, values) -> {
+            double[] sorted = SortedCopy.of(values.stream().mapToDouble(Double::doubleValue).toArray());
+            Double mean = null;
+            Double sd = null;
+            if (sorted.length >= 2) {
+                AlgorithmA.Result a = AlgorithmA.fullConvergence().evaluateSorted(sorted);
+                if (a.scaleEstimable()) {
+                    mean = a.robustMean();
+                    sd = a.robustSd();
+                }
+            }
+            groups.add(new EvaluationViews.MethodGroupStatistics(group, sorted.length, Median.ofSorted(sorted), mean, sd));
+        });
+        return groups;
+    }
+
+    /** A reported method code ({@code spark-oes}) against the plan's group name ({@code SPARK_OES}). */
+    static boolean sameGroup(String reportedCode, String planGroup) {
+        return planGroup != null && reportedCode.strip().replace('-', '_').equalsIgnoreCase(planGroup.strip());
+    }
+
+    private static MassFractionUnit massFractionUnit(String unit) {
+        return switch (unit.strip()) {
+            case "%" -> MassFractionUnit.PERCENT;
+            case "mg/kg" -> MassFractionUnit.MILLIGRAMS_PER_KILOGRAM;
+            case "g/kg" -> MassFractionUnit.GRAMS_PER_KILOGRAM;
+            default -> throw new DomainException.Conflict("Horwitz sigma_pt needs a mass fraction unit, not " + unit + ".");
+        };
+    }
+
+    private static Double number(String text) {
+        return text == null || text.isBlank() ? null : Double.parseDouble(text.strip());
+    }
+
+    // ---- reading and storing ----------------------------------------------------------------------------------
+
+    private Map<String, String> units(long roundId) {
+        @SuppressWarnings("unchecked")
+        List<Object[]> found = entityManager.createNativeQuery(
+                "SELECT m.element, m.unit FROM measurand m JOIN round r ON r.scheme_id = m.scheme_id WHERE r.id = :r")
+                .setParameter("r", roundId).getResultList();
+        Map<String, String> units = new HashMap<>();
+        found.forEach(f -> units.put((String) f[0], (String) f[1]));
+        return units;
+    }
+
+    /** Every laboratory's current revision's results, in element, item, participant code order (one query). */
+    List<Row> currentResults(long roundId) {
+        @SuppressWarnings("unchecked")
+        List<Object[]> found = entityManager.createNativeQuery("""
+                SELECT s.laboratory_id, rp.participant_code, rr.element, rr.item_label, rr.value_as_reported,
+                       rr.value_in_measurand_unit, rr.less_than, rr.expanded_uncertainty, rr.coverage_factor,
+                       rr.method_group, sr.late
+                  FROM submission s
+                  JOIN submission_revision sr ON sr.submission_id = s.id AND sr.revision = s.current_revision
+                  JOIN reported_result rr ON rr.revision_id = sr.id
+                  JOIN round_participant rp ON rp.round_id = s.round_id AND rp.laboratory_id = s.laboratory_id
+                 WHERE s.round_id = :r
+                 ORDER BY rr.element, rr.item_label, rp.participant_code
+                """).setParameter("r", roundId).getResultList();
+        return found.stream().map(f -> new Row(((Number) f[0]).longValue(), (String) f[1], (String) f[2],
+                (String) f[3], (String) f[4], decimal(f[5]), (Boolean) f[6], decimal(f[7]), decimal(f[8]),
+                (String) f[9], (Boolean) f[10])).toList();
+    }
+
+    private static BigDecimal decimal(Object value) {
+        return value == null ? null : value instanceof BigDecimal b ? b : new BigDecimal(value.toString());
+    }
+
+    private void store(long runId, List<EvaluationViews.MeasurandOutcome> outcomes) {
+        entityManager.unwrap(Session.class).doWork(connection -> {
+            try (PreparedStatement m = connection.prepareStatement("""
+                    INSERT INTO measurand_evaluation (run_id, element, item_label, position, unit, n, censored, excluded,
+                        assigned_value_method, assigned_value, assigned_value_uncertainty, sigma_pt, sigma_pt_method,
+                        sigma_pt_source, score_used, score_used_reason, median, made, niqr, robust_mean, robust_sd,
+                        iterations, converged, warnings_json, method_groups_json)
+                    VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)
+                    """);
+                 PreparedStatement p = connection.prepareStatement("""
+                    INSERT INTO participant_score (run_id, element, item_label, laboratory_id, position, participant_code,
+                        reported, method_group, value, z, z_prime, zeta, en, classification, excluded_reason)
+                    VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)
+                    """)) {
+                int position = 0;
+                for (EvaluationViews.MeasurandOutcome o : outcomes) {
+                    int i = 1;
+                    m.setLong(i++, runId);
+                    m.setString(i++, o.element());
+                    m.setString(i++, o.itemLabel());
+                    m.setInt(i++, position++);
+                    m.setString(i++, o.unit());
+                    m.setInt(i++, o.n());
+                    m.setInt(i++, o.censored());
+                    m.setInt(i++, o.excluded());
+                    m.setString(i++, o.assignedValueMethod());
+                    setDouble(m, i++, o.assignedValue());
+                    setDouble(m, i++, o.assignedValueUncertainty());
+                    setDouble(m, i++, o.sigmaPt());
+                    m.setString(i++, o.sigmaPtMethod());
+                    m.setString(i++, o.sigmaPtSource());
+                    m.setString(i++, o.scoreUsed());
+                    m.setString(i++, o.scoreUsedReason());
+                    setDouble(m, i++, o.median());
+                    setDouble(m, i++, o.madE());
+                    setDouble(m, i++, o.nIqr());
+                    setDouble(m, i++, o.robustMean());
+                    setDouble(m, i++, o.robustSd());
+                    if (o.iterations() == null) {
+                        m.setNull(i++, Types.INTEGER);
+                    } else {
+                        m.setInt(i++, o.iterations());
+                    }
+                    if (o.converged() == null) {
+                        m.setNull(i++, Types.BOOLEAN);
+                    } else {
+                        m.setBoolean(i++, o.converged());
+                    }
+                    m.setString(i++, json(o.warnings()));
+                    m.setString(i, json(o.methodGroups()));
+                    m.addBatch();
+                    int scorePosition = 0;
+                    for (EvaluationViews.Score s : o.scores()) {
+                        int j = 1;
+                        p.setLong(j++, runId);
+                        p.setString(j++, o.element());
+                        p.setString(j++, o.itemLabel());
+                        p.setLong(j++, s.laboratoryId());
+                        p.setInt(j++, scorePosition++);
+                        p.setString(j++, s.participantCode());
+                        p.setString(j++, s.reported());
+                        p.setString(j++, s.methodGroup());
+                        setDouble(p, j++, s.value());
+                        setDouble(p, j++, s.z());
+                        setDouble(p, j++, s.zPrime());
+                        setDouble(p, j++, s.zeta());
+                        setDouble(p, j++, s.en());
+                        p.setString(j++, s.classification());
+                        p.setString(j, s.excludedReason());
+                        p.addBatch();
+                    }
+                }
+                m.executeBatch();
+                p.executeBatch();
+            }
+        });
+    }
+
+    private static void setDouble(PreparedStatement s, int index, Double value) throws java.sql.SQLException {
+        if (value == null) {
+            s.setNull(index, Types.DOUBLE);
+        } else {
+            s.setDouble(index, value);
+        }
+    }
+
+    private static String json(Object value) {
+        try {
+            return CANONICAL.writeValueAsString(value);
+        } catch (JsonProcessingException e) {
+            throw new IllegalStateException(e);
+        }
+    }
+
+    private List<EvaluationViews.MeasurandOutcome> storedOutcomes(long runId) {
+        @SuppressWarnings("unchecked")
+        List<Object[]> scoreRows = entityManager.createNativeQuery("""
+                SELECT element, item_label, laboratory_id, participant_code, reported, method_group, value, z, z_prime,
+                       zeta, en, classification, excluded_reason
+                  FROM participant_score WHERE run_id = :run ORDER BY element, item_label, position
+                """).setParameter("run", runId).getResultList();
+        Map<String, List<Object[]>> scoresOf = new HashMap<>();
+        scoreRows.forEach(s -> scoresOf.computeIfAbsent(s[0] + "\u0000" + s[1], k -> new ArrayList<>()).add(s));
+        @SuppressWarnings("unchecked")
+        List<Object[]> found = entityManager.createNativeQuery("""
+                SELECT element, item_label, unit, n, censored, excluded, assigned_value_method, assigned_value,
+                       assigned_value_uncertainty, sigma_pt, sigma_pt_method, sigma_pt_source, score_used,
+                       score_used_reason, median, made, niqr, robust_mean, robust_sd, iterations, converged,
+                       warnings_json, method_groups_json
+                  FROM measurand_evaluation WHERE run_id = :run ORDER BY position
+                """).setParameter("run", runId).getResultList();
+        // the order as computed: measurands in plan order then item, participants as scored
+        List<EvaluationViews.MeasurandOutcome> outcomes = new ArrayList<>();
+        for (Object[] f : found) {
+            List<EvaluationViews.Score> scores = new ArrayList<>();
+            for (Object[] s : scoresOf.getOrDefault(f[0] + "\u0000" + f[1], List.of())) {
+                scores.add(new EvaluationViews.Score(((Number) s[2]).longValue(), (String) s[3], (String) s[4],
+                        (String) s[5], dbl(s[6]), dbl(s[7]), dbl(s[8]), dbl(s[9]), dbl(s[10]), (String) s[11],
+                        (String) s[12]));
+            }
+            try {
+                outcomes.add(new EvaluationViews.MeasurandOutcome((String) f[0], (String) f[1], (String) f[2],
+                        ((Number) f[3]).intValue(), ((Number) f[4]).intValue(), ((Number) f[5]).intValue(),
+                        (String) f[6], dbl(f[7]), dbl(f[8]), dbl(f[9]), (String) f[10], (String) f[11],
+                        (String) f[12], (String) f[13], dbl(f[14]), dbl(f[15]), dbl(f[16]), dbl(f[17]), dbl(f[18]),
+                        f[19] == null ? null : ((Number) f[19]).intValue(), (Boolean) f[20],
+                        CANONICAL.readValue((String) f[21], new TypeReference<List<EvaluationViews.Warning>>() { }),
+                        CANONICAL.readValue((String) f[22],
+                                new TypeReference<List<EvaluationViews.MethodGroupStatistics>>() { }),
+                        scores));
+            } catch (JsonProcessingException e) {
+                throw new IllegalStateException(e);
+            }
+        }
+        return outcomes;
+    }
+
+    private static OffsetDateTime toOffset(Object value) {
+        if (value instanceof OffsetDateTime o) {
+            return o;
+        }
+        if (value instanceof java.time.Instant i) {
+            return i.atOffset(ZoneOffset.UTC);
+        }
+        if (value instanceof java.sql.Timestamp t) {
+            return t.toInstant().atOffset(ZoneOffset.UTC);
+        }
+        return value == null ? null : OffsetDateTime.parse(value.toString());
+    }
+
+    private static Double dbl(Object value) {
+        return value == null ? null : ((Number) value).doubleValue();
+    }
+
+    private static EvaluationViews.RunSummary summary(Object[] r) {
+        return new EvaluationViews.RunSummary(((Number) r[0]).longValue(), ((Number) r[1]).intValue(), (Boolean) r[2],
+                (String) r[3], ((Number) r[4]).intValue(), r[5].toString(), r[6].toString(), r[7].toString(),
+                (String) r[8], (String) r[9], toOffset(r[10]));
+    }
+}
