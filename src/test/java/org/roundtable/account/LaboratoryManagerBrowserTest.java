@@ -45,12 +45,12 @@ class LaboratoryManagerBrowserTest {
         browser.findElement(By.id("username")).sendKeys(manager);
         browser.findElement(By.id("password")).sendKeys(World.PASSWORD);
         browser.findElement(By.cssSelector("form[action='/login'] button")).click();
-        assertThat(browser.getCurrentUrl()).as(browser.getPageSource()).endsWith("/my-laboratory");
+        Browser.waitForUrl(browser, url -> url.endsWith("/my-laboratory"));
         assertThat(browser.findElement(By.tagName("h1")).getText()).startsWith("Lab-");
 
         browser.findElement(By.id("tokenName")).sendKeys("LIMS export");
         browser.findElement(By.cssSelector("form[action='/my-laboratory/tokens'] button")).click();
-        String secret = browser.findElement(By.id("new-token")).getText();
+        String secret = Browser.waitFor(browser, By.id("new-token")).getText();
         assertThat(secret).startsWith("rt_");
         Browser.screenshot(browser, "my-laboratory-token-created");
 
@@ -58,11 +58,14 @@ class LaboratoryManagerBrowserTest {
         browser.findElement(By.id("validUntil")).sendKeys(java.time.LocalDate.now().plusDays(90)
                 .format(java.time.format.DateTimeFormatter.ofPattern("MM/dd/yyyy")));
         browser.findElement(By.cssSelector("form[action='/my-laboratory/auditor-grants'] button")).click();
+        new org.openqa.selenium.support.ui.WebDriverWait(browser, java.time.Duration.ofSeconds(20))
+                .until(d -> d.getPageSource().contains(auditor));
         assertThat(browser.getPageSource()).contains(auditor).contains("active");
         browser.navigate().refresh();
         assertThat(browser.getPageSource()).as("the token secret is shown only once").doesNotContain(secret);
 
         browser.findElement(By.cssSelector("form[action='/logout'] button")).click();
+        Browser.waitForUrl(browser, url -> url.contains("/login"));
         browser.get(base + "my-laboratory");
         assertThat(browser.getCurrentUrl()).contains("/login");
     }

@@ -56,15 +56,24 @@ class RoundPageBrowserTest {
         assertThat(browser.findElement(By.id("round-state")).getText()).isEqualTo("Enrolling");
         browser.findElement(By.id("homogeneity-csv")).sendKeys(HomogeneityWorkedExampleTest.csv());
         browser.findElement(By.xpath("//button[text()='Check homogeneity']")).click();
+        new org.openqa.selenium.support.ui.WebDriverWait(browser, java.time.Duration.ofSeconds(20))
+                .until(d -> d.findElement(By.id("qualification")).getText().contains("0.0166333"));
         String table = browser.findElement(By.id("qualification")).getText();
         // statistics reference §14.8 (CALC): s_x 0.0166333, s_w 0.0167332, s_s 0.0116905 to 6 significant digits
         assertThat(table).contains("0.0166333").contains("0.0167332").contains("0.0116905").contains("sufficient");
 
         browser.findElement(By.cssSelector("button[data-action=CONFIRM_QUALIFICATION]")).click();
-        assertThat(browser.findElement(By.id("round-state")).getText()).isEqualTo("Items qualified");
+        waitForState("Items qualified");
         browser.findElement(By.cssSelector("button[data-action=DISPATCH_ITEMS]")).click();
-        assertThat(browser.findElement(By.id("round-state")).getText()).isEqualTo("Dispatched");
+        waitForState("Dispatched");
         assertThat(browser.findElement(By.id("items")).getText()).contains("Dispatched");
         Browser.screenshot(browser, "round-dispatched");
+    }
+
+    /** A click on a form button can return before the next page is there (busy machine): wait for the new state. */
+    private void waitForState(String expected) {
+        new org.openqa.selenium.support.ui.WebDriverWait(browser, java.time.Duration.ofSeconds(20))
+                .ignoring(org.openqa.selenium.StaleElementReferenceException.class)
+                .until(d -> expected.equals(d.findElement(By.id("round-state")).getText()));
     }
 }

@@ -42,6 +42,7 @@ class ResultsPageBrowserTest {
         browser.findElement(By.id("username")).sendKeys(username);
         browser.findElement(By.id("password")).sendKeys(World.PASSWORD);
         browser.findElement(By.cssSelector("form[action='/login'] button")).click();
+        Browser.waitForUrl(browser, url -> !url.contains("/login"));
     }
 
     @Test
@@ -57,7 +58,7 @@ class ResultsPageBrowserTest {
         browser.findElement(By.name("value.Cr.A")).sendKeys("1.81");
         browser.findElement(By.name("u.Cr.A")).sendKeys("0.05");
         browser.findElement(By.cssSelector("form[action$='/results/form'] button")).click();
-        assertThat(browser.findElement(By.id("problems")).getText()).contains("outside the expected range");
+        assertThat(Browser.waitFor(browser, By.id("problems")).getText()).contains("outside the expected range");
         assertThat(browser.getPageSource()).contains("Nothing submitted yet");
 
         assertThat(browser.findElement(By.name("value.Cr.A")).getAttribute("value")).as("the entry is kept").isEqualTo("1.81");
@@ -66,7 +67,7 @@ class ResultsPageBrowserTest {
         browser.findElement(By.name("value.Cr.A")).sendKeys("18.12");
         browser.findElement(By.cssSelector("form[action$='/results/form'] input[name='confirmWarnings']")).click();
         browser.findElement(By.cssSelector("form[action$='/results/form'] button")).click();
-        assertThat(browser.findElement(By.id("receipt")).getText()).contains("revision 1").contains("SHA-256");
+        assertThat(Browser.waitFor(browser, By.id("receipt")).getText()).contains("revision 1").contains("SHA-256");
         assertThat(browser.findElement(By.id("current-results")).getText()).contains("18.12");
         Browser.screenshot(browser, "results-receipt");
 
@@ -76,7 +77,7 @@ class ResultsPageBrowserTest {
                 StandardCharsets.UTF_8);
         browser.findElement(By.id("file")).sendKeys(csv.toString());
         browser.findElement(By.cssSelector("form[action$='/results/upload'] button")).click();
-        String problems = browser.findElement(By.id("problems")).getText();
+        String problems = Browser.waitFor(browser, By.id("problems")).getText();
         assertThat(problems).contains("3").contains("method");
         assertThat(browser.findElement(By.id("current-results")).getText()).as("revision 1 is still the one in force")
                 .contains("18.12").doesNotContain("18.20");

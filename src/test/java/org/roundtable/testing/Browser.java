@@ -52,6 +52,21 @@ public final class Browser {
         return chrome;
     }
 
+    /**
+     * Waits (up to 20 s) for an element after a click that submits a form: on a busy machine the click can return
+     * before the next page has loaded.
+     */
+    public static org.openqa.selenium.WebElement waitFor(WebDriver driver, org.openqa.selenium.By locator) {
+        return new org.openqa.selenium.support.ui.WebDriverWait(driver, Duration.ofSeconds(20))
+                .until(org.openqa.selenium.support.ui.ExpectedConditions.presenceOfElementLocated(locator));
+    }
+
+    /** Waits (up to 20 s) until the current address satisfies the condition. */
+    public static void waitForUrl(WebDriver driver, java.util.function.Predicate<String> condition) {
+        new org.openqa.selenium.support.ui.WebDriverWait(driver, Duration.ofSeconds(20))
+                .until(d -> condition.test(d.getCurrentUrl()));
+    }
+
     /** Saves a screenshot under target/screenshots for a person to look at. */
     public static void screenshot(WebDriver driver, String name) {
         try {
