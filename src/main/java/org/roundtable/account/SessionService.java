@@ -3,6 +3,7 @@ package org.roundtable.account;
 import io.quarkus.narayana.jta.QuarkusTransaction;
 import jakarta.enterprise.context.ApplicationScoped;
 import jakarta.persistence.EntityManager;
+import org.roundtable.platform.Timestamps;
 import org.roundtable.platform.Secrets;
 
 import java.time.Clock;
@@ -110,7 +111,7 @@ public class SessionService {
                 return Optional.<SessionPrincipal>empty();
             }
             Object[] row = rows.get(0);
-            OffsetDateTime lastSeen = toOffset(row[5]);
+            OffsetDateTime lastSeen = Timestamps.utc(row[5]);
             if (lastSeen.plus(TOUCH_INTERVAL).isBefore(now)) {
                 entityManager.createNativeQuery("UPDATE user_session SET last_seen_at = :now WHERE token_hash = :hash")
                         .setParameter("now", now).setParameter("hash", hash).executeUpdate();
@@ -143,18 +144,5 @@ public class SessionService {
 
     private OffsetDateTime now() {
         return OffsetDateTime.now(clock).withOffsetSameInstant(ZoneOffset.UTC);
-    }
-
-    static OffsetDateTime toOffset(Object value) {
-        if (value instanceof OffsetDateTime odt) {
-            return odt;
-        }
-        if (value instanceof java.time.Instant instant) {
-            return instant.atOffset(ZoneOffset.UTC);
-        }
-        if (value instanceof java.sql.Timestamp ts) {
-            return ts.toInstant().atOffset(ZoneOffset.UTC);
-        }
-        throw new IllegalStateException("unexpected timestamp type " + value.getClass());
     }
 }

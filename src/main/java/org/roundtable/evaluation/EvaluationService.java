@@ -8,6 +8,7 @@ import jakarta.persistence.EntityManager;
 import jakarta.transaction.Transactional;
 import org.eclipse.microprofile.config.inject.ConfigProperty;
 import org.hibernate.Session;
+import org.roundtable.platform.Timestamps;
 import org.roundtable.audit.Actor;
 import org.roundtable.audit.AuditTrail;
 import org.roundtable.platform.DomainException;
@@ -636,19 +637,6 @@ public class EvaluationService {
         return outcomes;
     }
 
-    private static OffsetDateTime toOffset(Object value) {
-        if (value instanceof OffsetDateTime o) {
-            return o;
-        }
-        if (value instanceof java.time.Instant i) {
-            return i.atOffset(ZoneOffset.UTC);
-        }
-        if (value instanceof java.sql.Timestamp t) {
-            return t.toInstant().atOffset(ZoneOffset.UTC);
-        }
-        return value == null ? null : OffsetDateTime.parse(value.toString());
-    }
-
     private static Double dbl(Object value) {
         return value == null ? null : ((Number) value).doubleValue();
     }
@@ -656,6 +644,6 @@ public class EvaluationService {
     private static EvaluationViews.RunSummary summary(Object[] r) {
         return new EvaluationViews.RunSummary(((Number) r[0]).longValue(), ((Number) r[1]).intValue(), (Boolean) r[2],
                 (String) r[3], ((Number) r[4]).intValue(), r[5].toString(), r[6].toString(), r[7].toString(),
-                (String) r[8], (String) r[9], toOffset(r[10]));
+                (String) r[8], (String) r[9], Timestamps.utc(r[10]));
     }
 }

@@ -3,6 +3,7 @@ package org.roundtable.report;
 import jakarta.enterprise.context.ApplicationScoped;
 import jakarta.persistence.EntityManager;
 import jakarta.transaction.Transactional;
+import org.roundtable.platform.Timestamps;
 import org.roundtable.audit.Actor;
 import org.roundtable.audit.AuditTrail;
 import org.roundtable.platform.DomainException;
@@ -169,19 +170,6 @@ public class IssuedDocuments {
         return new IssuedDocument(((Number) row[0]).longValue(), (String) row[1], DocumentKind.valueOf((String) row[2]),
                 ReportStatus.valueOf((String) row[3]), row[4] == null ? null : ((Number) row[4]).longValue(),
                 row[5] == null ? null : ((Number) row[5]).longValue(), (String) row[6], (String) row[7],
-                row[8].toString().strip(), instant(row[9]), (String) row[10]);
-    }
-
-    private static Instant instant(Object value) {
-        if (value instanceof OffsetDateTime odt) {
-            return odt.toInstant();
-        }
-        if (value instanceof Instant i) {
-            return i;
-        }
-        if (value instanceof java.sql.Timestamp ts) {
-            return ts.toInstant();
-        }
-        throw new IllegalStateException("unexpected timestamp type " + value.getClass());
+                row[8].toString().strip(), Timestamps.utc(row[9]).toInstant(), (String) row[10]);
     }
 }

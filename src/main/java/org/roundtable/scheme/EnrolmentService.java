@@ -4,6 +4,7 @@ import jakarta.enterprise.context.ApplicationScoped;
 import jakarta.persistence.EntityManager;
 import jakarta.transaction.Transactional;
 import org.hibernate.Session;
+import org.roundtable.platform.Timestamps;
 import org.roundtable.account.AccountService;
 import org.roundtable.account.CurrentUser;
 import org.roundtable.account.LaboratoryBulkService;
@@ -200,7 +201,7 @@ public class EnrolmentService {
                  ORDER BY p.participant_code
                 """).setParameter("r", roundId).setParameter("l", laboratoryId).getResultList();
         return rows.stream().map(r -> new Participant(((Number) r[0]).longValue(), (String) r[1], (String) r[2],
-                r[3].toString(), (String) r[4], PlanStore.toOffset(r[5]))).toList();
+                r[3].toString(), (String) r[4], Timestamps.utc(r[5]))).toList();
     }
 
     /** Creates one item record per enrolled laboratory and item label; returns how many. Called by DISPATCH_ITEMS. */
@@ -226,7 +227,7 @@ public class EnrolmentService {
                  WHERE d.round_id = :r ORDER BY p.participant_code, d.item_label, d.id
                 """).setParameter("r", roundId).getResultList();
         return rows.stream().map(r -> new ItemView(((Number) r[0]).longValue(), ((Number) r[1]).longValue(),
-                (String) r[2], (String) r[3], (String) r[4], PlanStore.toOffset(r[5]), PlanStore.toOffset(r[6]),
+                (String) r[2], (String) r[3], (String) r[4], Timestamps.utc(r[5]), Timestamps.utc(r[6]),
                 (String) r[7], (String) r[8], r[9] == null ? null : ((Number) r[9]).longValue())).toList();
     }
 
@@ -306,7 +307,7 @@ public class EnrolmentService {
                  WHERE p.laboratory_id = :l ORDER BY r.result_deadline DESC, r.id DESC
                 """).setParameter("l", lab).getResultList();
         return rows.stream().map(r -> new MyRoundSummary(((Number) r[0]).longValue(), (String) r[1], (String) r[2],
-                (String) r[3], (String) r[4], PlanStore.toOffset(r[5]))).toList();
+                (String) r[3], (String) r[4], Timestamps.utc(r[5]))).toList();
     }
 
     @Transactional
@@ -321,8 +322,8 @@ public class EnrolmentService {
                 SELECT item_label, status, dispatched_at, received_at, item_condition, condition_note, replaces_id
                   FROM item_dispatch WHERE round_id = :r AND laboratory_id = :l ORDER BY item_label, id
                 """).setParameter("r", roundId).setParameter("l", lab).getResultList();
-        List<MyItem> items = rows.stream().map(r -> new MyItem((String) r[0], (String) r[1], PlanStore.toOffset(r[2]),
-                PlanStore.toOffset(r[3]), (String) r[4], (String) r[5], r[6] != null)).toList();
+        List<MyItem> items = rows.stream().map(r -> new MyItem((String) r[0], (String) r[1], Timestamps.utc(r[2]),
+                Timestamps.utc(r[3]), (String) r[4], (String) r[5], r[6] != null)).toList();
         return new MyRound(round.id, round.code, schemeName, round.itemDescription, round.state.name(), code,
                 round.dispatchDate, round.resultDeadline,
                 java.time.format.DateTimeFormatter.ofPattern("yyyy-MM-dd HH:mm", Locale.ROOT)
@@ -395,7 +396,7 @@ public class EnrolmentService {
         List<Object[]> rows = entityManager.createNativeQuery(
                 "SELECT body, posted_at FROM round_notice WHERE round_id = :r ORDER BY id DESC")
                 .setParameter("r", roundId).getResultList();
-        return rows.stream().map(r -> new Notice((String) r[0], PlanStore.toOffset(r[1]))).toList();
+        return rows.stream().map(r -> new Notice((String) r[0], Timestamps.utc(r[1]))).toList();
     }
 
     /** Draws codes for the laboratories, reusing scheme-wide codes when the round's scope says so. */

@@ -1,5 +1,6 @@
 package org.roundtable.scheme;
 
+import org.roundtable.platform.Timestamps;
 import com.fasterxml.jackson.databind.ObjectMapper;
 import jakarta.enterprise.context.ApplicationScoped;
 import jakarta.persistence.EntityManager;
@@ -34,7 +35,7 @@ public class PlanStore {
                   FROM evaluation_plan WHERE round_id = :round ORDER BY plan_version
                 """).setParameter("round", roundId).getResultList();
         return rows.stream().map(r -> new PlanVersion(((Number) r[0]).intValue(), r[1].toString(), (String) r[2],
-                (String) r[3], toOffset(r[4]), (String) r[5])).toList();
+                (String) r[3], Timestamps.utc(r[4]), (String) r[5])).toList();
     }
 
     @Transactional(Transactional.TxType.MANDATORY)
@@ -60,18 +61,5 @@ public class PlanStore {
                 .setParameter("sha", canonical.sha256()).setParameter("reason", reason).setParameter("by", actor)
                 .setParameter("at", at).executeUpdate();
         return new PlanVersion(next, canonical.sha256(), reason, actor, at, canonical.json());
-    }
-
-    static OffsetDateTime toOffset(Object value) {
-        if (value instanceof OffsetDateTime o) {
-            return o;
-        }
-        if (value instanceof java.time.Instant i) {
-            return i.atOffset(java.time.ZoneOffset.UTC);
-        }
-        if (value instanceof java.sql.Timestamp t) {
-            return t.toInstant().atOffset(java.time.ZoneOffset.UTC);
-        }
-        return value == null ? null : OffsetDateTime.parse(value.toString());
     }
 }

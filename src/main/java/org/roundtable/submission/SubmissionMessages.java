@@ -3,6 +3,7 @@ package org.roundtable.submission;
 import jakarta.enterprise.context.ApplicationScoped;
 import jakarta.persistence.EntityManager;
 import jakarta.transaction.Transactional;
+import org.roundtable.platform.Timestamps;
 import org.roundtable.account.CurrentUser;
 import org.roundtable.audit.AuditTrail;
 import org.roundtable.platform.DomainException;
@@ -85,6 +86,6 @@ public class SubmissionMessages {
                  WHERE round_id = :r AND (CAST(:l AS bigint) IS NULL OR laboratory_id = :l) ORDER BY id
                 """).setParameter("r", roundId).setParameter("l", laboratoryId).getResultList();
         return rows.stream().map(r -> new SubmissionViews.Message(((Number) r[0]).longValue(), ((Number) r[1]).longValue(),
-                (Boolean) r[2], (String) r[3], (String) r[4], SubmissionQueries.odt(r[5]))).toList();
+                (Boolean) r[2], (String) r[3], (String) r[4], Timestamps.utc(r[5]))).toList();
     }
 }

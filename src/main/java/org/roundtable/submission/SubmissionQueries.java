@@ -3,12 +3,12 @@ package org.roundtable.submission;
 import jakarta.enterprise.context.ApplicationScoped;
 import jakarta.persistence.EntityManager;
 import jakarta.transaction.Transactional;
+import org.roundtable.platform.Timestamps;
 import org.roundtable.account.CurrentUser;
 import org.roundtable.platform.DomainException;
 import org.roundtable.scheme.RoundAccess;
 
 import java.math.BigDecimal;
-import java.time.OffsetDateTime;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
@@ -67,7 +67,7 @@ public class SubmissionQueries {
         codes.forEach((lab, code) -> {
             Object[] row = byLab.get(lab);
             out.add(row == null ? new SubmissionViews.Participation(lab, code, 0, null, false, null)
-                    : new SubmissionViews.Participation(lab, code, ((Number) row[1]).intValue(), odt(row[2]),
+                    : new SubmissionViews.Participation(lab, code, ((Number) row[1]).intValue(), Timestamps.utc(row[2]),
                     (Boolean) row[3], (String) row[4]));
         });
         return out;
@@ -91,7 +91,7 @@ public class SubmissionQueries {
                 """).setParameter("r", roundId).getResultList();
         return rows.stream().map(row -> new SubmissionViews.Flag((String) row[0], ((Number) row[1]).longValue(),
                 codes.get(((Number) row[1]).longValue()), ((Number) row[2]).longValue(),
-                codes.get(((Number) row[2]).longValue()), (String) row[3], odt(row[4]))).toList();
+                codes.get(((Number) row[2]).longValue()), (String) row[3], Timestamps.utc(row[4]))).toList();
     }
 
     private List<SubmissionViews.RevisionSummary> summaries(long roundId, long laboratoryId) {
@@ -102,7 +102,7 @@ public class SubmissionQueries {
                  WHERE s.round_id = :r AND s.laboratory_id = :l ORDER BY v.revision
                 """).setParameter("r", roundId).setParameter("l", laboratoryId).getResultList();
         return rows.stream().map(row -> new SubmissionViews.RevisionSummary(((Number) row[0]).intValue(), (String) row[1],
-                row[2].toString().strip(), (String) row[3], odt(row[4]), (String) row[5], (Boolean) row[6])).toList();
+                row[2].toString().strip(), (String) row[3], Timestamps.utc(row[4]), (String) row[5], (Boolean) row[6])).toList();
     }
 
     private SubmissionViews.Revision revision(long roundId, long laboratoryId, int revision) {
@@ -127,19 +127,6 @@ public class SubmissionQueries {
                 (String) r[2], (String) r[3], (Boolean) r[4], (BigDecimal) r[5], (String) r[6], (BigDecimal) r[7],
                 (BigDecimal) r[8], (String) r[9], r[10] == null ? null : ((Number) r[10]).intValue(), (String) r[11])).toList();
         return new SubmissionViews.Revision(revision, (String) head[1], head[2].toString().strip(), (String) head[3],
-                odt(head[4]), (String) head[5], (Boolean) head[6], (String) head[7], results);
-    }
-
-    static OffsetDateTime odt(Object value) {
-        if (value == null) {
-            return null;
-        }
-        if (value instanceof OffsetDateTime o) {
-            return o;
-        }
-        if (value instanceof java.time.Instant i) {
-            return i.atOffset(java.time.ZoneOffset.UTC);
-        }
-        return ((java.sql.Timestamp) value).toInstant().atOffset(java.time.ZoneOffset.UTC);
+                Timestamps.utc(head[4]), (String) head[5], (Boolean) head[6], (String) head[7], results);
     }
 }

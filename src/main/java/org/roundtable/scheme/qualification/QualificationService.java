@@ -5,6 +5,7 @@ import com.fasterxml.jackson.databind.ObjectMapper;
 import jakarta.enterprise.context.ApplicationScoped;
 import jakarta.persistence.EntityManager;
 import jakarta.transaction.Transactional;
+import org.roundtable.platform.Timestamps;
 import org.roundtable.account.CurrentUser;
 import org.roundtable.audit.AuditTrail;
 import org.roundtable.platform.DomainException;
@@ -416,7 +417,7 @@ public class QualificationService {
                  WHERE round_id = :r AND element = :e ORDER BY id DESC LIMIT 1
                 """).setParameter("r", roundId).setParameter("e", element).getResultList();
         return rows.stream().findFirst().map(r -> new DecisionView((String) r[0], (String) r[1], (String) r[2],
-                toOffset(r[3])));
+                Timestamps.utc(r[3])));
     }
 
     private String json(Object figures) {
@@ -425,19 +426,6 @@ public class QualificationService {
         } catch (JsonProcessingException e) {
             throw new IllegalStateException(e);
         }
-    }
-
-    private static OffsetDateTime toOffset(Object value) {
-        if (value instanceof OffsetDateTime o) {
-            return o;
-        }
-        if (value instanceof java.time.Instant i) {
-            return i.atOffset(ZoneOffset.UTC);
-        }
-        if (value instanceof java.sql.Timestamp t) {
-            return t.toInstant().atOffset(ZoneOffset.UTC);
-        }
-        return value == null ? null : OffsetDateTime.parse(value.toString());
     }
 
     private OffsetDateTime now() {
