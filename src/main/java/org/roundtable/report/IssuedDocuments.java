@@ -59,9 +59,16 @@ public class IssuedDocuments {
      * @param laboratoryId the laboratory, for laboratory reports and history exports
      * @param contentType the media type of {@code bytes}, e.g. {@code application/pdf}
      * @param bytes the exact bytes handed out
+     * @param evaluationRunId the evaluation run (row id) a round or laboratory report was rendered from, if any
      */
     public record Issue(ReportIdentity identity, DocumentKind kind, Long roundId, Long laboratoryId, String contentType,
-                        byte[] bytes) {
+                        byte[] bytes, Long evaluationRunId) {
+
+        /** A document that reports no evaluation run. */
+        public Issue(ReportIdentity identity, DocumentKind kind, Long roundId, Long laboratoryId, String contentType,
+                     byte[] bytes) {
+            this(identity, kind, roundId, laboratoryId, contentType, bytes, null);
+        }
 
         public Issue {
             Objects.requireNonNull(identity, "identity");
@@ -103,8 +110,9 @@ public class IssuedDocuments {
         Instant now = Instant.now(clock).truncatedTo(ChronoUnit.MICROS);
         Number id = (Number) entityManager.createNativeQuery("""
                 INSERT INTO issued_document (report_id, kind, status, round_id, laboratory_id, replaces_document_id,
-                       amendment_reason, content_type, bytes, sha256, issued_at, issued_by)
-                VALUES (:reportId, :kind, :status, :round, :lab, :replaces, :reason, :type, :bytes, :sha, :at, :by)
+                       amendment_reason, content_type, bytes, sha256, issued_at, issued_by, evaluation_run_id)
+                VALUES (:reportId, :kind, :status, :round, :lab, :replaces, :reason, :type, :bytes, :sha, :at, :by,
+                        :run)
                 RETURNING id
                 """)
                 .setParameter("reportId", identity.reportId())
@@ -119,6 +127,7 @@ public class IssuedDocuments {
                 .setParameter("sha", sha256)
                 .setParameter("at", OffsetDateTime.ofInstant(now, ZoneOffset.UTC))
                 .setParameter("by", actor.name())
+                .setParameter("run", issue.evaluationRunId())
                 .getSingleResult();
         audit.record(new AuditTrail.Event(actor, "report.issue", "issued_document", Long.toString(id.longValue()),
                 null, sha256, issue.kind().name() + " " + identity.status().name() + " " + identity.reportId()
