@@ -1,0 +1,164 @@
+package org.roundtable.evaluation;
+
+import io.quarkus.qute.CheckedTemplate;
+import io.quarkus.qute.TemplateInstance;
+import jakarta.annotation.security.RolesAllowed;
+import jakarta.ws.rs.Consumes;
+import jakarta.ws.rs.FormParam;
+import jakarta.ws.rs.GET;
+import jakarta.ws.rs.POST;
+import jakarta.ws.rs.Path;
+import jakarta.ws.rs.PathParam;
+import jakarta.ws.rs.Produces;
+import jakarta.ws.rs.core.MediaType;
+import jakarta.ws.rs.core.Response;
+import org.roundtable.account.CurrentUser;
+import org.roundtable.account.Role;
+import org.roundtable.platform.DomainException;
+import org.roundtable.scheme.RoundAccess;
+import org.roundtable.scheme.RoundState;
+
+import java.math.BigDecimal;
+import java.math.MathContext;
+import java.math.RoundingMode;
+import java.net.URI;
+import java.util.ArrayList;
+import java.util.Collections;
+import java.util.List;
+import java.util.Locale;
+
+/**
+ * Pages for coordinators: the evaluation runs of a round (start a preview or a run, list the versions) and one run
+ * in full — per measurand how x_pt and σpt were set, the robust and method-group statistics, the warnings, and every
+ * participant's scores by participant code. Laboratories never reach these pages.
+ */
+@Path("/")
+@Produces(MediaType.TEXT_HTML)
+@RolesAllowed(Role.COORDINATOR_NAME)
+public class EvaluationPages {
+
+    /** A run view with numbers formatted for reading (the API keeps the exact values). */
+    public record RunPage(EvaluationViews.RunSummary run, List<MeasurandRows> measurands) {
+    }
+
+    /** One measurand of a run, formatted. */
+    public record MeasurandRows(EvaluationViews.MeasurandOutcome outcome, String assignedValue,
+                                String assignedValueUncertainty, String sigmaPt, String median, String madE,
+                                String nIqr, String robustMean, String robustSd, List<GroupRow> groups,
+                                List<ScoreRow> scores) {
+        public String anchor() {
+            return outcome.element() + "-" + outcome.itemLabel();
+        }
+    }
+
+    /** One method group, formatted. */
+    public record GroupRow(String methodGroup, int n, String median, String robustMean, String robustSd) {
+    }
+
+    /** One participant's result and scores, formatted; {@code tone} is a CSS class for the classification. */
+    public record ScoreRow(String participantCode, String reported, String methodGroup, String z, String zPrime,
+                           String zeta, String en, String classification, String tone, String excludedReason) {
+    }
+
+    @CheckedTemplate(basePath = "evaluation")
+    static class Templates {
+        static native TemplateInstance runs(RoundAccess.SubmissionWindow round, List<EvaluationViews.RunSummary> runs,
+                                            boolean previewAllowed, boolean runAllowed, String error);
+
+        static native TemplateInstance run(RoundAccess.SubmissionWindow round, RunPage page);
+    }
+
+    private final EvaluationService evaluations;
+    private final RoundAccess rounds;
+    private final CurrentUser currentUser;
+
+    public EvaluationPages(EvaluationService evaluations, RoundAccess rounds, CurrentUser currentUser) {
+        this.evaluations = evaluations;
+        this.rounds = rounds;
+        this.currentUser = currentUser;
+    }
+
+    @GET
+    @Path("rounds/{roundId}/evaluation")
+    public TemplateInstance runs(@PathParam("roundId") long roundId) {
+        return runsPage(roundId, null);
+    }
+
+    /** Starts a preview ({@code preview=true}) or a run; on success shows the new version. */
+    @POST
+    @Path("rounds/{roundId}/evaluation")
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response start(@PathParam("roundId") long roundId, @FormParam("preview") String preview) {
+        try {
+            EvaluationViews.Run run = evaluations.run(roundId, "true".equals(preview), currentUser.actor());
+            return Response.seeOther(URI.create("/rounds/" + roundId + "/evaluation/" + run.run().version())).build();
+        } catch (DomainException.NotFound | DomainException.Forbidden e) {
+            throw e;
+        } catch (DomainException e) {
+            return Response.status(e.status()).entity(runsPage(roundId, e.detail())).build();
+        }
+    }
+
+    @GET
+    @Path("rounds/{roundId}/evaluation/{version}")
+    public TemplateInstance run(@PathParam("roundId") long roundId, @PathParam("version") int version) {
+        RoundAccess.SubmissionWindow round = rounds.window(roundId);
+        EvaluationViews.Run run = evaluations.run(roundId, version);
+        return Templates.run(round, new RunPage(run.run(), run.measurands().stream().map(EvaluationPages::rows).toList()));
+    }
+
+    private TemplateInstance runsPage(long roundId, String error) {
+        RoundAccess.SubmissionWindow round = rounds.window(roundId);
+        RoundState state = RoundState.valueOf(round.state());
+        boolean closed = state == RoundState.CLOSED || state == RoundState.EVALUATING;
+        List<EvaluationViews.RunSummary> newestFirst = new ArrayList<>(evaluations.runs(roundId));
+        Collections.reverse(newestFirst);
+        return Templates.runs(round, newestFirst, closed || state == RoundState.OPEN_FOR_RESULTS, closed, error);
+    }
+
+    static MeasurandRows rows(EvaluationViews.MeasurandOutcome o) {
+        List<GroupRow> groups = o.methodGroups().stream().map(g -> new GroupRow(g.methodGroup(), g.n(),
+                figure(g.median()), figure(g.robustMean()), figure(g.robustSd()))).toList();
+        List<ScoreRow> scores = o.scores().stream().map(s -> new ScoreRow(s.participantCode(), s.reported(),
+                s.methodGroup(), score(s.z()), score(s.zPrime()), score(s.zeta()), score(s.en()),
+                s.classification() == null ? "" : s.classification().toLowerCase(Locale.ROOT).replace('_', ' '),
+                tone(s.classification()), s.excludedReason())).toList();
+        return new MeasurandRows(o, figure(o.assignedValue()), figure(o.assignedValueUncertainty()),
+                figure(o.sigmaPt()), figure(o.median()), figure(o.madE()), figure(o.nIqr()), figure(o.robustMean()),
+                figure(o.robustSd()), groups, scores);
+    }
+
+    /** Six significant digits for reading; the API and the exports carry the exact values. */
+    static String figure(Double value) {
+        if (value == null) {
+            return "—";
+        }
+        if (value.isNaN() || value.isInfinite()) {
+            return value.toString();
+        }
+        return new BigDecimal(value).round(new MathContext(6, RoundingMode.HALF_UP)).stripTrailingZeros()
+                .toPlainString().replace('-', '−');
+    }
+
+    /** Scores to two decimals, rounded half up, with the minus sign. */
+    static String score(Double value) {
+        if (value == null) {
+            return "";
+        }
+        return new BigDecimal(value).setScale(2, RoundingMode.HALF_UP).toPlainString().replace('-', '−');
+    }
+
+    private static String tone(String classification) {
+        if (classification == null) {
+            return "";
+        }
+        String c = classification.toUpperCase(Locale.ROOT);
+        if (c.startsWith("UNSATISFACTORY") || c.startsWith("INCONSISTENT")) {
+            return "status-bad";
+        }
+        if (c.startsWith("QUESTIONABLE")) {
+            return "status-warn";
+        }
+        return c.startsWith("SATISFACTORY") || c.startsWith("CONSISTENT") ? "status-ok" : "";
+    }
+}
