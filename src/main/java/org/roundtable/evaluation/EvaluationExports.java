@@ -356,7 +356,7 @@ public class EvaluationExports {
      * Arguments of the {@code evaluate} command that reproduce the run: {@code --sigma-pt=M=σpt} where σpt was
      * given by the plan (not the data's robust SD), {@code --assigned=M=x_pt:U} with U = 2·u(x_pt) where x_pt did
      * not come from Algorithm A over all results (a reference value, or a method group's or experts' consensus).
-     * Numbers in Java's shortest round-trip form, so the command reads back the identical doubles.
+     * Numbers in {@link Double#toString} form, which reads back to the identical double.
      */
     private static List<String> arguments(List<EvaluationViews.MeasurandOutcome> measurands,
                                           Function<String[], String> name) {

@@ -225,7 +225,7 @@ class EvaluationExportsTest {
                 "warnings", "methodGroups", "scores")) {
             assertThat(mn.has(field)).as(field).isTrue();
         }
-        // doubles exactly as stored (shortest round-trip form)
+        // doubles exactly as stored (Double.toString reads back to the identical double)
         assertThat(mn.path("assignedValue").asDouble()).isEqualTo(stored.assignedValue());
         assertThat(mn.path("robustSd").asDouble()).isEqualTo(stored.robustSd());
         assertThat(mn.path("scores")).hasSize(MN.length);
