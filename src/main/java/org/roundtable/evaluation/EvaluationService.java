@@ -131,16 +131,8 @@ public class EvaluationService {
         boolean lateUnscored = Round.LatePolicy.ACCEPT_FLAGGED_UNSCORED.name().equals(window.latePolicy());
         List<Row> rows = currentResults(roundId);
 
-        StringBuilder inputs = new StringBuilder();
-        inputs.append("round ").append(roundId).append('\n').append("plan ").append(planVersion.version()).append(' ')
-                .append(planVersion.sha256()).append('\n').append("late-policy ").append(window.latePolicy()).append('\n');
-        for (Row r : rows) {
-            inputs.append(String.join("\t", Long.toString(r.laboratoryId()), r.participantCode(), r.element(),
-                    r.itemLabel(), r.reported(), r.value().toPlainString(), Boolean.toString(r.lessThan()),
-                    r.expandedUncertainty() == null ? "" : r.expandedUncertainty().toPlainString(),
-                    r.coverageFactor() == null ? "" : r.coverageFactor().toPlainString(), r.methodGroup(),
-                    Boolean.toString(r.late()))).append('\n');
-        }
+        StringBuilder inputs = new StringBuilder(inputsText(roundId, planVersion.version(), planVersion.sha256(),
+                window.latePolicy(), rows));
 
         Map<String, List<Row>> byMeasurand = new TreeMap<>();
         for (Row r : rows) {
@@ -189,6 +181,25 @@ public class EvaluationService {
         EvaluationViews.RunSummary summary = new EvaluationViews.RunSummary(roundId, version, preview, state.name(),
                 planVersion.version(), planVersion.sha256(), inputsSha, outputsSha, codeVersion, actor.name(), now);
         return new EvaluationViews.Run(summary, outcomes);
+    }
+
+    /**
+     * The text whose SHA-256 is a run's inputs hash: round, plan version and hash, late-result policy, then one
+     * tab-separated line per result read, in the order read. {@link EvaluationExports} rebuilds it to prove that
+     * the results it reconstructs for a past run are exactly the ones that run read.
+     */
+    static String inputsText(long roundId, int planVersion, String planSha256, String latePolicy, List<Row> rows) {
+        StringBuilder inputs = new StringBuilder();
+        inputs.append("round ").append(roundId).append('\n').append("plan ").append(planVersion).append(' ')
+                .append(planSha256).append('\n').append("late-policy ").append(latePolicy).append('\n');
+        for (Row r : rows) {
+            inputs.append(String.join("\t", Long.toString(r.laboratoryId()), r.participantCode(), r.element(),
+                    r.itemLabel(), r.reported(), r.value().toPlainString(), Boolean.toString(r.lessThan()),
+                    r.expandedUncertainty() == null ? "" : r.expandedUncertainty().toPlainString(),
+                    r.coverageFactor() == null ? "" : r.coverageFactor().toPlainString(), r.methodGroup(),
+                    Boolean.toString(r.late()))).append('\n');
+        }
+        return inputs.toString();
     }
 
     /** The round's runs, oldest first. */

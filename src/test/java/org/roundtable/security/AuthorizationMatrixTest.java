@@ -67,6 +67,9 @@ class AuthorizationMatrixTest {
     @Inject
     org.roundtable.evaluation.EvaluationService evaluations;
 
+    @Inject
+    org.roundtable.testing.Publications publications;
+
     private long labA;
     private long labB;
 
@@ -262,7 +265,10 @@ class AuthorizationMatrixTest {
             boolean results = resolved.contains("submission") || resolved.contains("results")
                     || resolved.contains("messages") || resolved.contains("review-flags")
                     || resolved.contains("evaluation");
-            long round = world.round(results ? org.roundtable.scheme.RoundState.OPEN_FOR_RESULTS
+            // exports of the published evaluation need one: a closed round evaluated and issued as FINAL
+            boolean published = resolved.contains("/published/") || resolved.contains("/scores");
+            long round = published ? publications.publishedRound(labA, org.roundtable.report.model.ReportStatus.FINAL)
+                    : world.round(results ? org.roundtable.scheme.RoundState.OPEN_FOR_RESULTS
                     : org.roundtable.scheme.RoundState.DISPATCHED, labA);
             resolved = resolved.replace("{roundId}", Long.toString(round));
             if (resolved.contains("{revision}")) {
