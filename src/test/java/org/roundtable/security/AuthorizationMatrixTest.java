@@ -67,6 +67,9 @@ class AuthorizationMatrixTest {
     @Inject
     org.roundtable.evaluation.EvaluationService evaluations;
 
+    @Inject
+    org.roundtable.evaluation.ExclusionService exclusions;
+
     private long labA;
     private long labB;
 
@@ -261,7 +264,7 @@ class AuthorizationMatrixTest {
             // results need a round open for results; other round endpoints a dispatched one
             boolean results = resolved.contains("submission") || resolved.contains("results")
                     || resolved.contains("messages") || resolved.contains("review-flags")
-                    || resolved.contains("evaluation");
+                    || resolved.contains("evaluation") || resolved.contains("exclusion");
             long round = world.round(results ? org.roundtable.scheme.RoundState.OPEN_FOR_RESULTS
                     : org.roundtable.scheme.RoundState.DISPATCHED, labA);
             resolved = resolved.replace("{roundId}", Long.toString(round));
@@ -273,6 +276,15 @@ class AuthorizationMatrixTest {
                 int version = evaluations.run(round, true, new org.roundtable.audit.Actor("matrix", "coordinator", null))
                         .run().version();
                 resolved = resolved.replace("{version}", Integer.toString(version));
+            }
+            if (resolved.contains("{exclusionId}")) {
+                // a current blunder mark on laboratory A's Cr result
+                world.submitCr(round, labA, "18.12");
+                String code = world.text("SELECT participant_code FROM round_participant WHERE round_id = ? AND laboratory_id = ?",
+                        round, labA);
+                long exclusion = exclusions.mark(round, new org.roundtable.evaluation.ExclusionService.MarkRequest(code, "Cr",
+                        "A", "matrix"), new org.roundtable.audit.Actor("matrix", "coordinator", null)).id();
+                resolved = resolved.replace("{exclusionId}", Long.toString(exclusion));
             }
             if (resolved.contains("{itemId}")) {
                 resolved = resolved.replace("{itemId}", Long.toString(world.itemOf(round, labA)));
