@@ -405,8 +405,9 @@ public class EvaluationService {
                 widened = true;
             } else {
                 extra.add(new EvaluationViews.Warning("sigma-pt-not-widened", "The qualification decision widens"
-                        + " sigma_pt, but sigma_pt is the round's robust SD, which already contains the items'"
-                        + " inhomogeneity: not widened"));
+                        + " sigma_pt, but sigma_pt is not known before the round's data (the round's robust SD, which"
+                        + " already contains the items' inhomogeneity, or no assigned value to take it from): not"
+                        + " widened"));
             }
         }
         if (subsetFailed) {
@@ -519,8 +520,7 @@ public class EvaluationService {
             Double mean = null;
             Double sd = null;
             if (sorted.length >= 2) {
-                AlgorithmA.Result a = (rules.stoppingRule() == AlgorithmA.StoppingRule.FULL_CONVERGENCE
-                        ? AlgorithmA.fullConvergence() : AlgorithmA.thirdSignificantFigure()).evaluateSorted(sorted);
+                AlgorithmA.Result a = rules.algorithmA().evaluateSorted(sorted);
                 if (a.scaleEstimable()) {
                     mean = a.robustMean();
                     sd = a.robustSd();

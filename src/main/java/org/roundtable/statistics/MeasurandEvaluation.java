@@ -117,7 +117,8 @@ public final class MeasurandEvaluation {
             Objects.requireNonNull(boundaryRule, "boundaryRule");
         }
 
-        AlgorithmA algorithmA() {
+        /** Algorithm A configured with this stopping rule. */
+        public AlgorithmA algorithmA() {
             return stoppingRule == AlgorithmA.StoppingRule.FULL_CONVERGENCE
                     ? AlgorithmA.fullConvergence() : AlgorithmA.thirdSignificantFigure();
         }

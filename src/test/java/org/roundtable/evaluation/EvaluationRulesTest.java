@@ -342,6 +342,29 @@ class EvaluationRulesTest {
         assertThat(cr.rules().assignedValueUncertaintyComponents()).containsExactly("u_char", "u_hom");
     }
 
+    @Test
+    void aDecisionToWidenSigmaPtAddsTheBetweenItemSdToIt() {
+        long[] labs = labs(2);
+        long round = world.round(RoundState.ENROLLING, World.simplePlan("0.10"), Round.LatePolicy.REFUSE, labs);
+        World.Browser coordinator = world.signIn(world.user("coordinator", null));
+        coordinator.json().body(Map.of("csv", resource("/scheme/homogeneity-cr-stainless.csv")))
+                .post("/api/v1/rounds/" + round + "/qualification/homogeneity").then().statusCode(200);
+        coordinator.json().body(Map.of("element", "Cr", "decision", "WIDEN_SIGMA_PT", "reason", "discs differ a little"))
+                .post("/api/v1/rounds/" + round + "/qualification/decisions").then().statusCode(200);
+        world.sql("UPDATE round SET state = 'CLOSED' WHERE id = ?", round);
+        world.reportResult(round, labs[0], "Cr", "18.20", null, "spark-oes", false);
+        world.reportResult(round, labs[1], "Cr", "18.10", null, "spark-oes", false);
+
+        EvaluationViews.MeasurandOutcome cr = evaluations.run(round, false, COORDINATOR).measurands().get(0);
+
+        // σpt' = sqrt(0.10² + s_s²), s_s² = 0.000136666667 (statistics reference §14.8, CALC): 0.1006810144
+        // (CALC: python3 -c 'import math; print(math.sqrt(0.01 + (0.000553333333333333 - 0.00028)/2))'), rel 1e-6
+        assertThat(cr.sigmaPt()).isCloseTo(0.1006810144, within(0.1006810144 * 1e-6));
+        assertThat(cr.warnings()).extracting(EvaluationViews.Warning::code).contains("sigma-pt-widened");
+        assertThat(cr.rules().sigmaPtWidened()).isTrue();
+        assertThat(cr.rules().qualificationDecision()).isEqualTo("WIDEN_SIGMA_PT");
+    }
+
     private static String resource(String name) {
         try (InputStream in = EvaluationRulesTest.class.getResourceAsStream(name)) {
             return new String(java.util.Objects.requireNonNull(in, name).readAllBytes(), StandardCharsets.UTF_8);
