@@ -18,11 +18,15 @@ import org.roundtable.scheme.PlanStore;
 import org.roundtable.scheme.Round;
 import org.roundtable.scheme.RoundAccess;
 import org.roundtable.scheme.RoundState;
+import org.roundtable.scheme.qualification.QualificationService;
+import org.roundtable.statistics.AssignedValueUncertainty;
 import org.roundtable.statistics.MeasurandEvaluation;
 import org.roundtable.statistics.StatisticsWarning;
 import org.roundtable.statistics.robust.AlgorithmA;
 import org.roundtable.statistics.robust.Median;
+import org.roundtable.statistics.robust.QuartileRule;
 import org.roundtable.statistics.robust.SortedCopy;
+import org.roundtable.statistics.score.BoundaryRule;
 import org.roundtable.statistics.score.ScoreKind;
 import org.roundtable.statistics.sigma.MassFractionUnit;
 import org.roundtable.statistics.sigma.SigmaPt;
@@ -51,7 +55,10 @@ import java.util.TreeMap;
  * <ol>
  *   <li>reads every laboratory's current revision set-based (one query);</li>
  *   <li>excludes late results when the round's late-result policy does not score them (recorded reason);
- *       censored ("less than") results are set aside and classified by {@link MeasurandEvaluation};</li>
+ *       censored ("less than") results are set aside and classified by {@link MeasurandEvaluation}; results the
+ *       coordinator marked as blunders ({@link ExclusionService}, the marks current at run time) are left out of
+ *       every statistic (consensus, robust statistics, method groups, n) and still scored against the assigned
+ *       value, their score carrying {@code "blunder: <reason>"};</li>
  *   <li>obtains the assigned value as the plan says: {@code CONSENSUS_ALL} — Algorithm A over all results;
  *       {@code CONSENSUS_METHOD_GROUP} / {@code EXPERT_CONSENSUS} — Algorithm A over that subset, whose x* and
  *       u(x_pt) = 1.25·s*&#47;√p are then given to the evaluation of everyone; {@code CERTIFIED_REFERENCE} /
@@ -62,6 +69,13 @@ import java.util.TreeMap;
  *   <li>adds per-method-group statistics and the plan's warnings (below the plan's minimum participants,
  *       method groups further apart than allowed, u(x_pt) too large for z).</li>
  * </ol>
+ * The plan's quartile rule (nIQR), Algorithm A stopping rule and boundary rule (classification) are applied and
+ * recorded with its exclusion rules in each outcome's {@link EvaluationViews.Rules}. The measurand's latest
+ * qualification decision is applied: {@code ADD_HOMOGENEITY_UNCERTAINTY} gives
+ * u(x_pt) = sqrt(u_char² + u_hom²) with u_hom = s_s of the latest homogeneity check (a reference value only; the
+ * z/z′ choice then uses it), {@code WIDEN_SIGMA_PT} gives σpt' = sqrt(σpt² + s_s²) for a σpt known before the
+ * round's data (ISO 13528:2015, clause 7 and Annex B; sub-clauses from memory). No decision records a stability
+ * uncertainty, so u_stab is never added.
  * The run stores the SHA-256 of its inputs (plan version and hash, and every result read) and of its outputs,
  * and is audited as one event carrying the outputs hash. A preview (round still open for results) is a run like
  * any other, marked {@code preview}; all of it is for coordinators only.
@@ -79,17 +93,19 @@ public class EvaluationService {
     private final AuditTrail audit;
     private final Clock clock;
     private final String codeVersion;
+    private final EvaluationAdjustments adjustments;
 
     public EvaluationService(EntityManager entityManager, RoundAccess rounds, PlanStore plans, AuditTrail audit,
                              Clock clock,
                              @ConfigProperty(name = "quarkus.application.version", defaultValue = "unknown")
-                             String codeVersion) {
+                             String codeVersion, EvaluationAdjustments adjustments) {
         this.entityManager = entityManager;
         this.rounds = rounds;
         this.plans = plans;
         this.audit = audit;
         this.clock = clock;
         this.codeVersion = codeVersion;
+        this.adjustments = adjustments;
     }
 
     /** One result as read from a laboratory's current revision. */
@@ -133,6 +149,10 @@ public class EvaluationService {
 
         StringBuilder inputs = new StringBuilder(inputsText(roundId, planVersion.version(), planVersion.sha256(),
                 window.latePolicy(), rows));
+        // blunders marked now and qualification decisions: appended after the result lines (see appendTo), so
+        // a run without them hashes exactly the inputs text it hashed before they existed
+        EvaluationAdjustments.Loaded adjusted = adjustments.load(roundId);
+        adjusted.appendTo(inputs);
 
         Map<String, List<Row>> byMeasurand = new TreeMap<>();
         for (Row r : rows) {
@@ -152,7 +172,7 @@ public class EvaluationService {
             }
             for (String item : items) {
                 List<Row> results = byMeasurand.getOrDefault(mp.element() + "\u0000" + item, List.of());
-                outcomes.add(evaluate(mp, units.getOrDefault(mp.element(), ""), item, results, lateUnscored));
+                outcomes.add(evaluate(mp, units.getOrDefault(mp.element(), ""), item, results, lateUnscored, adjusted));
             }
         }
         String outputsSha = outputsSha256(outcomes);
@@ -268,17 +288,27 @@ public class EvaluationService {
     // ---- evaluation of one measurand --------------------------------------------------------------------------
 
     private EvaluationViews.MeasurandOutcome evaluate(EvaluationPlan.MeasurandPlan mp, String unit, String item,
-                                                      List<Row> rows, boolean lateUnscored) {
+                                                      List<Row> rows, boolean lateUnscored,
+                                                      EvaluationAdjustments.Loaded adjusted) {
         List<Row> used = new ArrayList<>();
         Map<Long, String> excluded = new LinkedHashMap<>();
+        // blunders: in `used` (they are scored) but flagged out of every statistic; reason per laboratory
+        Map<Long, String> blunders = new LinkedHashMap<>();
         for (Row r : rows) {
             if (r.late() && lateUnscored) {
                 excluded.put(r.laboratoryId(), EXCLUDED_LATE);
             } else {
                 used.add(r);
+                ExclusionService.Current mark = adjusted.exclusionOf(r.laboratoryId(), r.element(), r.itemLabel());
+                if (mark != null) {
+                    blunders.put(r.laboratoryId(), ExclusionService.BLUNDER + mark.reason());
+                }
             }
         }
-        List<MeasurandEvaluation.ParticipantResult> inputs = used.stream().map(EvaluationService::participant).toList();
+        List<Row> retained = used.stream().filter(r -> !blunders.containsKey(r.laboratoryId())).toList();
+        List<MeasurandEvaluation.ParticipantResult> inputs = used.stream().map(r -> blunders.containsKey(r.laboratoryId())
+                ? participant(r).excluded() : participant(r)).toList();
+        MeasurandEvaluation.Rules rules = rules(mp);
         String method = mp.assignedValueMethod() == null ? EvaluationPlan.AssignedValueMethod.CONSENSUS_ALL.name()
                 : mp.assignedValueMethod();
         String sigmaMethod = mp.sigmaPtMethod() == null ? EvaluationPlan.SigmaPtMethod.FIXED.name() : mp.sigmaPtMethod();
@@ -308,7 +338,7 @@ public class EvaluationService {
                     }
                 }
                 MeasurandEvaluation.Result consensus = MeasurandEvaluation.evaluate(new MeasurandEvaluation.Input(
-                        mp.element(), unit, subset, null, null, null));
+                        mp.element(), unit, subset, null, null, null, rules));
                 if (consensus.assignedValueSource() == MeasurandEvaluation.AssignedValueSource.ALGORITHM_A) {
                     assigned = consensus.assignedValue();
                     assignedU = MeasurandEvaluation.DEFAULT_COVERAGE_FACTOR * consensus.assignedValueUncertainty();
@@ -339,7 +369,7 @@ public class EvaluationService {
             Double x = assigned;
             if (x == null && !subsetFailed) {
                 x = MeasurandEvaluation.evaluate(new MeasurandEvaluation.Input(mp.element(), unit, inputs, null, null,
-                        null)).assignedValue();
+                        null, rules)).assignedValue();
             }
             sigma = x == null || !(x > 0) ? null : sm == EvaluationPlan.SigmaPtMethod.PERCENT_OF_ASSIGNED
                     ? SigmaPt.percentOfAssigned(number(mp.sigmaPtPercent()), x)
@@ -352,13 +382,52 @@ public class EvaluationService {
                 default -> null;
             };
         }
+        // the qualification decision: u_hom into u(x_pt) of a reference value, or σpt widened by s_s
+        List<String> components = new ArrayList<>(List.of("u_char"));
+        boolean widened = false;
+        EvaluationAdjustments.Decision decision = adjusted.decisionOf(mp.element());
+        if (decision != null && decision.changesNumbers()) {
+            double ss = decision.betweenItemSd();
+            boolean reference = method.equals(EvaluationPlan.AssignedValueMethod.CERTIFIED_REFERENCE.name())
+                    || method.equals(EvaluationPlan.AssignedValueMethod.REFERENCE_LABORATORY.name());
+            if (decision.decision().equals(QualificationService.Decision.ADD_HOMOGENEITY_UNCERTAINTY.name())) {
+                if (reference && assigned != null) {
+                    double uChar = assignedU == null ? 0 : assignedU / MeasurandEvaluation.DEFAULT_COVERAGE_FACTOR;
+                    double combined = AssignedValueUncertainty.combined(uChar, ss, 0);
+                    assignedU = MeasurandEvaluation.DEFAULT_COVERAGE_FACTOR * combined;
+                    components.add("u_hom");
+                    extra.add(new EvaluationViews.Warning("u-hom-added", String.format(Locale.ROOT,
+                            "u(x_pt) includes u_hom = s_s = %s %s (qualification decision ADD_HOMOGENEITY_UNCERTAINTY):"
+                            + " u(x_pt) = sqrt(u_char² + u_hom²) = sqrt(%s² + %s²) = %s (ISO 13528:2015, clause 7)",
+                            Double.toString(ss), unit, Double.toString(uChar), Double.toString(ss),
+                            Double.toString(combined))));
+                } else {
+                    extra.add(new EvaluationViews.Warning("u-hom-not-added", "The qualification decision adds u_hom"
+                            + " to u(x_pt), but the plan's assigned value is a consensus of the round (its spread"
+                            + " already contains the items' inhomogeneity) or missing: u_hom is not added"));
+                }
+            } else if (sigma != null) {
+                double wide = Math.sqrt(sigma * sigma + ss * ss);
+                extra.add(new EvaluationViews.Warning("sigma-pt-widened", String.format(Locale.ROOT,
+                        "sigma_pt widened by the between-item SD (qualification decision WIDEN_SIGMA_PT):"
+                        + " sqrt(%s² + s_s²) with s_s = %s gives %s %s (ISO 13528:2015, Annex B)",
+                        Double.toString(sigma), Double.toString(ss), Double.toString(wide), unit)));
+                sigma = wide;
+                widened = true;
+            } else {
+                extra.add(new EvaluationViews.Warning("sigma-pt-not-widened", "The qualification decision widens"
+                        + " sigma_pt, but sigma_pt is not known before the round's data (the round's robust SD, which"
+                        + " already contains the items' inhomogeneity, or no assigned value to take it from): not"
+                        + " widened"));
+            }
+        }
         if (subsetFailed) {
             // no assigned value from the subset: statistics of all results, but nobody is scored
             result = MeasurandEvaluation.evaluate(new MeasurandEvaluation.Input(mp.element(), unit, inputs, null, null,
-                    sigma));
+                    sigma, rules));
         } else {
             result = MeasurandEvaluation.evaluate(new MeasurandEvaluation.Input(mp.element(), unit, inputs, assigned,
-                    assignedU, sigma));
+                    assignedU, sigma, rules));
         }
 
         int minimum = mp.minimumParticipants() == null ? MeasurandEvaluation.MINIMUM_PARTICIPANTS
@@ -371,7 +440,7 @@ public class EvaluationService {
             extra.add(new EvaluationViews.Warning("uncertainty-of-assigned-value-large",
                     "u(x_pt) > 0.3·sigma_pt: z' is used instead of z (ISO 13528:2015, 9.2.1); " + result.scoreUsedReason()));
         }
-        List<EvaluationViews.MethodGroupStatistics> groups = methodGroups(used);
+        List<EvaluationViews.MethodGroupStatistics> groups = methodGroups(retained, rules);
         Double allowed = number(mp.allowedMethodGroupDifference());
         if (allowed != null) {
             List<Double> centres = groups.stream().map(g -> g.robustMean() != null ? g.robustMean() : g.median())
@@ -405,7 +474,7 @@ public class EvaluationService {
                         null, null);
             }
             scores.add(new EvaluationViews.Score(r.laboratoryId(), r.participantCode(), r.reported(), r.methodGroup(),
-                    s.value(), s.z(), s.zPrime(), s.zeta(), s.en(), s.classification(), null));
+                    s.value(), s.z(), s.zPrime(), s.zeta(), s.en(), s.classification(), blunders.get(r.laboratoryId())));
         }
         for (Row r : rows) {
             if (excluded.containsKey(r.laboratoryId())) {
@@ -414,14 +483,26 @@ public class EvaluationService {
                         excluded.get(r.laboratoryId())));
             }
         }
+        EvaluationViews.Rules applied = new EvaluationViews.Rules(result.quartileRule().name(),
+                result.stoppingRule().name(), result.boundaryRule().name(), mp.exclusionRules(),
+                decision == null ? null : decision.decision(), List.copyOf(components), widened);
         return new EvaluationViews.MeasurandOutcome(mp.element(), item, unit, result.n(), result.censored(),
-                excluded.size(), method, subsetFailed ? null : result.assignedValue(),
+                excluded.size() + blunders.size(), method, subsetFailed ? null : result.assignedValue(),
                 subsetFailed ? null : result.assignedValueUncertainty(), result.sigmaPt(), sigmaMethod,
                 result.sigmaPtSource() == null ? null : result.sigmaPtSource().name(),
                 subsetFailed || result.scoreUsed() == null ? null : result.scoreUsed().jsonName(),
                 subsetFailed ? null : result.scoreUsedReason(), result.median(), result.madE(), result.nIqr(),
                 result.robustMean(), result.robustSd(), result.iterations(), result.converged(), warnings, groups,
-                scores);
+                scores, applied);
+    }
+
+    /** The plan's quartile, stopping and boundary rules (defaults where the plan has none). */
+    static MeasurandEvaluation.Rules rules(EvaluationPlan.MeasurandPlan mp) {
+        return new MeasurandEvaluation.Rules(
+                mp.quartileRule() == null ? QuartileRule.DEFAULT : QuartileRule.valueOf(mp.quartileRule()),
+                mp.stoppingRule() == null ? AlgorithmA.StoppingRule.FULL_CONVERGENCE
+                        : AlgorithmA.StoppingRule.valueOf(mp.stoppingRule()),
+                mp.boundaryRule() == null ? BoundaryRule.DEFAULT : BoundaryRule.valueOf(mp.boundaryRule()));
     }
 
     private static MeasurandEvaluation.ParticipantResult participant(Row r) {
@@ -433,8 +514,11 @@ public class EvaluationService {
                 u, k, r.methodGroup());
     }
 
-    /** n, median and Algorithm A per method group (censored results left out), groups in name order. */
-    static List<EvaluationViews.MethodGroupStatistics> methodGroups(List<Row> rows) {
+    /**
+     * n, median and Algorithm A (by the plan's stopping rule) per method group (censored results left out; the
+     * caller leaves out blunders), groups in name order.
+     */
+    static List<EvaluationViews.MethodGroupStatistics> methodGroups(List<Row> rows, MeasurandEvaluation.Rules rules) {
         Map<String, List<Double>> byGroup = new TreeMap<>();
         for (Row r : rows) {
             if (!r.lessThan()) {
@@ -447,7 +531,7 @@ public class EvaluationService {
             Double mean = null;
             Double sd = null;
             if (sorted.length >= 2) {
-                AlgorithmA.Result a = AlgorithmA.fullConvergence().evaluateSorted(sorted);
+                AlgorithmA.Result a = rules.algorithmA().evaluateSorted(sorted);
                 if (a.scaleEstimable()) {
                     mean = a.robustMean();
                     sd = a.robustSd();
@@ -517,8 +601,8 @@ public class EvaluationService {
                     INSERT INTO measurand_evaluation (run_id, element, item_label, position, unit, n, censored, excluded,
                         assigned_value_method, assigned_value, assigned_value_uncertainty, sigma_pt, sigma_pt_method,
                         sigma_pt_source, score_used, score_used_reason, median, made, niqr, robust_mean, robust_sd,
-                        iterations, converged, warnings_json, method_groups_json)
-                    VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)
+                        iterations, converged, warnings_json, method_groups_json, rules_json)
+                    VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)
                     """);
                  PreparedStatement p = connection.prepareStatement("""
                     INSERT INTO participant_score (run_id, element, item_label, laboratory_id, position, participant_code,
@@ -560,7 +644,8 @@ public class EvaluationService {
                         m.setBoolean(i++, o.converged());
                     }
                     m.setString(i++, json(o.warnings()));
-                    m.setString(i, json(o.methodGroups()));
+                    m.setString(i++, json(o.methodGroups()));
+                    m.setString(i, o.rules() == null ? null : json(o.rules()));
                     m.addBatch();
                     int scorePosition = 0;
                     for (EvaluationViews.Score s : o.scores()) {
@@ -619,7 +704,7 @@ public class EvaluationService {
                 SELECT element, item_label, unit, n, censored, excluded, assigned_value_method, assigned_value,
                        assigned_value_uncertainty, sigma_pt, sigma_pt_method, sigma_pt_source, score_used,
                        score_used_reason, median, made, niqr, robust_mean, robust_sd, iterations, converged,
-                       warnings_json, method_groups_json
+                       warnings_json, method_groups_json, rules_json
                   FROM measurand_evaluation WHERE run_id = :run ORDER BY position
                 """).setParameter("run", runId).getResultList();
         // the order as computed: measurands in plan order then item, participants as scored
@@ -640,7 +725,7 @@ public class EvaluationService {
                         CANONICAL.readValue((String) f[21], new TypeReference<List<EvaluationViews.Warning>>() { }),
                         CANONICAL.readValue((String) f[22],
                                 new TypeReference<List<EvaluationViews.MethodGroupStatistics>>() { }),
-                        scores));
+                        scores, f[23] == null ? null : CANONICAL.readValue((String) f[23], EvaluationViews.Rules.class)));
             } catch (JsonProcessingException e) {
                 throw new IllegalStateException(e);
             }

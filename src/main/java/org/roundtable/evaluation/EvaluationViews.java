@@ -27,13 +27,28 @@ public final class EvaluationViews {
     public record Warning(String code, String message) {
     }
 
-    /** The evaluation of one measurand of one item. */
+    /**
+     * The evaluation of one measurand of one item. {@code n} counts the results in the statistics; {@code excluded}
+     * the results left out of them (late results not scored, blunders marked by the coordinator — these are scored).
+     */
     public record MeasurandOutcome(String element, String itemLabel, String unit, int n, int censored, int excluded,
                                    String assignedValueMethod, Double assignedValue, Double assignedValueUncertainty,
                                    Double sigmaPt, String sigmaPtMethod, String sigmaPtSource, String scoreUsed,
                                    String scoreUsedReason, Double median, Double madE, Double nIqr, Double robustMean,
                                    Double robustSd, Integer iterations, Boolean converged, List<Warning> warnings,
-                                   List<MethodGroupStatistics> methodGroups, List<Score> scores) {
+                                   List<MethodGroupStatistics> methodGroups, List<Score> scores, Rules rules) {
+    }
+
+    /**
+     * How a measurand was evaluated, for a report's "how the evaluation was done": the plan's quartile rule (nIQR),
+     * Algorithm A stopping rule and classification boundary rule, the plan's exclusion rules in words (null if it
+     * states none), the measurand's qualification decision in force (null if none), the components of u(x_pt)
+     * ({@code u_char}, and {@code u_hom} when the decision adds it) and whether σpt was widened by s_s. Null for
+     * runs stored before it was recorded.
+     */
+    public record Rules(String quartileRule, String stoppingRule, String boundaryRule, String exclusionRules,
+                        String qualificationDecision, List<String> assignedValueUncertaintyComponents,
+                        boolean sigmaPtWidened) {
     }
 
     /** One participant's result and scores; {@code excludedReason} set when the result was left out. */

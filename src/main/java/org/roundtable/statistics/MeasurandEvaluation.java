@@ -11,6 +11,7 @@ import org.roundtable.statistics.robust.NormalizedIqr;
 import org.roundtable.statistics.robust.QuartileRule;
 import org.roundtable.statistics.robust.ScaledMad;
 import org.roundtable.statistics.robust.SortedCopy;
+import org.roundtable.statistics.score.BoundaryRule;
 import org.roundtable.statistics.score.CensoredResult;
 import org.roundtable.statistics.score.ScoreKind;
 import org.roundtable.statistics.score.ScoreSelection;
@@ -25,14 +26,18 @@ import org.roundtable.statistics.score.Scores;
  * <ol>
  * <li>Censored ("less than") results are set aside: not used in any statistic, not scored,
  * classified consistent/inconsistent with the assigned value ({@link CensoredResult}).</li>
- * <li>On the remaining p values: median, MADe, nIQR (Hyndman–Fan type 7 quartiles) and
- * Algorithm A (full convergence, 1e-10·s*).</li>
+ * <li>Results marked {@code excludedFromStatistics} (blunders) are left out of every statistic
+ * and of n, but are still scored against the x_pt, u(x_pt) and σ_pt of the others (ISO
+ * 13528:2015 removes blunders from the statistics; the laboratory still sees its score).</li>
+ * <li>On the remaining p values: median, MADe, nIQR (quartiles by the {@link Rules}' quartile
+ * rule, default Hyndman–Fan type 7) and Algorithm A (by the rules' stopping rule, default full
+ * convergence, 1e-10·s*).</li>
  * <li>Assigned value x_pt: the given value with {@code u(x_pt) = U/2}, else the Algorithm A
  * robust mean x* of all non-censored results whatever their method, with
  * {@code u(x_pt) = 1.25·s* / sqrt(p)}.</li>
  * <li>σ_pt: the given value, else s* (data-derived, warned).</li>
  * <li>z or z′ is chosen by {@code u(x_pt) ≤ 0.3·σ_pt} ({@link ScoreSelection}); both are
- * reported, the chosen one classifies. ζ uses {@code u(x_i) = U_i/k_i} (k = 2 when absent) and
+ * reported, the chosen one classifies with the rules' {@link BoundaryRule}. ζ uses {@code u(x_i) = U_i/k_i} (k = 2 when absent) and
  * u(x_pt); En uses U_i as reported and {@code U(x_pt) = 2·u(x_pt)}.</li>
  * </ol>
  *
@@ -65,14 +70,57 @@ public final class MeasurandEvaluation {
      * @param expandedUncertainty U, or null
      * @param coverageFactor      k, or null (then 2)
      * @param method              method name, or null (not used by the statistics)
+     * @param excludedFromStatistics true for a result left out of every statistic (a blunder)
+     *                            but still scored against the others' assigned value
      */
     public record ParticipantResult(String participant, String reported, double value,
-            boolean lessThan, Double expandedUncertainty, Double coverageFactor, String method) {
+            boolean lessThan, Double expandedUncertainty, Double coverageFactor, String method,
+            boolean excludedFromStatistics) {
 
         public ParticipantResult {
             Objects.requireNonNull(participant, "participant");
             Objects.requireNonNull(reported, "reported");
             Checks.requireFinite(value, "value of " + participant);
+        }
+
+        /** A result that takes part in the statistics. */
+        public ParticipantResult(String participant, String reported, double value,
+                boolean lessThan, Double expandedUncertainty, Double coverageFactor, String method) {
+            this(participant, reported, value, lessThan, expandedUncertainty, coverageFactor, method,
+                    false);
+        }
+
+        /** The same result left out of the statistics (still scored). */
+        public ParticipantResult excluded() {
+            return new ParticipantResult(participant, reported, value, lessThan,
+                    expandedUncertainty, coverageFactor, method, true);
+        }
+    }
+
+    /**
+     * How the statistics are computed and scores classified, as a plan fixes it.
+     *
+     * @param quartileRule quartiles of nIQR
+     * @param stoppingRule stopping rule of Algorithm A
+     * @param boundaryRule classification bands of z and z′
+     */
+    public record Rules(QuartileRule quartileRule, AlgorithmA.StoppingRule stoppingRule,
+            BoundaryRule boundaryRule) {
+
+        /** Hyndman–Fan type 7, full convergence, |z| ≤ 2 satisfactory and |z| ≥ 3 unsatisfactory. */
+        public static final Rules DEFAULT = new Rules(QuartileRule.DEFAULT,
+                AlgorithmA.StoppingRule.FULL_CONVERGENCE, BoundaryRule.DEFAULT);
+
+        public Rules {
+            Objects.requireNonNull(quartileRule, "quartileRule");
+            Objects.requireNonNull(stoppingRule, "stoppingRule");
+            Objects.requireNonNull(boundaryRule, "boundaryRule");
+        }
+
+        /** Algorithm A configured with this stopping rule. */
+        public AlgorithmA algorithmA() {
+            return stoppingRule == AlgorithmA.StoppingRule.FULL_CONVERGENCE
+                    ? AlgorithmA.fullConvergence() : AlgorithmA.thirdSignificantFigure();
         }
     }
 
@@ -85,12 +133,21 @@ public final class MeasurandEvaluation {
      * @param assignedValue               x_pt if set by the plan, else null (consensus)
      * @param assignedExpandedUncertainty U(x_pt) at k = 2 for a given x_pt, else null (0)
      * @param sigmaPt                     σ_pt if set by the plan, else null (robust SD)
+     * @param rules                       quartile, stopping and boundary rules
      */
     public record Input(String measurand, String unit, List<ParticipantResult> results,
-            Double assignedValue, Double assignedExpandedUncertainty, Double sigmaPt) {
+            Double assignedValue, Double assignedExpandedUncertainty, Double sigmaPt, Rules rules) {
+
+        /** An input evaluated with {@link Rules#DEFAULT}. */
+        public Input(String measurand, String unit, List<ParticipantResult> results,
+                Double assignedValue, Double assignedExpandedUncertainty, Double sigmaPt) {
+            this(measurand, unit, results, assignedValue, assignedExpandedUncertainty, sigmaPt,
+                    Rules.DEFAULT);
+        }
 
         public Input {
             Objects.requireNonNull(measurand, "measurand");
+            Objects.requireNonNull(rules, "rules");
             results = List.copyOf(results);
             if (assignedValue != null) {
                 Checks.requireFinite(assignedValue, "assigned value");
@@ -122,14 +179,18 @@ public final class MeasurandEvaluation {
     }
 
     /**
-     * Outcome for one measurand; null marks a number that could not be computed.
+     * Outcome for one measurand; null marks a number that could not be computed. n and censored
+     * count only the results that take part in the statistics; excludedFromStatistics counts the
+     * others (scored all the same, in {@code scores}).
      */
-    public record Result(String measurand, String unit, int n, int censored, Double median,
+    public record Result(String measurand, String unit, int n, int censored,
+            int excludedFromStatistics, Double median,
             Double madE, Double nIqr, Double robustMean, Double robustSd, Integer iterations,
             Boolean converged, Double assignedValue, Double assignedValueUncertainty,
             AssignedValueSource assignedValueSource, Double sigmaPt, SigmaPtSource sigmaPtSource,
             ScoreKind scoreUsed, String scoreUsedReason, QuartileRule quartileRule,
-            AlgorithmA.StoppingRule stoppingRule, List<StatisticsWarning> warnings,
+            AlgorithmA.StoppingRule stoppingRule, BoundaryRule boundaryRule,
+            List<StatisticsWarning> warnings,
             List<ParticipantScore> scores) {
 
         public Result {
@@ -144,10 +205,13 @@ public final class MeasurandEvaluation {
     /** Evaluates the measurand (see class comment). */
     public static Result evaluate(Input input) {
         List<StatisticsWarning> warnings = new ArrayList<>();
+        Rules rules = input.rules();
         List<ParticipantResult> results = input.results();
-        double[] values = results.stream().filter(r -> !r.lessThan()).mapToDouble(ParticipantResult::value).toArray();
+        List<ParticipantResult> retained = results.stream().filter(r -> !r.excludedFromStatistics()).toList();
+        int excludedFromStatistics = results.size() - retained.size();
+        double[] values = retained.stream().filter(r -> !r.lessThan()).mapToDouble(ParticipantResult::value).toArray();
         int p = values.length;
-        int censored = results.size() - p;
+        int censored = retained.size() - p;
         double[] sorted = SortedCopy.of(values);
 
         if (p < MINIMUM_PARTICIPANTS) {
@@ -155,11 +219,11 @@ public final class MeasurandEvaluation {
                     + " statistics are unreliable below " + MINIMUM_PARTICIPANTS
                     + " values (ISO Guide 35:2017, B.5.1 c); prefer an independent assigned value"));
         }
-        if (!results.isEmpty() && (double) censored / results.size() > LARGE_CENSORED_SHARE) {
+        if (!retained.isEmpty() && (double) censored / retained.size() > LARGE_CENSORED_SHARE) {
             warnings.add(new StatisticsWarning("censored-share", String.format(Locale.ROOT,
                     "%d of %d results are 'less than' values (%.0f %%): they are left out of the"
-                    + " statistics, which may then be biased high", censored, results.size(),
-                    100.0 * censored / results.size())));
+                    + " statistics, which may then be biased high", censored, retained.size(),
+                    100.0 * censored / retained.size())));
         }
 
         Double median = null;
@@ -168,11 +232,11 @@ public final class MeasurandEvaluation {
         if (p >= 1) {
             median = Median.ofSorted(sorted);
             madE = ScaledMad.MADE_FACTOR * ScaledMad.madOfSorted(sorted, median);
-            nIqr = NormalizedIqr.ofSorted(sorted, QuartileRule.DEFAULT);
+            nIqr = NormalizedIqr.ofSorted(sorted, rules.quartileRule());
         }
         AlgorithmA.Result a = null;
         if (p >= 2) {
-            a = AlgorithmA.fullConvergence().evaluateSorted(sorted);
+            a = rules.algorithmA().evaluateSorted(sorted);
             for (StatisticsWarning w : a.warnings()) {
                 if (!w.code().equals("too-few-values")) {
                     warnings.add(w);
@@ -260,11 +324,12 @@ public final class MeasurandEvaluation {
                     double k = r.coverageFactor() == null ? DEFAULT_COVERAGE_FACTOR : r.coverageFactor();
                     zeta = box(Scores.zeta(x, xpt, r.expandedUncertainty() / k, uxpt));
                     en = box(Scores.en(x, xpt, r.expandedUncertainty(), DEFAULT_COVERAGE_FACTOR * uxpt));
-                    anyUncertaintyScore |= zeta != null || en != null;
+                    // ζ/En of a result outside the consensus are not biased by it
+                    anyUncertaintyScore |= !r.excludedFromStatistics() && (zeta != null || en != null);
                 }
             }
             Double chosen = used == ScoreKind.Z ? z : used == ScoreKind.Z_PRIME ? zPrime : null;
-            String cls = chosen == null ? null : Scores.classifyZ(chosen).word();
+            String cls = chosen == null ? null : rules.boundaryRule().classify(chosen).word();
             scores.add(new ParticipantScore(r.participant(), r.reported(), x, z, zPrime, zeta, en, cls));
         }
         if (anyUncertaintyScore && xptSource == AssignedValueSource.ALGORITHM_A) {
@@ -272,10 +337,11 @@ public final class MeasurandEvaluation {
                     + " that includes each participant's own result: zeta and En are biased towards"
                     + " zero (ISO 13528:2015, clause 9)"));
         }
-        return new Result(input.measurand(), input.unit(), p, censored, median, madE, nIqr,
-                robustMean, robustSd, a == null ? null : a.iterations(), a == null ? null : a.converged(),
-                xpt, uxpt, xptSource, sigma, sigmaSource, used, usedReason, QuartileRule.DEFAULT,
-                AlgorithmA.StoppingRule.FULL_CONVERGENCE, warnings, scores);
+        return new Result(input.measurand(), input.unit(), p, censored, excludedFromStatistics,
+                median, madE, nIqr, robustMean, robustSd, a == null ? null : a.iterations(),
+                a == null ? null : a.converged(), xpt, uxpt, xptSource, sigma, sigmaSource, used,
+                usedReason, rules.quartileRule(), rules.stoppingRule(), rules.boundaryRule(), warnings,
+                scores);
     }
 
     private static Double box(java.util.OptionalDouble value) {

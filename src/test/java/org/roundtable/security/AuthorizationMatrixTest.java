@@ -70,6 +70,9 @@ class AuthorizationMatrixTest {
     @Inject
     org.roundtable.testing.Publications publications;
 
+    @Inject
+    org.roundtable.evaluation.ExclusionService exclusions;
+
     private long labA;
     private long labB;
 
@@ -264,7 +267,7 @@ class AuthorizationMatrixTest {
             // results need a round open for results; other round endpoints a dispatched one
             boolean results = resolved.contains("submission") || resolved.contains("results")
                     || resolved.contains("messages") || resolved.contains("review-flags")
-                    || resolved.contains("evaluation");
+                    || resolved.contains("evaluation") || resolved.contains("exclusion");
             // exports of the published evaluation need one: a closed round evaluated and issued as FINAL
             boolean published = resolved.contains("/published/") || resolved.contains("/scores");
             long round = published ? publications.publishedRound(labA, org.roundtable.report.model.ReportStatus.FINAL)
@@ -279,6 +282,15 @@ class AuthorizationMatrixTest {
                 int version = evaluations.run(round, true, new org.roundtable.audit.Actor("matrix", "coordinator", null))
                         .run().version();
                 resolved = resolved.replace("{version}", Integer.toString(version));
+            }
+            if (resolved.contains("{exclusionId}")) {
+                // a current blunder mark on laboratory A's Cr result
+                world.submitCr(round, labA, "18.12");
+                String code = world.text("SELECT participant_code FROM round_participant WHERE round_id = ? AND laboratory_id = ?",
+                        round, labA);
+                long exclusion = exclusions.mark(round, new org.roundtable.evaluation.ExclusionService.MarkRequest(code, "Cr",
+                        "A", "matrix"), new org.roundtable.audit.Actor("matrix", "coordinator", null)).id();
+                resolved = resolved.replace("{exclusionId}", Long.toString(exclusion));
             }
             if (resolved.contains("{itemId}")) {
                 resolved = resolved.replace("{itemId}", Long.toString(world.itemOf(round, labA)));

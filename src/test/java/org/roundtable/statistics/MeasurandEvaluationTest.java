@@ -145,4 +145,55 @@ class MeasurandEvaluationTest {
         Result r = MeasurandEvaluation.evaluate(new Input("Cu", "% m/m", results(values), null, null, null));
         assertTrue(hasWarning(r, "multimodal"));
     }
+
+    @Test
+    void aResultExcludedFromTheStatisticsChangesNothingButIsStillScored() {
+        // a blunder (decimal point slipped: 7.48 for 0.748) left out of the statistics: every statistic equals
+        // the evaluation of the 20 others exactly, and the blunder is scored against their x_pt
+        Result without = MeasurandEvaluation.evaluate(new Input("Mn", "% m/m", results(MANGANESE), null, null, 0.010));
+        List<ParticipantResult> with = new ArrayList<>(results(MANGANESE));
+        with.add(new ParticipantResult("L21", "7.48", 7.48, false, 0.008, 2.0, "OES").excluded());
+        Result r = MeasurandEvaluation.evaluate(new Input("Mn", "% m/m", with, null, null, 0.010));
+
+        assertEquals(20, r.n());
+        assertEquals(1, r.excludedFromStatistics());
+        assertEquals(without.assignedValue(), r.assignedValue(), 0.0);
+        assertEquals(without.assignedValueUncertainty(), r.assignedValueUncertainty(), 0.0);
+        assertEquals(without.median(), r.median(), 0.0);
+        assertEquals(without.nIqr(), r.nIqr(), 0.0);
+        assertEquals(21, r.scores().size());
+        // arithmetic: z = (7.48 − x*)/0.010 with x* of the 20 others
+        assertEquals((7.48 - without.assignedValue()) / 0.010, r.scores().get(20).z(), 1e-9);
+        assertEquals("unsatisfactory", r.scores().get(20).classification());
+    }
+
+    @Test
+    void onlyAnExcludedResultWithUncertaintyGivesNoBiasWarning() {
+        // ζ of a result outside the consensus is not biased by it
+        List<ParticipantResult> list = new ArrayList<>();
+        for (int i = 0; i < MANGANESE.length; i++) {
+            list.add(new ParticipantResult("L" + i, Double.toString(MANGANESE[i]), MANGANESE[i], false, null, null, null));
+        }
+        list.add(new ParticipantResult("L21", "0.9", 0.9, false, 0.008, 2.0, null).excluded());
+        Result r = MeasurandEvaluation.evaluate(new Input("Mn", "% m/m", list, null, null, 0.010));
+        assertFalse(hasWarning(r, "zeta-en-biased"));
+        assertTrue(r.scores().get(20).zeta() != null);
+    }
+
+    @Test
+    void thePlanRulesChooseQuartilesStoppingAndBands() {
+        MeasurandEvaluation.Rules legacy = new MeasurandEvaluation.Rules(
+                org.roundtable.statistics.robust.QuartileRule.HYNDMAN_FAN_6,
+                org.roundtable.statistics.robust.AlgorithmA.StoppingRule.THIRD_SIGNIFICANT_FIGURE,
+                org.roundtable.statistics.score.BoundaryRule.SATISFACTORY_BELOW_2_UNSATISFACTORY_ABOVE_3);
+        Result r = MeasurandEvaluation.evaluate(new Input("Mn", "% m/m", results(MANGANESE), null, null, 0.010, legacy));
+        // CALC (statistics reference §14.2): nIQR of the Mn data with R quantile(type = 6): 0.00630105 (rel 1e-8)
+        assertEquals(0.00630105, r.nIqr(), 0.00630105 * 1e-8);
+        // CALC (AlgorithmATest, legacy rule): 6 iterations, x* 0.7475538 (abs 1e-7)
+        assertEquals(6, r.iterations());
+        assertEquals(0.7475538, r.assignedValue(), 1e-7);
+        assertEquals(legacy.quartileRule(), r.quartileRule());
+        assertEquals(legacy.stoppingRule(), r.stoppingRule());
+        assertEquals(legacy.boundaryRule(), r.boundaryRule());
+    }
 }
