@@ -6,19 +6,21 @@
 ALTER TABLE scheme ADD COLUMN second_reviewer_required boolean NOT NULL DEFAULT false;
 
 -- A request to issue a round's reports from one evaluation run, carried out by a background job (kind
--- 'report-issue', payload {"reportIssue": id}). The round report is issued last, so "the round report with this
--- number exists" means the request is done.
+-- 'report-issue', payload {"reportIssue":id}). The round report is issued last, so "the round report with this
+-- number exists" means the request is done; a request whose job failed may be made again and reuses the numbers
+-- (laboratory reports issued already are kept, not issued twice).
 CREATE TABLE report_issue (
     id                    bigint GENERATED ALWAYS AS IDENTITY PRIMARY KEY,
     round_id              bigint        NOT NULL REFERENCES round (id),
     status                varchar(16)   NOT NULL CHECK (status IN ('PRELIMINARY', 'FINAL', 'AMENDED')),
     evaluation_run_id     bigint        NOT NULL REFERENCES evaluation_run (id),
-    round_report_id       varchar(64)   NOT NULL UNIQUE,
+    round_report_id       varchar(64)   NOT NULL,
     report_suffix         varchar(8)    NOT NULL,
     sign_off_sequence     integer,
     coordinator_comments  varchar(20000) NOT NULL DEFAULT '',
     amendment_reason      varchar(2000),
     requested_by          varchar(128)  NOT NULL,
+    requested_by_name     varchar(200)  NOT NULL,
     requested_at          timestamptz   NOT NULL,
     CHECK ((status = 'AMENDED') = (amendment_reason IS NOT NULL AND length(trim(amendment_reason)) > 0)),
     CHECK ((status = 'PRELIMINARY') = (sign_off_sequence IS NULL))
