@@ -2,6 +2,10 @@ package org.roundtable.demo;
 
 import io.quarkus.runtime.StartupEvent;
 import jakarta.enterprise.context.ApplicationScoped;
+import org.roundtable.account.Role;
+import org.roundtable.audit.Actor;
+import org.roundtable.evaluation.EvaluationService;
+import org.roundtable.report.ReportLifecycle;
 import jakarta.enterprise.context.control.ActivateRequestContext;
 import jakarta.enterprise.event.Observes;
 import jakarta.persistence.EntityManager;
@@ -28,15 +32,19 @@ public class DemoData {
     private final DemoAccounts accounts;
     private final DemoSchemes schemes;
     private final DemoSubmissions submissions;
+    private final EvaluationService evaluations;
+    private final ReportLifecycle reports;
 
     public DemoData(@ConfigProperty(name = "roundtable.demo.enabled", defaultValue = "false") boolean enabled,
                     EntityManager entityManager, DemoAccounts accounts, DemoSchemes schemes,
-                    DemoSubmissions submissions) {
+                    DemoSubmissions submissions, EvaluationService evaluations, ReportLifecycle reports) {
         this.enabled = enabled;
         this.entityManager = entityManager;
         this.accounts = accounts;
         this.schemes = schemes;
         this.submissions = submissions;
+        this.evaluations = evaluations;
+        this.reports = reports;
     }
 
     void onStart(@Observes StartupEvent event) {
@@ -46,6 +54,7 @@ public class DemoData {
         boolean loaded = load();
         if (loaded) {
             loadSubmissions();
+            publishPastRound();
         }
         String logins = accounts.describeLogins();
         String banner = (loaded ? "Demo data loaded." : "Demo data already present.") + " Demo sign-ins (password for all: "
@@ -57,6 +66,25 @@ public class DemoData {
     @ActivateRequestContext
     void loadSubmissions() {
         submissions.load();
+        submissions.loadPastRound();
+    }
+
+    /**
+     * The earlier round is closed, evaluated and published (preliminary, comment period, sign-off, final) by the demo
+     * coordinator, so that laboratories and the auditor have reports to download.
+     */
+    @ActivateRequestContext
+    void publishPastRound() {
+        long started = System.nanoTime();
+        long round = schemes.closePastRound();
+        Actor coordinator = new Actor("coordinator", Role.COORDINATOR_NAME, null);
+        int version = evaluations.run(round, false, coordinator).run().version();
+        reports.publishWithoutJobs(round, version, "Five laboratories reported all ten measurands. With fewer than "
+                        + "ten results the consensus values carry a larger uncertainty; read the scores with that in mind "
+                        + "(demo data, invented).",
+                new ReportLifecycle.Signer(coordinator, "Marta Ilves"));
+        LOG.infof("Demo round %s evaluated and its reports issued in %d ms.", DemoSchemes.PAST_ROUND,
+                (System.nanoTime() - started) / 1_000_000);
     }
 
     @Transactional

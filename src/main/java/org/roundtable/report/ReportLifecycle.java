@@ -160,6 +160,10 @@ public class ReportLifecycle {
     public record AuditorRound(long roundId, String roundCode, List<DocumentView> documents) {
     }
 
+    /** Who acts: the audit actor and the name printed on a report. */
+    public record Signer(Actor actor, String displayName) {
+    }
+
     /** A document's bytes with its name. */
     public record Content(String fileName, String contentType, byte[] bytes) {
     }
@@ -184,6 +188,10 @@ public class ReportLifecycle {
     /** Records a request to issue the preliminary reports and queues the job that issues them. */
     @Transactional
     public IssueView requestPreliminary(long roundId, IssueRequest request) {
+        return requestPreliminary(roundId, request, signer(), true);
+    }
+
+    private IssueView requestPreliminary(long roundId, IssueRequest request, Signer signer, boolean job) {
         RoundState state = rounds.lockState(roundId);
         if (state != RoundState.CLOSED && state != RoundState.EVALUATING) {
             throw new DomainException.Conflict("The round is " + RoundStateMachine.describe(state)
@@ -193,13 +201,17 @@ public class ReportLifecycle {
             throw new DomainException.BadRequest("Choose the evaluation run (its version) to report.");
         }
         long runId = assembler.runId(roundId, request.version());
-        return record(roundId, ReportStatus.PRELIMINARY, runId, "P1", null, request.comments(), null);
+        return record(roundId, ReportStatus.PRELIMINARY, runId, "P1", null, request.comments(), null, signer, job);
     }
 
     /** Opens the comment period on the preliminary report. */
     @Transactional
     public void openCommentPeriod(long roundId) {
-        rounds.takeReportStep(roundId, RoundAction.OPEN_COMMENT_PERIOD, currentUser.actor(), null);
+        openCommentPeriod(roundId, signer());
+    }
+
+    private void openCommentPeriod(long roundId, Signer signer) {
+        rounds.takeReportStep(roundId, RoundAction.OPEN_COMMENT_PERIOD, signer.actor(), null);
     }
 
     /** A coordinator's answer to a laboratory's comment. */
@@ -228,6 +240,10 @@ public class ReportLifecycle {
      */
     @Transactional
     public SignOffView signOff(long roundId, SignOffRequest request) {
+        return signOff(roundId, request, signer());
+    }
+
+    private SignOffView signOff(long roundId, SignOffRequest request, Signer signer) {
         RoundState state = rounds.lockState(roundId);
         if (!SIGNABLE.contains(state)) {
             throw new DomainException.Conflict("The round is " + RoundStateMachine.describe(state)
@@ -244,7 +260,7 @@ public class ReportLifecycle {
             throw new DomainException.Conflict("This report is being signed off for evaluation run "
                     + current.get(0).evaluationVersion() + "; sign that run, or issue and amend later.");
         }
-        String username = currentUser.actor().name();
+        String username = signer.actor().name();
         if (current.stream().anyMatch(s -> s.username().equals(username))) {
             throw new DomainException.Conflict("You have signed this report off already; a second reviewer must be "
                     + "another coordinator.");
@@ -264,18 +280,23 @@ public class ReportLifecycle {
                        signed_at)
                 VALUES (:r, :s, :run, :role, :u, :name, :at) RETURNING id
                 """, Map.of("r", roundId, "s", sequence, "run", runId, "role", role, "u", username,
-                "name", currentUser.displayName(), "at", at));
-        audit.record(new AuditTrail.Event(currentUser.actor(), "report.sign-off", "report_sign_off", Long.toString(id),
+                "name", signer.displayName(), "at", at));
+        audit.record(new AuditTrail.Event(signer.actor(), "report.sign-off", "report_sign_off", Long.toString(id),
                 null, null, "round=" + roundId + " sequence=" + sequence + " run=" + request.version() + " role=" + role));
-        return new SignOffView(sequence, request.version(), role, username, currentUser.displayName(), at);
+        return new SignOffView(sequence, request.version(), role, username, signer.displayName(), at);
     }
 
     /** Records a request to issue the final reports from the signed-off run and queues the job. */
     @Transactional
     public IssueView requestFinal(long roundId, IssueRequest request) {
+        return requestFinal(roundId, request, signer(), true);
+    }
+
+    private IssueView requestFinal(long roundId, IssueRequest request, Signer signer, boolean job) {
         RoundStateMachine.require(rounds.lockState(roundId), RoundAction.ISSUE_FINAL);
         long runId = signedRun(roundId, 0, request);
-        return record(roundId, ReportStatus.FINAL, runId, "F", 0, request == null ? null : request.comments(), null);
+        return record(roundId, ReportStatus.FINAL, runId, "F", 0, request == null ? null : request.comments(), null,
+                signer, job);
     }
 
     /** Records a request to amend the final (or last amended) reports and queues the job. */
@@ -291,7 +312,7 @@ public class ReportLifecycle {
         int sequence = nextSequence(roundId);
         long runId = signedRun(roundId, sequence, request);
         return record(roundId, ReportStatus.AMENDED, runId, "A" + sequence, sequence, request.comments(),
-                request.reason().strip());
+                request.reason().strip(), signer(), true);
     }
 
     /** One issue request with its job's progress; 404 for a request of another round. */
@@ -546,7 +567,7 @@ public class ReportLifecycle {
     // ---- internals ---------------------------------------------------------------------------------------
 
     private IssueView record(long roundId, ReportStatus status, long runId, String suffix, Integer sequence,
-                             String comments, String reason) {
+                             String comments, String reason, Signer signer, boolean job) {
         refuseWhileIssuing(roundId);
         String code = rounds.get(roundId).code();
         String roundReportId = code + "-R-" + suffix;
@@ -566,8 +587,8 @@ public class ReportLifecycle {
         params.put("seq", sequence);
         params.put("comments", text);
         params.put("reason", reason);
-        params.put("by", currentUser.actor().name());
-        params.put("name", currentUser.displayName());
+        params.put("by", signer.actor().name());
+        params.put("name", signer.displayName());
         params.put("at", now());
         long id = insert("""
                 INSERT INTO report_issue (round_id, status, evaluation_run_id, round_report_id, report_suffix,
@@ -575,10 +596,35 @@ public class ReportLifecycle {
                        requested_at)
                 VALUES (:r, :status, :run, :rid, :suffix, :seq, :comments, :reason, :by, :name, :at) RETURNING id
                 """, params);
-        Job job = jobs.enqueue(JOB_KIND, payload(id), currentUser.actor().name());
-        audit.record(new AuditTrail.Event(currentUser.actor(), "report.issue-requested", "report_issue",
-                Long.toString(id), null, null, status + " " + roundReportId + " job=" + job.id));
+        String jobText = "";
+        if (job) {
+            jobText = " job=" + jobs.enqueue(JOB_KIND, payload(id), signer.actor().name()).id;
+        }
+        audit.record(new AuditTrail.Event(signer.actor(), "report.issue-requested", "report_issue",
+                Long.toString(id), null, null, status + " " + roundReportId + jobText));
         return issue(roundId, id);
+    }
+
+    private Signer signer() {
+        return new Signer(currentUser.actor(), currentUser.displayName());
+    }
+
+    /**
+     * Takes a round from closed to a final report in one go, without background jobs: preliminary issue from run
+     * {@code version}, comment period, sign-off and final issue, all by {@code signer}. For the demo loader, which
+     * shows a published round; the API and pages always issue through the job.
+     */
+    public void publishWithoutJobs(long roundId, int version, String comments, Signer signer) {
+        JobProgress none = (done, total) -> {
+        };
+        IssueView preliminary = QuarkusTransaction.requiringNew().call(() -> requestPreliminary(roundId,
+                new IssueRequest(version, comments, null), signer, false));
+        execute(preliminary.id(), none);
+        QuarkusTransaction.requiringNew().run(() -> openCommentPeriod(roundId, signer));
+        QuarkusTransaction.requiringNew().run(() -> signOff(roundId, new SignOffRequest(version), signer));
+        IssueView fin = QuarkusTransaction.requiringNew().call(() -> requestFinal(roundId,
+                new IssueRequest(version, comments, null), signer, false));
+        execute(fin.id(), none);
     }
 
     static String payload(long issueId) {
