@@ -2,10 +2,8 @@ package org.roundtable.demo;
 
 import io.quarkus.runtime.StartupEvent;
 import jakarta.enterprise.context.ApplicationScoped;
-import org.roundtable.account.Role;
-import org.roundtable.audit.Actor;
 import org.roundtable.evaluation.EvaluationService;
-import org.roundtable.report.ReportLifecycle;
+import org.roundtable.job.JobService;
 import jakarta.enterprise.context.control.ActivateRequestContext;
 import jakarta.enterprise.event.Observes;
 import jakarta.persistence.EntityManager;
@@ -33,18 +31,18 @@ public class DemoData {
     private final DemoSchemes schemes;
     private final DemoSubmissions submissions;
     private final EvaluationService evaluations;
-    private final ReportLifecycle reports;
+    private final JobService jobs;
 
     public DemoData(@ConfigProperty(name = "roundtable.demo.enabled", defaultValue = "false") boolean enabled,
                     EntityManager entityManager, DemoAccounts accounts, DemoSchemes schemes,
-                    DemoSubmissions submissions, EvaluationService evaluations, ReportLifecycle reports) {
+                    DemoSubmissions submissions, EvaluationService evaluations, JobService jobs) {
         this.enabled = enabled;
         this.entityManager = entityManager;
         this.accounts = accounts;
         this.schemes = schemes;
         this.submissions = submissions;
         this.evaluations = evaluations;
-        this.reports = reports;
+        this.jobs = jobs;
     }
 
     void onStart(@Observes StartupEvent event) {
@@ -70,21 +68,15 @@ public class DemoData {
     }
 
     /**
-     * The earlier round is closed, evaluated and published (preliminary, comment period, sign-off, final) by the demo
-     * coordinator, so that laboratories and the auditor have reports to download.
+     * The earlier round is closed and evaluated now; its preliminary and final reports are issued by the
+     * {@link DemoPublication} job after start-up (rendering a dozen PDFs would otherwise hold up the start).
      */
     @ActivateRequestContext
     void publishPastRound() {
-        long started = System.nanoTime();
         long round = schemes.closePastRound();
-        Actor coordinator = new Actor("coordinator", Role.COORDINATOR_NAME, null);
-        int version = evaluations.run(round, false, coordinator).run().version();
-        reports.publishWithoutJobs(round, version, "Five laboratories reported all ten measurands. With fewer than "
-                        + "ten results the consensus values carry a larger uncertainty; read the scores with that in mind "
-                        + "(demo data, invented).",
-                new ReportLifecycle.Signer(coordinator, "Marta Ilves"));
-        LOG.infof("Demo round %s evaluated and its reports issued in %d ms.", DemoSchemes.PAST_ROUND,
-                (System.nanoTime() - started) / 1_000_000);
+        int version = evaluations.run(round, false, DemoPublication.COORDINATOR).run().version();
+        jobs.enqueue(DemoPublication.KIND, "{\"round\":" + round + ",\"version\":" + version + "}",
+                DemoPublication.COORDINATOR.name());
     }
 
     @Transactional

@@ -183,13 +183,14 @@ public class ReportAssembler {
         }
 
         List<ItemCheck> checks = new ArrayList<>();
-        StringBuilder decisions = new StringBuilder();
+        Map<String, List<String>> decisions = new LinkedHashMap<>();
         for (QualificationService.MeasurandQualification q : qualification.status(roundId)) {
             String sectionId = firstSectionOfElement.get(q.element());
             if (q.decision() != null) {
-                decisions.append(decisions.isEmpty() ? "" : " ").append(q.element()).append(": ")
-                        .append(q.decision().decision().toLowerCase(Locale.ROOT).replace('_', ' '))
-                        .append(" by the coordinator (").append(q.decision().reason()).append(").");
+                String decision = q.decision().decision();
+                String words = decision.equals("ACCEPT") ? "accepted" : decision.toLowerCase(Locale.ROOT).replace('_', ' ');
+                decisions.computeIfAbsent(words + " by the coordinator: " + q.decision().reason(),
+                        k -> new ArrayList<>()).add(q.element());
             }
             if (sectionId == null || q.homogeneity() == null) {
                 continue;
@@ -202,10 +203,12 @@ public class ReportAssembler {
                     st == null ? Double.NaN : st.difference(), st == null ? Double.NaN : st.simpleLimit(),
                     st == null || st.stable(), note));
         }
-        String preparation = decisions.isEmpty() ? "" : "Sample qualification decisions: " + decisions;
+        StringBuilder preparation = new StringBuilder();
+        decisions.forEach((decision, elements) -> preparation.append(preparation.isEmpty() ? "Sample qualification: " : " ")
+                .append(String.join(", ", elements)).append(" — ").append(decision).append(decision.endsWith(".") ? "" : "."));
         ItemInfo item = new ItemInfo(round.itemDescription() + " (" + round.itemsPerLaboratory() + " item"
                 + (round.itemsPerLaboratory() == 1 ? "" : "s") + " per participant, labelled "
-                + String.join(", ", round.itemLabels()) + ")", preparation, checks);
+                + String.join(", ", round.itemLabels()) + ")", preparation.toString(), checks);
 
         List<PairedItems> pairs = new ArrayList<>();
         if (manyItems && round.itemLabels().size() == 2) {
@@ -219,16 +222,20 @@ public class ReportAssembler {
         }
 
         EvaluationPlan.MeasurandPlan first = plan.measurands().isEmpty() ? null : plan.measurands().get(0);
-        Set<String> methods = new LinkedHashSet<>();
+        // measurands evaluated alike are named together, so that the method reads once
+        Map<String, Set<String>> byMethod = new LinkedHashMap<>();
         for (EvaluationViews.MeasurandOutcome o : run.measurands()) {
-            methods.add(o.element() + ": x_pt " + assignedValueWords(o.assignedValueMethod()) + "; σpt "
-                    + sigmaPtWords(o.sigmaPtMethod(), o.sigmaPtSource()) + "; score "
-                    + scoreKind(o.scoreUsed()).jsonName() + ".");
+            byMethod.computeIfAbsent("x_pt " + assignedValueWords(o.assignedValueMethod()) + "; σpt "
+                    + sigmaPtWords(o.sigmaPtMethod(), o.sigmaPtSource()) + "; scored by "
+                    + scoreSymbol(scoreKind(o.scoreUsed())) + ".", k -> new LinkedHashSet<>()).add(o.element());
             EvaluationPlan.MeasurandPlan p = planned.get(o.element());
             if (p != null && p.exclusionRules() != null && !p.exclusionRules().isBlank()) {
-                methods.add(o.element() + ": exclusion rules — " + p.exclusionRules().strip());
+                byMethod.computeIfAbsent("Exclusion rules: " + p.exclusionRules().strip(), k -> new LinkedHashSet<>())
+                        .add(o.element());
             }
         }
+        Set<String> methods = new LinkedHashSet<>();
+        byMethod.forEach((text, elements) -> methods.add(String.join(", ", elements) + ": " + text));
         methods.add("Evaluation run " + run.run().version() + " of the round, plan version " + run.run().planVersion()
                 + " (plan SHA-256 " + run.run().planSha256() + "), outputs SHA-256 " + run.run().outputsSha256() + ".");
         EvaluationNotes notes = new EvaluationNotes(List.copyOf(methods),
@@ -269,6 +276,15 @@ public class ReportAssembler {
         return ScoreKind.Z;
     }
 
+    static String scoreSymbol(ScoreKind kind) {
+        return switch (kind) {
+            case Z -> "z";
+            case Z_PRIME -> "z′ (z prime)";
+            case ZETA -> "ζ (zeta)";
+            case EN -> "En";
+        };
+    }
+
     static Classification classification(String word) {
         for (Classification c : Classification.values()) {
             if (c.word().equals(word)) {
@@ -307,7 +323,7 @@ public class ReportAssembler {
 
     static String stoppingWords(String rule) {
         return rule == null || rule.equals("FULL_CONVERGENCE")
-                ? "Algorithm A iterates until x* and s* no longer change in the stored precision"
+                ? "Algorithm A iterated until x* and s* converge (the plan's full-convergence rule)"
                 : rule.toLowerCase(Locale.ROOT).replace('_', ' ');
     }
 

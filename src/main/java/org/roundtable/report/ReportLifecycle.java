@@ -610,21 +610,41 @@ public class ReportLifecycle {
     }
 
     /**
-     * Takes a round from closed to a final report in one go, without background jobs: preliminary issue from run
-     * {@code version}, comment period, sign-off and final issue, all by {@code signer}. For the demo loader, which
-     * shows a published round; the API and pages always issue through the job.
+     * Takes a round from closed to a final report without background jobs: preliminary issue from run
+     * {@code version}, comment period, sign-off and final issue, all by {@code signer}. Resumable: each step is
+     * taken according to the round's state, and an issue request left unfinished is carried out rather than made
+     * again. For the demo loader (which runs it as its own job after start-up); the API and pages always issue
+     * through the report job.
      */
     public void publishWithoutJobs(long roundId, int version, String comments, Signer signer) {
         JobProgress none = (done, total) -> {
         };
-        IssueView preliminary = QuarkusTransaction.requiringNew().call(() -> requestPreliminary(roundId,
-                new IssueRequest(version, comments, null), signer, false));
-        execute(preliminary.id(), none);
-        QuarkusTransaction.requiringNew().run(() -> openCommentPeriod(roundId, signer));
-        QuarkusTransaction.requiringNew().run(() -> signOff(roundId, new SignOffRequest(version), signer));
-        IssueView fin = QuarkusTransaction.requiringNew().call(() -> requestFinal(roundId,
-                new IssueRequest(version, comments, null), signer, false));
-        execute(fin.id(), none);
+        for (int step = 0; step < 6; step++) {
+            RoundState state = RoundState.valueOf(QuarkusTransaction.requiringNew().call(() -> rounds.get(roundId).state()));
+            switch (state) {
+                case CLOSED, EVALUATING -> execute(pendingOrNew(roundId, ReportStatus.PRELIMINARY,
+                        () -> requestPreliminary(roundId, new IssueRequest(version, comments, null), signer, false)), none);
+                case PRELIMINARY_ISSUED -> QuarkusTransaction.requiringNew().run(() -> openCommentPeriod(roundId, signer));
+                case COMMENT_PERIOD -> {
+                    QuarkusTransaction.requiringNew().run(() -> {
+                        if (signOffs(roundId).stream().noneMatch(s -> s.sequence() == 0)) {
+                            signOff(roundId, new SignOffRequest(version), signer);
+                        }
+                    });
+                    execute(pendingOrNew(roundId, ReportStatus.FINAL,
+                            () -> requestFinal(roundId, new IssueRequest(version, comments, null), signer, false)), none);
+                }
+                default -> {
+                    return;
+                }
+            }
+        }
+    }
+
+    private long pendingOrNew(long roundId, ReportStatus status, java.util.function.Supplier<IssueView> request) {
+        return QuarkusTransaction.requiringNew().call(() -> issues(roundId).stream()
+                .filter(i -> !i.done() && i.status().equals(status.name())).map(IssueView::id).findFirst()
+                .orElseGet(() -> request.get().id()));
     }
 
     static String payload(long issueId) {
