@@ -194,6 +194,28 @@ class ReportLifecycleTest {
     }
 
     @Test
+    void commentsAnswersSignOffsAndIssueRequestsCannotBeChanged() {
+        evaluatedRound();
+        World.Browser coordinator = world.signIn(world.user("coordinator", null));
+        World.Browser lab = world.signIn(world.user("lab-member", labs[0]));
+        issue(coordinator, "preliminary", "{\"version\": 1}");
+        coordinator.json().body("{}").post("/api/v1/rounds/" + round + "/reports/comment-period").then().statusCode(200);
+        int comment = lab.json().body("{\"body\": \"A comment.\"}").post("/api/v1/my-rounds/" + round + "/comments")
+                .then().statusCode(201).extract().path("id");
+        coordinator.json().body("{\"body\": \"An answer.\"}")
+                .post("/api/v1/rounds/" + round + "/reports/comments/" + comment + "/answers").then().statusCode(201);
+        coordinator.json().body("{\"version\": 1}").post("/api/v1/rounds/" + round + "/reports/sign-offs").then().statusCode(201);
+        for (String sql : List.of("UPDATE report_comment SET body = 'changed' WHERE round_id = ?",
+                "DELETE FROM report_comment_answer WHERE comment_id IN (SELECT id FROM report_comment WHERE round_id = ?)",
+                "UPDATE report_sign_off SET username = 'someone' WHERE round_id = ?",
+                "DELETE FROM report_issue WHERE round_id = ?")) {
+            org.assertj.core.api.Assertions.assertThatThrownBy(() -> world.sql(sql, round)).as(sql)
+                    .isInstanceOf(IllegalStateException.class);
+        }
+        assertThat(world.text("SELECT body FROM report_comment WHERE round_id = ?", round)).isEqualTo("A comment.");
+    }
+
+    @Test
     void aRoundStillOpenForResultsCannotBeReported() {
         long lab = world.laboratory();
         round = world.round(RoundState.OPEN_FOR_RESULTS, lab);
