@@ -298,12 +298,11 @@ public class RoundService {
     /** The round's current state, read under the round's row lock (for the report feature's checks). */
     @Transactional(Transactional.TxType.MANDATORY)
     public RoundState lockState(long roundId) {
-        return entityManager.find(Round.class, roundId, jakarta.persistence.LockModeType.PESSIMISTIC_WRITE) == null
-                ? notFound() : gate.find(roundId).state;
-    }
-
-    private static RoundState notFound() {
-        throw new DomainException.NotFound("The round");
+        Round round = entityManager.find(Round.class, roundId, jakarta.persistence.LockModeType.PESSIMISTIC_WRITE);
+        if (round == null) {
+            throw new DomainException.NotFound("The round");
+        }
+        return round.state;
     }
 
     static RoundAction parseAction(String name) {
