@@ -2,6 +2,8 @@ package org.roundtable.demo;
 
 import io.quarkus.runtime.StartupEvent;
 import jakarta.enterprise.context.ApplicationScoped;
+import org.roundtable.evaluation.EvaluationService;
+import org.roundtable.job.JobService;
 import jakarta.enterprise.context.control.ActivateRequestContext;
 import jakarta.enterprise.event.Observes;
 import jakarta.persistence.EntityManager;
@@ -28,15 +30,19 @@ public class DemoData {
     private final DemoAccounts accounts;
     private final DemoSchemes schemes;
     private final DemoSubmissions submissions;
+    private final EvaluationService evaluations;
+    private final JobService jobs;
 
     public DemoData(@ConfigProperty(name = "roundtable.demo.enabled", defaultValue = "false") boolean enabled,
                     EntityManager entityManager, DemoAccounts accounts, DemoSchemes schemes,
-                    DemoSubmissions submissions) {
+                    DemoSubmissions submissions, EvaluationService evaluations, JobService jobs) {
         this.enabled = enabled;
         this.entityManager = entityManager;
         this.accounts = accounts;
         this.schemes = schemes;
         this.submissions = submissions;
+        this.evaluations = evaluations;
+        this.jobs = jobs;
     }
 
     void onStart(@Observes StartupEvent event) {
@@ -46,6 +52,7 @@ public class DemoData {
         boolean loaded = load();
         if (loaded) {
             loadSubmissions();
+            publishPastRound();
         }
         String logins = accounts.describeLogins();
         String banner = (loaded ? "Demo data loaded." : "Demo data already present.") + " Demo sign-ins (password for all: "
@@ -57,6 +64,19 @@ public class DemoData {
     @ActivateRequestContext
     void loadSubmissions() {
         submissions.load();
+        submissions.loadPastRound();
+    }
+
+    /**
+     * The earlier round is closed and evaluated now; its preliminary and final reports are issued by the
+     * {@link DemoPublication} job after start-up (rendering a dozen PDFs would otherwise hold up the start).
+     */
+    @ActivateRequestContext
+    void publishPastRound() {
+        long round = schemes.closePastRound();
+        int version = evaluations.run(round, false, DemoPublication.COORDINATOR).run().version();
+        jobs.enqueue(DemoPublication.KIND, "{\"round\":" + round + ",\"version\":" + version + "}",
+                DemoPublication.COORDINATOR.name());
     }
 
     @Transactional

@@ -141,6 +141,31 @@ public class IssuedDocuments {
         return find("WHERE d.id = :v", documentId);
     }
 
+    /** The issued document with this report number. */
+    @Transactional
+    public Optional<IssuedDocument> byReportId(String reportId) {
+        return find("WHERE d.report_id = :v", reportId);
+    }
+
+    /** The round's issued documents, oldest first. */
+    @Transactional
+    public List<IssuedDocument> ofRound(long roundId) {
+        @SuppressWarnings("unchecked")
+        List<Object[]> rows = entityManager.createNativeQuery(COLUMNS + "WHERE d.round_id = :v ORDER BY d.issued_at, d.id")
+                .setParameter("v", roundId).getResultList();
+        return rows.stream().map(IssuedDocuments::read).toList();
+    }
+
+    /** The evaluation run (row id) a document reports, if any. */
+    @Transactional
+    public Optional<Long> evaluationRunOf(long documentId) {
+        @SuppressWarnings("unchecked")
+        List<Number> rows = entityManager.createNativeQuery(
+                        "SELECT evaluation_run_id FROM issued_document WHERE id = :id AND evaluation_run_id IS NOT NULL")
+                .setParameter("id", documentId).getResultList();
+        return rows.stream().findFirst().map(Number::longValue);
+    }
+
     /** The issued document with exactly this SHA-256 (lower-case hex), if any. */
     @Transactional
     public Optional<IssuedDocument> verify(String sha256) {

@@ -18,13 +18,17 @@ import java.util.List;
  * <ul>
  *   <li>NLS-2026-2 — prepared and open for results, the five demo laboratories enrolled, Mn qualified from
  *       homogeneity data, the other measurands accepted by a recorded decision;</li>
- *   <li>NLS-2026-1 — an earlier round, closed; its dates and timestamps are set back about four months after
- *       it was walked through the workflow (the services stamp "now" from the injected clock);</li>
+ *   <li>NLS-2026-1 — an earlier round: walked to open for results, reported by the demo laboratories, then
+ *       closed and its dates and timestamps set back about four months ({@link #closePastRound}; the services
+ *       stamp "now" from the injected clock); the demo loader then evaluates it and issues its reports;</li>
  *   <li>NLS-2027-1 — a draft with a draft plan.</li>
  * </ul>
  */
 @ApplicationScoped
 public class DemoSchemes {
+
+    /** The earlier round the demo shows with its preliminary and final reports. */
+    public static final String PAST_ROUND = "NLS-2026-1";
 
     /** element, unit, digits, expected min, max, method groups, σpt (fixed, demo). */
     record DemoMeasurand(String element, String unit, int digits, String min, String max, List<String> groups, String sigmaPt) {
@@ -103,10 +107,10 @@ public class DemoSchemes {
         List<Number> labs = entityManager.createNativeQuery("SELECT id FROM laboratory ORDER BY id LIMIT 5").getResultList();
         LocalDate today = LocalDate.now(clock);
 
-        // an earlier round, closed, then placed about four months back
-        long past = walk(scheme.id(), "NLS-2026-1", "Low-alloy steel disc, 38 mm, lot 26-014", today.minusDays(130),
-                today.minusDays(102), labs, RoundAction.CLOSE);
-        shiftBack(past, 100);
+        // an earlier round: open for results now, so that the demo laboratories report in time; closePastRound then
+        // closes it and places it about four months back (the report feature publishes it afterwards)
+        walk(scheme.id(), PAST_ROUND, "Low-alloy steel disc, 38 mm, lot 26-014", today.minusDays(2),
+                today.plusDays(1), labs, RoundAction.OPEN_FOR_RESULTS);
 
         // the current round, open for results
         walk(scheme.id(), "NLS-2026-2", "Low-alloy steel disc, 38 mm, lot 26-031", today.minusDays(5), today.plusDays(23),
@@ -116,6 +120,23 @@ public class DemoSchemes {
         RoundService.RoundView draft = rounds.create(details(scheme.id(), "NLS-2027-1",
                 "Low-alloy steel disc, 38 mm, lot to be chosen", today.plusDays(60), today.plusDays(88)));
         rounds.saveDraftPlan(draft.id(), plan());
+    }
+
+    /**
+     * Closes the earlier demo round once its laboratories have reported and places it about four months back:
+     * dispatch 130 days and the deadline 102 days ago, its timestamps 100 days back. Returns its id.
+     */
+    @Transactional
+    public long closePastRound() {
+        long past = ((Number) entityManager.createNativeQuery("SELECT id FROM round WHERE code = :c")
+                .setParameter("c", PAST_ROUND).getSingleResult()).longValue();
+        rounds.transition(past, RoundAction.CLOSE.name());
+        shiftBack(past, 100);
+        entityManager.createNativeQuery("""
+                UPDATE round SET dispatch_date = dispatch_date - 128,
+                       result_deadline = result_deadline - make_interval(days => 103) WHERE id = :r
+                """).setParameter("r", past).executeUpdate();
+        return past;
     }
 
     private long walk(long schemeId, String code, String items, LocalDate dispatch, LocalDate deadline, List<Number> labs,

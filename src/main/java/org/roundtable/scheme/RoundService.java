@@ -6,6 +6,7 @@ import jakarta.enterprise.context.ApplicationScoped;
 import jakarta.persistence.EntityManager;
 import jakarta.transaction.Transactional;
 import org.roundtable.account.CurrentUser;
+import org.roundtable.audit.Actor;
 import org.roundtable.audit.AuditTrail;
 import org.roundtable.audit.ObjectHash;
 import org.roundtable.platform.DomainException;
@@ -267,6 +268,41 @@ public class RoundService {
                 .replace('_', '-'), "round", round.id.toString(), before, hash(round),
                 "from=" + from + " to=" + next + (detail == null ? "" : " " + detail)));
         return view(round);
+    }
+
+    /**
+     * Takes a lifecycle step that belongs to the evaluation and report features ({@link RoundAction#availableNow()}
+     * false, e.g. {@code ISSUE_PRELIMINARY}), in the caller's transaction and under the round's row lock; they
+     * call it only with the evidence of the step in hand (an issued report). Audited like {@link #transition}.
+     *
+     * @return the state the round is in afterwards
+     */
+    @Transactional(Transactional.TxType.MANDATORY)
+    public RoundState takeReportStep(long roundId, RoundAction action, Actor actor, String detail) {
+        if (!action.changesState() || action.availableNow()) {
+            throw new IllegalArgumentException(action + " is not a step of the evaluation and report features");
+        }
+        Round round = gate.enter(roundId, action);
+        RoundState next = RoundStateMachine.next(round.state, action).orElseThrow();
+        String before = hash(round);
+        RoundState from = round.state;
+        round.state = next;
+        round.stateChangedAt = now();
+        entityManager.flush();
+        audit.record(new AuditTrail.Event(actor, "round." + action.name().toLowerCase(Locale.ROOT).replace('_', '-'),
+                "round", round.id.toString(), before, hash(round),
+                "from=" + from + " to=" + next + (detail == null ? "" : " " + detail)));
+        return next;
+    }
+
+    /** The round's current state, read under the round's row lock (for the report feature's checks). */
+    @Transactional(Transactional.TxType.MANDATORY)
+    public RoundState lockState(long roundId) {
+        Round round = entityManager.find(Round.class, roundId, jakarta.persistence.LockModeType.PESSIMISTIC_WRITE);
+        if (round == null) {
+            throw new DomainException.NotFound("The round");
+        }
+        return round.state;
     }
 
     static RoundAction parseAction(String name) {

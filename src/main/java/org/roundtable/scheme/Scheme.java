@@ -31,6 +31,10 @@ public class Scheme {
     @Column(name = "created_at", nullable = false)
     public OffsetDateTime createdAt;
 
+    /** Whether each final or amended report needs a second reviewer's sign-off (a different coordinator). */
+    @Column(name = "second_reviewer_required", nullable = false)
+    public boolean secondReviewerRequired;
+
     @Version
     public int version;
 }

@@ -147,6 +147,22 @@ public class SchemeService {
         return measurands.ofScheme(schemeId);
     }
 
+    /** Whether the scheme requires a second reviewer's sign-off on each final or amended report. */
+    @Transactional
+    public boolean secondReviewerRequired(long schemeId) {
+        return find(schemeId).secondReviewerRequired;
+    }
+
+    /** Sets whether the scheme requires a second reviewer's sign-off on final and amended reports (audited). */
+    @Transactional
+    public void requireSecondReviewer(long schemeId, boolean required) {
+        Scheme scheme = find(schemeId);
+        String before = hash(scheme);
+        scheme.secondReviewerRequired = required;
+        audit.record(new AuditTrail.Event(currentUser.actor(), "scheme.second-reviewer", "scheme",
+                scheme.id.toString(), before, hash(scheme), "secondReviewerRequired=" + required));
+    }
+
     Scheme find(long schemeId) {
         return schemes.findByIdOptional(schemeId).orElseThrow(() -> new DomainException.NotFound("The scheme"));
     }
@@ -204,6 +220,7 @@ public class SchemeService {
         fields.put("id", s.id);
         fields.put("name", s.name);
         fields.put("materialFamily", s.materialFamily);
+        fields.put("secondReviewerRequired", s.secondReviewerRequired);
         return ObjectHash.of(fields);
     }
 

@@ -48,6 +48,28 @@ public class DemoSubmissions {
         }
     }
 
+    /** Invented results of the five demo laboratories in the earlier round NLS-2026-1 (demo only). */
+    static final List<String[]> PAST_RESULTS = List.of(
+            new String[]{"0.384", "78", "0.231", "0.0142", "0.0092", "0.982", "0.812", "0.151", "0.184", "0.241"},
+            new String[]{"0.379", "83", "0.236", "0.0139", "0.0089", "0.991", "0.805", "0.149", "0.181", "0.238"},
+            new String[]{"0.391", "75", "0.228", "0.0145", "0.0095", "0.975", "0.819", "0.154", "0.187", "0.244"},
+            new String[]{"0.386", "80", "0.233", "0.0141", "0.0090", "0.987", "0.809", "0.152", "0.183", "0.240"},
+            new String[]{"0.402", "92", "0.239", "0.0151", "0.0099", "1.012", "0.838", "0.158", "0.190", "0.249"});
+
+    /** Every demo laboratory reports in the earlier round NLS-2026-1 (still open for results at this point). */
+    public void loadPastRound() {
+        @SuppressWarnings("unchecked")
+        List<Object[]> rows = entityManager.createNativeQuery("""
+                SELECT r.id, p.laboratory_id FROM round r JOIN round_participant p ON p.round_id = r.id
+                 WHERE r.code = 'NLS-2026-1' ORDER BY p.laboratory_id
+                """).getResultList();
+        for (int i = 0; i < rows.size() && i < PAST_RESULTS.size(); i++) {
+            submissions.submitFor(((Number) rows.get(i)[1]).longValue(), ((Number) rows.get(i)[0]).longValue(),
+                    new SubmissionService.Upload(SubmissionService.Channel.JSON, UploadFormat.JSON,
+                            json(PAST_RESULTS.get(i)), null, "application/json"), true, null, null);
+        }
+    }
+
     private static byte[] json(String[] values) {
         StringBuilder out = new StringBuilder("{\"results\":[");
         for (int e = 0; e < ELEMENTS.size(); e++) {

@@ -28,7 +28,7 @@ class DemoSchemesTest {
     @Test
     @TestTransaction
     @ActivateRequestContext
-    void theDemoSchemeLoadsWithAnOpenAPastAndADraftRound() {
+    void theDemoSchemeLoadsWithTwoOpenRoundsAndADraftAndClosesTheEarlierOneBackdated() {
         for (int i = 0; i < 5; i++) {
             world.laboratory();
         }
@@ -39,9 +39,16 @@ class DemoSchemesTest {
                         + "WHERE code LIKE 'NLS-%' ORDER BY code").getResultList();
         assertThat(rounds).hasSize(3);
         assertThat(rounds.get(0)[0]).isEqualTo("NLS-2026-1");
-        assertThat(rounds.get(0)[1]).isEqualTo("CLOSED");
+        assertThat(rounds.get(0)[1]).isEqualTo("OPEN_FOR_RESULTS");
         assertThat(((Number) rounds.get(0)[2]).intValue()).isEqualTo(5);
         assertThat(rounds.get(1)[1]).isEqualTo("OPEN_FOR_RESULTS");
         assertThat(rounds.get(2)[1]).isEqualTo("DRAFT");
+
+        // once its laboratories have reported, the earlier round is closed and placed about four months back
+        long past = demo.closePastRound();
+        Object[] closed = (Object[]) entityManager.createNativeQuery(
+                "SELECT state, current_date - dispatch_date FROM round WHERE id = :r").setParameter("r", past).getSingleResult();
+        assertThat(closed[0]).isEqualTo("CLOSED");
+        assertThat(((Number) closed[1]).intValue()).isEqualTo(130);
     }
 }

@@ -295,6 +295,21 @@ class AuthorizationMatrixTest {
             if (resolved.contains("{itemId}")) {
                 resolved = resolved.replace("{itemId}", Long.toString(world.itemOf(round, labA)));
             }
+            if (resolved.contains("{documentId}") || resolved.contains("{commentId}")) {
+                // a final laboratory report of laboratory A in the round, and A's comment on it
+                byte[] bytes = World.unique("document").getBytes(java.nio.charset.StandardCharsets.UTF_8);
+                long document = world.insert("INSERT INTO issued_document (report_id, kind, status, round_id, laboratory_id, "
+                                + "content_type, bytes, sha256, issued_at, issued_by) VALUES (?, 'LABORATORY', 'FINAL', ?, ?, "
+                                + "'application/pdf', ?, ?, now(), 'matrix') RETURNING id", World.unique("MATRIX"), round, labA,
+                        bytes, org.roundtable.platform.Secrets.sha256Hex(bytes));
+                resolved = resolved.replace("{documentId}", Long.toString(document));
+                if (resolved.contains("{commentId}")) {
+                    long comment = world.insert("INSERT INTO report_comment (round_id, document_id, laboratory_id, "
+                            + "participant_code, body, written_by, written_at) VALUES (?, ?, ?, 'MATRIX', 'A comment', "
+                            + "'matrix', now()) RETURNING id", round, document, labA);
+                    resolved = resolved.replace("{commentId}", Long.toString(comment));
+                }
+            }
         }
         if (resolved.contains("{")) {
             throw new IllegalStateException("no resolver for a placeholder in " + path + "; add one to AuthorizationMatrixTest");

@@ -7,6 +7,7 @@ import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.Locale;
 import org.roundtable.report.SampleRoundBuilder;
+import org.roundtable.report.model.LaboratoryReport;
 import org.roundtable.report.model.RoundReport;
 import org.roundtable.report.render.PdfReportRenderer;
 import org.roundtable.report.render.RenderProgress;
@@ -42,9 +43,15 @@ public final class ReportPdfBenchmark {
         RoundReport large = SampleRoundBuilder.synthetic(1000, 50).build();
         double smallSeconds = time("30 labs x 50 measurands", small, WARMUPS, RUNS);
         double largeSeconds = time("1000 labs x 50 measurands", large, 1, RUNS);
+        // issuing a round renders one laboratory report per participant besides the round report
+        String code = large.measurands().get(0).results().get(0).participantCode();
+        long start = System.nanoTime();
+        new PdfReportRenderer().render(new LaboratoryReport(large, code), OutputStream.nullOutputStream(), RenderProgress.NONE);
+        double laboratorySeconds = (System.nanoTime() - start) / 1e9;
+        System.out.printf(Locale.ROOT, "one laboratory report of the 1000 x 50 round: %.3f s wall (one run)%n", laboratorySeconds);
         Files.createDirectories(output.toAbsolutePath().getParent());
-        String json = String.format(Locale.ROOT, "{\"smallPdfSeconds\": %.3f, \"largePdfSeconds\": %.3f}%n",
-                smallSeconds, largeSeconds);
+        String json = String.format(Locale.ROOT, "{\"smallPdfSeconds\": %.3f, \"largePdfSeconds\": %.3f, "
+                        + "\"largeLaboratoryPdfSeconds\": %.3f}%n", smallSeconds, largeSeconds, laboratorySeconds);
         Files.writeString(output, json, StandardCharsets.UTF_8);
         System.out.print(json);
     }

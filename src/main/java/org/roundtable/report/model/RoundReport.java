@@ -50,7 +50,9 @@ public record RoundReport(ReportIdentity identity, SchemeInfo scheme, RoundInfo 
                 throw new IllegalArgumentException("pair refers to an unknown measurand: " + p);
             }
         }
-        if (scheme.secondReviewerRequired() && signatures.secondReviewer() == null) {
+        // a preliminary report is issued before sign-off; final and amended reports carry every signature
+        if (scheme.secondReviewerRequired() && signatures.secondReviewer() == null
+                && identity.status() != ReportStatus.PRELIMINARY) {
             throw new IllegalArgumentException("the scheme requires a second reviewer");
         }
     }

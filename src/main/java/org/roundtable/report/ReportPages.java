@@ -1,0 +1,163 @@
+package org.roundtable.report;
+
+import io.quarkus.qute.CheckedTemplate;
+import io.quarkus.qute.TemplateInstance;
+import jakarta.annotation.security.RolesAllowed;
+import jakarta.ws.rs.Consumes;
+import jakarta.ws.rs.FormParam;
+import jakarta.ws.rs.GET;
+import jakarta.ws.rs.POST;
+import jakarta.ws.rs.Path;
+import jakarta.ws.rs.PathParam;
+import jakarta.ws.rs.Produces;
+import jakarta.ws.rs.core.MediaType;
+import jakarta.ws.rs.core.Response;
+import org.roundtable.account.Role;
+import org.roundtable.platform.DomainException;
+import org.roundtable.platform.FormActions;
+
+import java.util.List;
+
+/**
+ * Pages of a round's reports: the coordinators' page (issue preliminary from a chosen run, comment period, answers,
+ * sign-off, final, amendment, documents with SHA-256 and the issue jobs' progress), the laboratory's page (its
+ * downloads, comments and answers) and the auditor's page (final and amended reports, granted laboratories'
+ * reports). Every action is a POST form with the CSRF token handled by {@link ReportLifecycle}.
+ */
+@Path("/")
+@Produces(MediaType.TEXT_HTML)
+public class ReportPages {
+
+    @CheckedTemplate(basePath = "report")
+    static class Templates {
+        static native TemplateInstance roundReports(ReportLifecycle.Overview overview, String error, String message);
+
+        static native TemplateInstance myReports(ReportLifecycle.LaboratoryView view, String error, String message);
+
+        static native TemplateInstance auditorReports(List<ReportLifecycle.AuditorRound> rounds);
+    }
+
+    private final ReportLifecycle lifecycle;
+
+    public ReportPages(ReportLifecycle lifecycle) {
+        this.lifecycle = lifecycle;
+    }
+
+    // ---- coordinators ------------------------------------------------------------------------------------
+
+    @GET
+    @Path("rounds/{roundId}/reports")
+    @RolesAllowed(Role.COORDINATOR_NAME)
+    public TemplateInstance roundReports(@PathParam("roundId") long roundId) {
+        return Templates.roundReports(lifecycle.overview(roundId), null, null);
+    }
+
+    @POST
+    @Path("rounds/{roundId}/reports/preliminary")
+    @RolesAllowed(Role.COORDINATOR_NAME)
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response preliminary(@PathParam("roundId") long roundId, @FormParam("version") String version,
+                                @FormParam("comments") String comments) {
+        return coordinator(roundId, () -> lifecycle.requestPreliminary(roundId,
+                        new ReportLifecycle.IssueRequest(number(version), comments, null)),
+                "The preliminary reports are being issued; this page shows the job's progress.");
+    }
+
+    @POST
+    @Path("rounds/{roundId}/reports/comment-period")
+    @RolesAllowed(Role.COORDINATOR_NAME)
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response commentPeriod(@PathParam("roundId") long roundId) {
+        return coordinator(roundId, () -> {
+            lifecycle.openCommentPeriod(roundId);
+            return null;
+        }, "The comment period is open: laboratories may comment on the preliminary report.");
+    }
+
+    @POST
+    @Path("rounds/{roundId}/reports/comments/{commentId}/answers")
+    @RolesAllowed(Role.COORDINATOR_NAME)
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response answer(@PathParam("roundId") long roundId, @PathParam("commentId") long commentId,
+                           @FormParam("body") String body) {
+        return coordinator(roundId, () -> lifecycle.answer(roundId, commentId, new ReportLifecycle.TextRequest(body)),
+                "Answer kept.");
+    }
+
+    @POST
+    @Path("rounds/{roundId}/reports/sign-offs")
+    @RolesAllowed(Role.COORDINATOR_NAME)
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response signOff(@PathParam("roundId") long roundId, @FormParam("version") String version) {
+        return coordinator(roundId, () -> lifecycle.signOff(roundId, new ReportLifecycle.SignOffRequest(number(version))),
+                "Signed off.");
+    }
+
+    @POST
+    @Path("rounds/{roundId}/reports/final")
+    @RolesAllowed(Role.COORDINATOR_NAME)
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response issueFinal(@PathParam("roundId") long roundId, @FormParam("comments") String comments) {
+        return coordinator(roundId, () -> lifecycle.requestFinal(roundId,
+                new ReportLifecycle.IssueRequest(null, comments, null)), "The final reports are being issued.");
+    }
+
+    @POST
+    @Path("rounds/{roundId}/reports/amendments")
+    @RolesAllowed(Role.COORDINATOR_NAME)
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response amend(@PathParam("roundId") long roundId, @FormParam("version") String version,
+                          @FormParam("reason") String reason, @FormParam("comments") String comments) {
+        return coordinator(roundId, () -> lifecycle.requestAmendment(roundId,
+                new ReportLifecycle.IssueRequest(number(version), comments, reason)), "The amended reports are being issued.");
+    }
+
+    // ---- laboratories ------------------------------------------------------------------------------------
+
+    @GET
+    @Path("my-rounds/{roundId}/reports")
+    @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
+    public TemplateInstance myReports(@PathParam("roundId") long roundId) {
+        return Templates.myReports(lifecycle.forLaboratory(roundId), null, null);
+    }
+
+    @POST
+    @Path("my-rounds/{roundId}/reports/comments")
+    @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response comment(@PathParam("roundId") long roundId, @FormParam("body") String body) {
+        return FormActions.attempt(() -> {
+            lifecycle.comment(roundId, new ReportLifecycle.TextRequest(body));
+            return Templates.myReports(lifecycle.forLaboratory(roundId), null, "Comment sent to the coordinators.");
+        }, e -> Templates.myReports(lifecycle.forLaboratory(roundId), e, null));
+    }
+
+    // ---- auditors ----------------------------------------------------------------------------------------
+
+    @GET
+    @Path("auditor/reports")
+    @RolesAllowed(Role.AUDITOR_NAME)
+    public TemplateInstance auditorReports() {
+        return Templates.auditorReports(lifecycle.forAuditor());
+    }
+
+    // ---- internals ---------------------------------------------------------------------------------------
+
+    private Response coordinator(long roundId, java.util.function.Supplier<Object> action, String message) {
+        return FormActions.attempt(() -> {
+            action.get();
+            return Templates.roundReports(lifecycle.overview(roundId), null, message);
+        }, e -> Templates.roundReports(lifecycle.overview(roundId), e, null));
+    }
+
+    private static Integer number(String text) {
+        if (text == null || text.isBlank()) {
+            return null;
+        }
+        try {
+            return Integer.valueOf(text.strip());
+        } catch (NumberFormatException e) {
+            throw new DomainException.BadRequest("The evaluation run is given by its version number.");
+        }
+    }
+}
