@@ -7,6 +7,7 @@ import org.junit.jupiter.api.BeforeAll;
 import org.junit.jupiter.api.Test;
 
 import static com.tngtech.archunit.lang.syntax.ArchRuleDefinition.noClasses;
+import static com.tngtech.archunit.library.dependencies.SlicesRuleDefinition.slices;
 
 /** The layout rules of the contributor guide, checked on the compiled classes. */
 class ArchitectureTest {
@@ -25,5 +26,20 @@ class ArchitectureTest {
         noClasses().that().resideOutsideOfPackages("org.roundtable.web..", "org.roundtable")
                 .should().dependOnClassesThat().resideInAPackage("org.roundtable.web..")
                 .check(classes);
+    }
+
+    @Test
+    void evaluationDoesNotDependOnTheReports() {
+        // reports are drawn from evaluations, never the other way round: what has been published is asked
+        // through evaluation.PublishedRuns, which the report feature implements
+        noClasses().that().resideInAPackage("org.roundtable.evaluation..")
+                .should().dependOnClassesThat().resideInAPackage("org.roundtable.report..")
+                .check(classes);
+    }
+
+    @Test
+    void theStatisticsAndTheReportRenderingFormNoCycles() {
+        slices().matching("org.roundtable.report.(*)..").should().beFreeOfCycles().check(classes);
+        slices().matching("org.roundtable.statistics.(*)..").should().beFreeOfCycles().check(classes);
     }
 }

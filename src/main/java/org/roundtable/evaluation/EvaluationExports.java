@@ -8,7 +8,6 @@ import org.roundtable.account.Role;
 import org.roundtable.platform.CsvText;
 import org.roundtable.platform.DomainException;
 import org.roundtable.platform.Secrets;
-import org.roundtable.report.ReportVisibility;
 import org.roundtable.scheme.RoundAccess;
 
 import java.math.BigDecimal;
@@ -31,8 +30,8 @@ import java.util.function.Function;
  *   <li>coordinators: any run, previews included ({@link #runResults}, {@link #runEvaluateInput}), and the
  *       published run;</li>
  *   <li>laboratories enrolled in the round: the run of the latest issued round report, from the preliminary
- *       issue on ({@link ReportVisibility#forLaboratories}), everyone's results under participant codes only;</li>
- *   <li>auditors: the run of the latest final or amended round report ({@link ReportVisibility#forAuditors}).</li>
+ *       issue on ({@link PublishedRuns#forLaboratories}), everyone's results under participant codes only;</li>
+ *   <li>auditors: the run of the latest final or amended round report ({@link PublishedRuns#forAuditors}).</li>
  * </ul>
  * Anything a caller may not read answers exactly like a missing round (404). No export carries a laboratory's
  * identity: participants appear by participant code.
@@ -115,11 +114,11 @@ public class EvaluationExports {
     private final EntityManager entityManager;
     private final EvaluationService evaluations;
     private final RoundAccess rounds;
-    private final ReportVisibility visibility;
+    private final PublishedRuns visibility;
     private final CurrentUser currentUser;
 
     public EvaluationExports(EntityManager entityManager, EvaluationService evaluations, RoundAccess rounds,
-                             ReportVisibility visibility, CurrentUser currentUser) {
+                             PublishedRuns visibility, CurrentUser currentUser) {
         this.entityManager = entityManager;
         this.evaluations = evaluations;
         this.rounds = rounds;
@@ -146,15 +145,15 @@ public class EvaluationExports {
     /** Results of the published run, as the caller may read them (else 404 as for a missing round). */
     @Transactional
     public ResultsExport publishedResults(long roundId) {
-        ReportVisibility.PublishedEvaluation published = readable(roundId);
+        PublishedRuns.Published published = readable(roundId);
         return results(roundId, evaluations.run(roundId, published.version()),
-                new Publication(published.reportId(), published.status().name()));
+                new Publication(published.reportId(), published.status()));
     }
 
     /** The inputs of the published run in the {@code evaluate} format, as the caller may read them. */
     @Transactional
     public EvaluateInput publishedEvaluateInput(long roundId) {
-        ReportVisibility.PublishedEvaluation published = readable(roundId);
+        PublishedRuns.Published published = readable(roundId);
         return evaluateInput(roundId, evaluations.run(roundId, published.version()));
     }
 
@@ -167,7 +166,7 @@ public class EvaluationExports {
         long laboratoryId = currentUser.requireLaboratoryId();
         String code = rounds.participantCode(roundId, laboratoryId)
                 .orElseThrow(() -> new DomainException.NotFound(HIDDEN));
-        ReportVisibility.PublishedEvaluation published = visibility.forLaboratories(roundId)
+        PublishedRuns.Published published = visibility.forLaboratories(roundId)
                 .orElseThrow(() -> new DomainException.NotFound(HIDDEN));
         EvaluationViews.Run run = evaluations.run(roundId, published.version());
         List<OwnScore> scores = new ArrayList<>();
@@ -181,12 +180,12 @@ public class EvaluationExports {
             }
         }
         return new OwnScores(roundId, rounds.window(roundId).roundCode(), code, published.version(),
-                published.reportId(), published.status().name(), scores);
+                published.reportId(), published.status(), scores);
     }
 
     /** Which published run the caller may read; everything else is "not found", like a missing round. */
-    private ReportVisibility.PublishedEvaluation readable(long roundId) {
-        Optional<ReportVisibility.PublishedEvaluation> published;
+    private PublishedRuns.Published readable(long roundId) {
+        Optional<PublishedRuns.Published> published;
         if (currentUser.is(Role.COORDINATOR)) {
             published = visibility.forLaboratories(roundId);
         } else if (currentUser.is(Role.AUDITOR)) {

@@ -450,7 +450,7 @@ public class ReportLifecycle {
         Signatures signatures = QuarkusTransaction.requiringNew().call(() -> signatures(row, today));
         String replaces = null;
         if (row.status() == ReportStatus.AMENDED) {
-            replaces = visibility.forAuditors(row.roundId()).map(ReportVisibility.PublishedEvaluation::reportId)
+            replaces = visibility.latestForAuditors(row.roundId()).map(ReportVisibility.PublishedEvaluation::reportId)
                     .orElseThrow(() -> new DomainException.Conflict("There is no final report to amend."));
         }
         ReportIdentity identity = new ReportIdentity(row.roundReportId(), row.status(), replaces, row.reason(), today,

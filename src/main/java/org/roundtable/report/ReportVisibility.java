@@ -3,6 +3,7 @@ package org.roundtable.report;
 import jakarta.enterprise.context.ApplicationScoped;
 import jakarta.persistence.EntityManager;
 import jakarta.transaction.Transactional;
+import org.roundtable.evaluation.PublishedRuns;
 import org.roundtable.report.model.ReportStatus;
 
 import java.util.List;
@@ -21,7 +22,7 @@ import java.util.Optional;
  * it with the laboratory's own identity or an auditor's grant.
  */
 @ApplicationScoped
-public class ReportVisibility {
+public class ReportVisibility implements PublishedRuns {
 
     /**
      * The evaluation run an issued round report made visible.
@@ -44,14 +45,30 @@ public class ReportVisibility {
 
     /** What laboratories of the round may read: scores and reports from the preliminary issue on. */
     @Transactional
-    public Optional<PublishedEvaluation> forLaboratories(long roundId) {
+    public Optional<PublishedEvaluation> latestForLaboratories(long roundId) {
         return latest(roundId, List.of(ReportStatus.PRELIMINARY, ReportStatus.FINAL, ReportStatus.AMENDED));
     }
 
     /** What auditors may read: final and amended reports only. */
     @Transactional
-    public Optional<PublishedEvaluation> forAuditors(long roundId) {
+    public Optional<PublishedEvaluation> latestForAuditors(long roundId) {
         return latest(roundId, List.of(ReportStatus.FINAL, ReportStatus.AMENDED));
+    }
+
+    @Override
+    @Transactional
+    public Optional<Published> forLaboratories(long roundId) {
+        return latestForLaboratories(roundId).map(ReportVisibility::published);
+    }
+
+    @Override
+    @Transactional
+    public Optional<Published> forAuditors(long roundId) {
+        return latestForAuditors(roundId).map(ReportVisibility::published);
+    }
+
+    private static Published published(PublishedEvaluation p) {
+        return new Published(p.reportId(), p.status().name(), p.evaluationRunId(), p.version());
     }
 
     private Optional<PublishedEvaluation> latest(long roundId, List<ReportStatus> statuses) {
