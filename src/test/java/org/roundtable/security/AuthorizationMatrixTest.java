@@ -67,6 +67,9 @@ class AuthorizationMatrixTest {
     @Inject
     org.roundtable.evaluation.EvaluationService evaluations;
 
+    @Inject
+    org.roundtable.evaluation.EvaluationJobs evaluationJobs;
+
     private long labA;
     private long labB;
 
@@ -273,6 +276,11 @@ class AuthorizationMatrixTest {
                 int version = evaluations.run(round, true, new org.roundtable.audit.Actor("matrix", "coordinator", null))
                         .run().version();
                 resolved = resolved.replace("{version}", Integer.toString(version));
+            }
+            if (resolved.contains("{jobId}")) {
+                long job = evaluationJobs.start(round, true, new org.roundtable.audit.Actor("matrix", "coordinator", null))
+                        .jobId();
+                resolved = resolved.replace("{jobId}", Long.toString(job));
             }
             if (resolved.contains("{itemId}")) {
                 resolved = resolved.replace("{itemId}", Long.toString(world.itemOf(round, labA)));
