@@ -46,13 +46,15 @@ import java.util.TreeSet;
  *   <li>the current results are streamed out with {@code COPY (SELECT …) TO STDOUT} in the order the run evaluates
  *       them (plan order of the measurands, then item), and one measurand of one item at a time is handed to the
  *       per-measurand step ({@link Step}); never more than one measurand's results are held;</li>
- *   <li>each measurand's scores go straight to a spill file in {@code COPY} text format, the inputs text of its
- *       results to another (the inputs hash is defined on the results in element, item, participant code order,
- *       which is not the plan's order), and its outcome JSON straight into the outputs digest;</li>
- *   <li>at the end the run row is inserted with both hashes, the spilled scores are copied in with
- *       {@code COPY participant_score FROM STDIN}, and the measurand rows (one per measurand and item) are
- *       inserted in one batch.</li>
+ *   <li>each measurand's scores go straight to a spill in binary {@code COPY} format (doubles as their 8 bytes,
+ *       exact), the inputs text of its results to another (the inputs hash is defined on the results in element,
+ *       item, participant code order, which is not the plan's order), and its outcome JSON straight into the outputs
+ *       digest (the same bytes as the canonical JSON of the whole outcome list);</li>
+ *   <li>at the end the run row is inserted with both hashes (under the id drawn from its sequence at the start, which
+ *       the spilled score rows carry), the scores are copied in with {@code COPY participant_score FROM STDIN
+ *       (FORMAT binary)}, and the measurand rows (one per measurand and item) are inserted in one batch.</li>
  * </ol>
+ * Spills stay in memory up to 4 MiB and go to a temporary file beyond; they are deleted when the run ends.
  * Nothing is written to the database before the hashes are known (the run row is append-only and its scores
  * reference it), so a failure anywhere leaves nothing behind once the caller's transaction rolls back.
  */
@@ -112,16 +114,18 @@ public final class RoundEvaluator {
             throws SQLException {
         try {
             Set<String> items = new TreeSet<>(context.itemLabels());
-            Evaluation evaluation = evaluate(connection, context, items, step, progress);
+            // the run's id first: the score rows carry it, and they are spilled before the run row can be written
+            long runId = nextRunId(connection);
+            Evaluation evaluation = evaluate(connection, context, items, step, progress, runId);
             if (evaluation.unknownItem()) {
                 // a result for an item the round does not list (the intake refuses them, so this does not happen):
                 // the run evaluates every item found in the results, which needs them all before the first one
                 evaluation.close();
                 items.addAll(itemsInResults(connection, context.roundId()));
-                evaluation = evaluate(connection, context, items, step, progress);
+                evaluation = evaluate(connection, context, items, step, progress, runId);
             }
             try (Evaluation done = evaluation) {
-                return store(connection, context, header, done);
+                return store(connection, context, header, done, runId);
             }
         } catch (IOException e) {
             throw new UncheckedIOException(e);
@@ -129,7 +133,7 @@ public final class RoundEvaluator {
     }
 
     /** The query whose rows are the run's inputs, in the order the run evaluates them. */
-    static String resultsQuery(long roundId, List<String> planOrder) {
+    public static String resultsQuery(long roundId, List<String> planOrder) {
         StringBuilder elements = new StringBuilder("ARRAY[");
         for (int i = 0; i < planOrder.size(); i++) {
             elements.append(i == 0 ? "" : ",").append('\'').append(planOrder.get(i).replace("'", "''")).append('\'');
@@ -159,6 +163,7 @@ public final class RoundEvaluator {
         final List<EvaluationViews.MeasurandOutcome> measurands = new ArrayList<>();
         /** Inputs text segments by element and item, in the order they were read. */
         final Map<List<String>, long[]> segments = new LinkedHashMap<>();
+        final Bytes line = new Bytes(256);
         long scoreRows;
         boolean unknownItem;
 
@@ -182,7 +187,7 @@ public final class RoundEvaluator {
     }
 
     private static Evaluation evaluate(Connection connection, Context context, Set<String> items, Step step,
-                                       Progress progress) throws SQLException, IOException {
+                                       Progress progress, long runId) throws SQLException, IOException {
         List<String> planOrder = context.measurands().stream().map(p -> p.plan().element()).toList();
         int total = context.measurands().size() * items.size();
         progress.report(0, total);
@@ -206,11 +211,11 @@ public final class RoundEvaluator {
                             ok = true;
                             return evaluation;
                         }
-                        spillInputs(evaluation, element, item, rows);
+                        spillInputs(evaluation, element, item, rows, reader.lines());
                         EvaluationViews.MeasurandOutcome outcome = step.evaluate(planned.plan(), planned.unit(), item,
                                 rows);
                         CANONICAL.writeValue(json, outcome);
-                        evaluation.scoreRows += spillScores(evaluation.scores, outcome);
+                        evaluation.scoreRows += spillScores(evaluation.scores, outcome, runId);
                         evaluation.measurands.add(withoutScores(outcome));
                         progress.report(++done, total);
                     }
@@ -227,7 +232,7 @@ public final class RoundEvaluator {
             // results of measurands that are not evaluated (withdrawn or not planned) are inputs all the same
             List<EvaluationService.Row> rest;
             while ((rest = reader.anyGroup()) != null) {
-                spillInputs(evaluation, rest.get(0).element(), rest.get(0).itemLabel(), rest);
+                spillInputs(evaluation, rest.get(0).element(), rest.get(0).itemLabel(), rest, reader.lines());
             }
             ok = true;
             return evaluation;
@@ -266,80 +271,182 @@ public final class RoundEvaluator {
                 List.of());
     }
 
-    /** The inputs text of one group's results: the same lines the run has always hashed. */
+    /**
+     * The inputs text of one group's results: the same lines the run has always hashed. A line of COPY text without
+     * escapes is turned into its inputs line byte by byte (PostgreSQL writes numeric as the plain decimal string that
+     * {@link BigDecimal#toPlainString} gives); a line with escapes goes through the decoded row.
+     */
     private static void spillInputs(Evaluation evaluation, String element, String item,
-                                    List<EvaluationService.Row> rows) throws IOException {
+                                    List<EvaluationService.Row> rows, List<byte[]> lines) throws IOException {
         if (rows.isEmpty()) {
             return;
         }
-        StringBuilder text = new StringBuilder(rows.size() * 80);
-        for (EvaluationService.Row r : rows) {
-            text.append(r.laboratoryId()).append('\t').append(r.participantCode()).append('\t').append(r.element())
-                    .append('\t').append(r.itemLabel()).append('\t').append(r.reported()).append('\t')
-                    .append(r.value().toPlainString()).append('\t').append(r.lessThan()).append('\t')
-                    .append(r.expandedUncertainty() == null ? "" : r.expandedUncertainty().toPlainString())
-                    .append('\t')
-                    .append(r.coverageFactor() == null ? "" : r.coverageFactor().toPlainString()).append('\t')
-                    .append(r.methodGroup()).append('\t').append(r.late()).append('\n');
-        }
-        byte[] bytes = text.toString().getBytes(StandardCharsets.UTF_8);
         long offset = evaluation.inputs.size();
-        evaluation.inputs.write(bytes, 0, bytes.length);
-        evaluation.segments.put(List.of(element, item), new long[]{offset, bytes.length});
+        Bytes out = evaluation.line;
+        for (int n = 0; n < rows.size(); n++) {
+            byte[] line = lines.get(n);
+            out.clear();
+            if (!inputsLine(line, out)) {
+                EvaluationService.Row r = rows.get(n);
+                out.clear();
+                out.text(r.laboratoryId() + "\t" + r.participantCode() + "\t" + r.element() + "\t" + r.itemLabel()
+                        + "\t" + r.reported() + "\t" + r.value().toPlainString() + "\t" + r.lessThan() + "\t"
+                        + (r.expandedUncertainty() == null ? "" : r.expandedUncertainty().toPlainString()) + "\t"
+                        + (r.coverageFactor() == null ? "" : r.coverageFactor().toPlainString()) + "\t"
+                        + r.methodGroup() + "\t" + r.late() + "\n");
+            }
+            evaluation.inputs.write(out.bytes, 0, out.length);
+        }
+        evaluation.segments.put(List.of(element, item), new long[]{offset, evaluation.inputs.size() - offset});
     }
 
-    /** One measurand's score rows in COPY text format, without the run id (added when copied in). */
-    private static int spillScores(Spill spill, EvaluationViews.MeasurandOutcome o) throws IOException {
-        StringBuilder line = new StringBuilder(256);
+    private static final byte[] TRUE = "true".getBytes(StandardCharsets.US_ASCII);
+    private static final byte[] FALSE = "false".getBytes(StandardCharsets.US_ASCII);
+
+    /** The inputs line of a COPY text line of {@link #resultsQuery}; false when the line has escapes. */
+    static boolean inputsLine(byte[] line, Bytes out) {
+        int end = line.length;
+        if (end > 0 && line[end - 1] == '\n') {
+            end--;
+        }
+        int field = 0;
+        int start = 0;
+        for (int i = 0; i <= end; i++) {
+            if (i < end && line[i] == '\\') {
+                if (i != start || !(i + 2 == end || line[i + 2] == '\t') || line[i + 1] != 'N'
+                        || (field != 7 && field != 8)) {
+                    return false;
+                }
+            }
+            if (i == end || line[i] == '\t') {
+                int length = i - start;
+                switch (field) {
+                    case 6, 10 -> out.raw(line[start] == 't' ? TRUE : FALSE);
+                    case 7, 8 -> {
+                        if (!(length == 2 && line[start] == '\\')) {
+                            out.raw(line, start, length);
+                        }
+                    }
+                    default -> out.raw(line, start, length);
+                }
+                out.raw(field == 10 ? (byte) '\n' : (byte) '\t');
+                field++;
+                start = i + 1;
+            }
+        }
+        return field == 11;
+    }
+
+    /**
+     * One measurand's score rows in PostgreSQL's binary COPY format: doubles go as their 8 bytes, exactly, with no
+     * decimal conversion on either side.
+     */
+    private static int spillScores(Spill spill, EvaluationViews.MeasurandOutcome o, long runId) throws IOException {
+        Bytes row = new Bytes(256);
         int position = 0;
         for (EvaluationViews.Score s : o.scores()) {
-            line.setLength(0);
-            text(line, o.element()).append('\t');
-            text(line, o.itemLabel()).append('\t');
-            line.append(s.laboratoryId()).append('\t').append(position++).append('\t');
-            text(line, s.participantCode()).append('\t');
-            text(line, s.reported()).append('\t');
-            text(line, s.methodGroup()).append('\t');
-            number(line, s.value()).append('\t');
-            number(line, s.z()).append('\t');
-            number(line, s.zPrime()).append('\t');
-            number(line, s.zeta()).append('\t');
-            number(line, s.en()).append('\t');
-            text(line, s.classification()).append('\t');
-            text(line, s.excludedReason()).append('\n');
-            byte[] bytes = line.toString().getBytes(StandardCharsets.UTF_8);
-            spill.write(bytes, 0, bytes.length);
+            row.clear();
+            row.int16(15);
+            row.int32(8).int64(runId);
+            row.utf8(o.element());
+            row.utf8(o.itemLabel());
+            row.int32(8).int64(s.laboratoryId());
+            row.int32(4).int32(position++);
+            row.utf8(s.participantCode());
+            row.utf8(s.reported());
+            row.utf8(s.methodGroup());
+            row.float8(s.value());
+            row.float8(s.z());
+            row.float8(s.zPrime());
+            row.float8(s.zeta());
+            row.float8(s.en());
+            row.utf8(s.classification());
+            row.utf8(s.excludedReason());
+            spill.write(row.bytes, 0, row.length);
         }
         return position;
     }
 
-    /** A double in its exact round-trip form ({@code Double.toString}, which PostgreSQL reads back exactly). */
-    private static StringBuilder number(StringBuilder line, Double value) {
-        return value == null ? line.append("\\N") : line.append(Double.toString(value));
-    }
+    /** A growable byte buffer with the field encodings of binary COPY. */
+    static final class Bytes {
+        byte[] bytes;
+        int length;
 
-    /** A string escaped for COPY text format. */
-    private static StringBuilder text(StringBuilder line, String value) {
-        if (value == null) {
-            return line.append("\\N");
+        Bytes(int capacity) {
+            bytes = new byte[capacity];
         }
-        for (int i = 0; i < value.length(); i++) {
-            char c = value.charAt(i);
-            switch (c) {
-                case '\\' -> line.append("\\\\");
-                case '\t' -> line.append("\\t");
-                case '\n' -> line.append("\\n");
-                case '\r' -> line.append("\\r");
-                default -> line.append(c);
+
+        void clear() {
+            length = 0;
+        }
+
+        private void room(int more) {
+            if (length + more > bytes.length) {
+                bytes = java.util.Arrays.copyOf(bytes, Math.max(bytes.length * 2, length + more));
             }
         }
-        return line;
+
+        Bytes raw(byte b) {
+            room(1);
+            bytes[length++] = b;
+            return this;
+        }
+
+        Bytes raw(byte[] b) {
+            return raw(b, 0, b.length);
+        }
+
+        Bytes raw(byte[] b, int offset, int count) {
+            room(count);
+            System.arraycopy(b, offset, bytes, length, count);
+            length += count;
+            return this;
+        }
+
+        Bytes text(String s) {
+            return raw(s.getBytes(StandardCharsets.UTF_8));
+        }
+
+        Bytes int16(int v) {
+            return raw((byte) (v >>> 8)).raw((byte) v);
+        }
+
+        Bytes int32(int v) {
+            return int16(v >>> 16).int16(v);
+        }
+
+        Bytes int64(long v) {
+            return int32((int) (v >>> 32)).int32((int) v);
+        }
+
+        /** A float8 field (length and value), or a NULL field. */
+        Bytes float8(Double v) {
+            return v == null ? int32(-1) : int32(8).int64(Double.doubleToRawLongBits(v));
+        }
+
+        /** A text field in UTF-8 (length and bytes), or a NULL field. */
+        Bytes utf8(String s) {
+            if (s == null) {
+                return int32(-1);
+            }
+            byte[] b = s.getBytes(StandardCharsets.UTF_8);
+            return int32(b.length).raw(b);
+        }
     }
 
     // ---- storing -------------------------------------------------------------------------------------------
 
-    private static Result store(Connection connection, Context context, Header header, Evaluation evaluation)
-            throws SQLException, IOException {
+    private static long nextRunId(Connection connection) throws SQLException {
+        try (PreparedStatement s = connection.prepareStatement(
+                "SELECT nextval(pg_get_serial_sequence('evaluation_run', 'id'))");
+             ResultSet rs = s.executeQuery()) {
+            rs.next();
+            return rs.getLong(1);
+        }
+    }
+
+    private static Result store(Connection connection, Context context, Header header, Evaluation evaluation,
+                                long runId) throws SQLException, IOException {
         String inputsSha = inputsSha256(connection, context, evaluation);
         String outputsSha = HexFormat.of().formatHex(evaluation.outputs.digest());
         int version;
@@ -351,14 +458,14 @@ public final class RoundEvaluator {
                 version = rs.getInt(1) + 1;
             }
         }
-        long runId;
         try (PreparedStatement s = connection.prepareStatement("""
-                INSERT INTO evaluation_run (round_id, version, preview, round_state, plan_version, plan_sha256,
+                INSERT INTO evaluation_run (id, round_id, version, preview, round_state, plan_version, plan_sha256,
                     inputs_sha256, outputs_sha256, code_version, created_by, created_at)
-                VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)
-                RETURNING id
+                OVERRIDING SYSTEM VALUE
+                VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)
                 """)) {
             int i = 1;
+            s.setLong(i++, runId);
             s.setLong(i++, context.roundId());
             s.setInt(i++, version);
             s.setBoolean(i++, header.preview());
@@ -370,43 +477,33 @@ public final class RoundEvaluator {
             s.setString(i++, header.codeVersion());
             s.setString(i++, header.createdBy());
             s.setObject(i, header.createdAt());
-            try (ResultSet rs = s.executeQuery()) {
-                rs.next();
-                runId = rs.getLong(1);
-            }
+            s.executeUpdate();
         }
-        copyScores(connection, runId, evaluation.scores);
+        copyScores(connection, evaluation.scores);
         storeMeasurands(connection, runId, evaluation.measurands);
         return new Result(runId, version, inputsSha, outputsSha, evaluation.measurands.size(), evaluation.scoreRows);
     }
 
-    /** Copies the spilled score rows in, each line with the run id in front. */
-    private static void copyScores(Connection connection, long runId, Spill scores) throws SQLException, IOException {
-        byte[] prefix = (runId + "\t").getBytes(StandardCharsets.US_ASCII);
-        try (InputStream in = scores.read();
-             PGCopyOutputStream copy = new PGCopyOutputStream(connection.unwrap(PGConnection.class), """
-                     COPY participant_score (run_id, element, item_label, laboratory_id, position, participant_code,
-                         reported, method_group, value, z, z_prime, zeta, en, classification, excluded_reason)
-                     FROM STDIN
-                     """, BUFFER)) {
-            byte[] buffer = new byte[BUFFER];
-            boolean lineStart = true;
-            int n;
-            while ((n = in.read(buffer)) > 0) {
-                int from = 0;
-                for (int i = 0; i < n; i++) {
-                    if (lineStart) {
-                        copy.write(prefix);
-                        lineStart = false;
-                    }
-                    if (buffer[i] == '\n') {
-                        copy.write(buffer, from, i + 1 - from);
-                        from = i + 1;
-                        lineStart = true;
-                    }
-                }
-                copy.write(buffer, from, n - from);
-            }
+    /** Binary COPY: signature, flags, header extension length. */
+    private static final byte[] COPY_HEADER = header();
+
+    private static byte[] header() {
+        Bytes b = new Bytes(19).raw("PGCOPY\n".getBytes(StandardCharsets.US_ASCII)).raw((byte) 0xFF).raw((byte) '\r')
+                .raw((byte) '\n').raw((byte) 0).int32(0).int32(0);
+        return java.util.Arrays.copyOf(b.bytes, b.length);
+    }
+    private static final byte[] COPY_TRAILER = {(byte) 0xFF, (byte) 0xFF};
+
+    /** Copies the spilled score rows in (binary COPY). */
+    private static void copyScores(Connection connection, Spill scores) throws SQLException, IOException {
+        try (InputStream in = new java.io.SequenceInputStream(java.util.Collections.enumeration(List.of(
+                new java.io.ByteArrayInputStream(COPY_HEADER), scores.read(),
+                new java.io.ByteArrayInputStream(COPY_TRAILER))))) {
+            connection.unwrap(PGConnection.class).getCopyAPI().copyIn("""
+                    COPY participant_score (run_id, element, item_label, laboratory_id, position, participant_code,
+                        reported, method_group, value, z, z_prime, zeta, en, classification, excluded_reason)
+                    FROM STDIN (FORMAT binary)
+                    """, in, BUFFER);
         }
     }
 
@@ -525,7 +622,9 @@ public final class RoundEvaluator {
     private static final class Reader {
         private final CopyOut out;
         private EvaluationService.Row next;
+        private byte[] nextLine;
         private boolean started;
+        private List<byte[]> lines = List.of();
 
         Reader(CopyOut out) {
             this.out = out;
@@ -539,15 +638,14 @@ public final class RoundEvaluator {
             return next;
         }
 
-        private EvaluationService.Row take() throws SQLException {
-            EvaluationService.Row row = peek();
-            next = read();
-            return row;
+        private EvaluationService.Row read() throws SQLException {
+            nextLine = out.readFromCopy();
+            return nextLine == null ? null : parse(nextLine);
         }
 
-        private EvaluationService.Row read() throws SQLException {
-            byte[] line = out.readFromCopy();
-            return line == null ? null : parse(line);
+        /** The COPY text lines of the last group returned, in its order. */
+        List<byte[]> lines() {
+            return lines;
         }
 
         /**
@@ -579,8 +677,11 @@ public final class RoundEvaluator {
 
         private List<EvaluationService.Row> groupOf(EvaluationService.Row first) throws SQLException {
             List<EvaluationService.Row> rows = new ArrayList<>();
+            lines = new ArrayList<>();
             while (next != null && next.element().equals(first.element()) && next.itemLabel().equals(first.itemLabel())) {
-                rows.add(take());
+                rows.add(next);
+                lines.add(nextLine);
+                next = read();
             }
             return rows;
         }
