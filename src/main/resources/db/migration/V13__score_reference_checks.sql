@@ -14,14 +14,13 @@ CREATE FUNCTION check_participant_score_references() RETURNS trigger
     LANGUAGE plpgsql AS
 $$
 BEGIN
-    IF EXISTS (SELECT 1 FROM (SELECT DISTINCT run_id FROM inserted) i
-                WHERE NOT EXISTS (SELECT 1 FROM evaluation_run r WHERE r.id = i.run_id)) THEN
-        RAISE EXCEPTION 'participant_score references an evaluation run that does not exist'
-            USING ERRCODE = 'foreign_key_violation';
-    END IF;
-    IF EXISTS (SELECT 1 FROM (SELECT DISTINCT laboratory_id FROM inserted) i
-                WHERE NOT EXISTS (SELECT 1 FROM laboratory l WHERE l.id = i.laboratory_id)) THEN
-        RAISE EXCEPTION 'participant_score references a laboratory that does not exist'
+    -- one pass over the inserted rows; then a lookup per distinct reference (a run's rows share one run id and
+    -- have as many laboratories as the round)
+    IF EXISTS (WITH refs AS MATERIALIZED (SELECT DISTINCT run_id, laboratory_id FROM inserted)
+               SELECT 1 FROM refs i
+                WHERE NOT EXISTS (SELECT 1 FROM evaluation_run r WHERE r.id = i.run_id)
+                   OR NOT EXISTS (SELECT 1 FROM laboratory l WHERE l.id = i.laboratory_id)) THEN
+        RAISE EXCEPTION 'participant_score references an evaluation run or a laboratory that does not exist'
             USING ERRCODE = 'foreign_key_violation';
     END IF;
     RETURN NULL;

@@ -36,6 +36,8 @@ import java.util.List;
 import java.util.Map;
 import java.util.Set;
 import java.util.TreeSet;
+import java.util.concurrent.ArrayBlockingQueue;
+import java.util.concurrent.BlockingQueue;
 
 /**
  * The I/O of an evaluation run on a plain JDBC connection, in the caller's transaction: what the server's
@@ -194,52 +196,227 @@ public final class RoundEvaluator {
         Evaluation evaluation = new Evaluation();
         CopyManager copy = connection.unwrap(PGConnection.class).getCopyAPI();
         CopyOut out = copy.copyOut("COPY (" + resultsQuery(context.roundId(), planOrder) + ") TO STDOUT");
-        Reader reader = new Reader(out);
+        // three stages that overlap: reading (and the inputs spill), evaluating (this thread), writing (outputs)
+        Prefetch groups = new Prefetch(new Reader(out), evaluation);
+        Writer writer = new Writer(evaluation, runId);
         boolean ok = false;
         try {
-            try (OutputStream digestStream = new DigestOutputStream(OutputStream.nullOutputStream(), evaluation.outputs);
-                 JsonGenerator json = CANONICAL.getFactory().createGenerator(digestStream, JsonEncoding.UTF8)) {
-                json.writeStartArray();
-                int done = 0;
-                for (Planned planned : context.measurands()) {
-                    String element = planned.plan().element();
-                    for (String item : items) {
-                        List<EvaluationService.Row> rows = reader.group(element, item);
-                        if (rows == null) {
-                            evaluation.unknownItem = true;
-                            reader.drain();
-                            ok = true;
-                            return evaluation;
-                        }
-                        spillInputs(evaluation, element, item, rows, reader.lines());
-                        EvaluationViews.MeasurandOutcome outcome = step.evaluate(planned.plan(), planned.unit(), item,
-                                rows);
-                        CANONICAL.writeValue(json, outcome);
-                        evaluation.scoreRows += spillScores(evaluation.scores, outcome, runId);
-                        evaluation.measurands.add(withoutScores(outcome));
-                        progress.report(++done, total);
-                    }
-                    if (reader.peekElement(element)) {
-                        // results of this element for an item after the last of the run's items
+            int done = 0;
+            measurands:
+            for (Planned planned : context.measurands()) {
+                String element = planned.plan().element();
+                for (String item : items) {
+                    List<EvaluationService.Row> rows = groups.group(element, item);
+                    if (rows == null) {
                         evaluation.unknownItem = true;
-                        reader.drain();
-                        ok = true;
-                        return evaluation;
+                        break measurands;
                     }
+                    writer.put(step.evaluate(planned.plan(), planned.unit(), item, rows));
+                    progress.report(++done, total);
                 }
-                json.writeEndArray();
+                if (groups.peekElement(element)) {
+                    // results of this element for an item after the last of the run's items
+                    evaluation.unknownItem = true;
+                    break;
+                }
             }
-            // results of measurands that are not evaluated (withdrawn or not planned) are inputs all the same
-            List<EvaluationService.Row> rest;
-            while ((rest = reader.anyGroup()) != null) {
-                spillInputs(evaluation, rest.get(0).element(), rest.get(0).itemLabel(), rest, reader.lines());
+            if (evaluation.unknownItem) {
+                groups.abort();
+                writer.abort();
+            } else {
+                // results of measurands that are not evaluated (withdrawn or not planned) are inputs all the same:
+                // the reader spills them as it goes
+                groups.finish();
+                writer.finish();
             }
             ok = true;
             return evaluation;
         } finally {
             if (!ok) {
+                groups.abort();
+                writer.abort();
                 evaluation.close();
-                reader.drain();
+            }
+        }
+    }
+
+    /** Reads the results on a thread of its own, a few groups ahead, and spills their inputs text. */
+    private static final class Prefetch {
+        private static final Object END = new Object();
+        private final BlockingQueue<Object> queue = new ArrayBlockingQueue<>(2);
+        private final Thread thread;
+        private volatile boolean stop;
+        private Object head;
+
+        record Group(String element, String item, List<EvaluationService.Row> rows) {
+        }
+
+        Prefetch(Reader reader, Evaluation evaluation) {
+            thread = new Thread(() -> {
+                Object last = END;
+                try {
+                    List<EvaluationService.Row> rows;
+                    while (!stop && (rows = reader.anyGroup()) != null) {
+                        String element = rows.get(0).element();
+                        String item = rows.get(0).itemLabel();
+                        spillInputs(evaluation, element, item, rows, reader.lines());
+                        queue.put(new Group(element, item, rows));
+                    }
+                } catch (Throwable e) {
+                    last = e;
+                }
+                try {
+                    reader.drain();
+                } catch (Throwable e) {
+                    last = last == END ? e : last;
+                }
+                try {
+                    queue.put(last);
+                } catch (InterruptedException e) {
+                    Thread.currentThread().interrupt();
+                }
+            }, "evaluation-reader");
+            thread.setDaemon(true);
+            thread.start();
+        }
+
+        private Group peek() throws SQLException {
+            if (head == null) {
+                head = take();
+            }
+            if (head instanceof SQLException e) {
+                throw e;
+            }
+            if (head instanceof Throwable t) {
+                throw new IllegalStateException("reading the results failed", t);
+            }
+            return head == END ? null : (Group) head;
+        }
+
+        private Object take() {
+            try {
+                return queue.take();
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+                throw new IllegalStateException("interrupted while reading the results", e);
+            }
+        }
+
+        /**
+         * The results of one element and item (empty when there are none), or null when the next results are of
+         * this element but of an item that is not evaluated (items come in the run's item order).
+         */
+        List<EvaluationService.Row> group(String element, String item) throws SQLException {
+            Group next = peek();
+            if (next == null || !next.element().equals(element)) {
+                return List.of();
+            }
+            if (!next.item().equals(item)) {
+                return next.item().compareTo(item) < 0 ? null : List.of();
+            }
+            head = null;
+            return next.rows();
+        }
+
+        boolean peekElement(String element) throws SQLException {
+            Group next = peek();
+            return next != null && next.element().equals(element);
+        }
+
+        /** Reads to the end (the reader spills the inputs of the groups nobody evaluates). */
+        void finish() throws SQLException {
+            while (peek() != null) {
+                head = null;
+            }
+            join();
+        }
+
+        /** Stops reading (cancelling the COPY) and waits for the reader. */
+        void abort() {
+            stop = true;
+            while (!(head == END || head instanceof Throwable)) {
+                head = take();
+            }
+            join();
+        }
+
+        private void join() {
+            try {
+                thread.join();
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+            }
+        }
+    }
+
+    /** Hashes and spills the outcomes on a thread of its own, in the order they were evaluated. */
+    private static final class Writer {
+        private static final Object END = new Object();
+        private final BlockingQueue<Object> queue = new ArrayBlockingQueue<>(2);
+        private final Thread thread;
+        private volatile Throwable error;
+        private boolean ended;
+
+        Writer(Evaluation evaluation, long runId) {
+            thread = new Thread(() -> {
+                try (OutputStream digestStream = new DigestOutputStream(OutputStream.nullOutputStream(),
+                        evaluation.outputs);
+                     JsonGenerator json = CANONICAL.getFactory().createGenerator(digestStream, JsonEncoding.UTF8)) {
+                    json.writeStartArray();
+                    Object next;
+                    while ((next = queue.take()) != END) {
+                        if (error == null) {
+                            try {
+                                EvaluationViews.MeasurandOutcome outcome = (EvaluationViews.MeasurandOutcome) next;
+                                CANONICAL.writeValue(json, outcome);
+                                evaluation.scoreRows += spillScores(evaluation.scores, outcome, runId);
+                                evaluation.measurands.add(withoutScores(outcome));
+                            } catch (Throwable e) {
+                                error = e;
+                            }
+                        }
+                    }
+                    if (error == null) {
+                        json.writeEndArray();
+                    }
+                } catch (Throwable e) {
+                    error = error == null ? e : error;
+                }
+            }, "evaluation-writer");
+            thread.setDaemon(true);
+            thread.start();
+        }
+
+        void put(EvaluationViews.MeasurandOutcome outcome) throws IOException {
+            if (error != null) {
+                throw new IOException("writing the outputs failed", error);
+            }
+            try {
+                queue.put(outcome);
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+                throw new IllegalStateException("interrupted while writing the outputs", e);
+            }
+        }
+
+        /** Waits for the last outcome to be written; rethrows what went wrong. */
+        void finish() throws IOException {
+            abort();
+            if (error != null) {
+                throw new IOException("writing the outputs failed", error);
+            }
+        }
+
+        void abort() {
+            if (ended) {
+                return;
+            }
+            ended = true;
+            try {
+                queue.put(END);
+                thread.join();
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
             }
         }
     }
@@ -646,27 +823,6 @@ public final class RoundEvaluator {
         /** The COPY text lines of the last group returned, in its order. */
         List<byte[]> lines() {
             return lines;
-        }
-
-        /**
-         * The results of one element and item (empty when there are none), or null when the next results are of
-         * this element but of an item that is not evaluated.
-         */
-        List<EvaluationService.Row> group(String element, String item) throws SQLException {
-            EvaluationService.Row first = peek();
-            if (first == null || !first.element().equals(element)) {
-                return List.of();
-            }
-            if (!first.itemLabel().equals(item)) {
-                // items come in the same order as the run's items; a smaller one is not among them
-                return first.itemLabel().compareTo(item) < 0 ? null : List.of();
-            }
-            return groupOf(first);
-        }
-
-        boolean peekElement(String element) throws SQLException {
-            EvaluationService.Row first = peek();
-            return first != null && first.element().equals(element);
         }
 
         /** The next group whatever its key, or null at the end. */

@@ -255,6 +255,22 @@ class EvaluationJobsTest {
     }
 
     @Test
+    void aScoreRowMustReferenceAnExistingRunAndLaboratory() {
+        long round = mixedRound(Round.LatePolicy.REFUSE);
+        long lab = world.laboratory();
+        evaluations.run(round, true, COORDINATOR);
+        long run = world.insert("SELECT id FROM evaluation_run WHERE round_id = ?", round);
+        String insert = "INSERT INTO participant_score (run_id, element, item_label, laboratory_id, position, "
+                + "participant_code, reported, method_group) VALUES (?, 'Cr', 'Z', ?, 0, 'TEST', '1', 'xrf')";
+
+        assertThatThrownBy(() -> world.sql(insert, 987654321L, lab)).isInstanceOf(IllegalStateException.class)
+                .hasStackTraceContaining("does not exist");
+        assertThatThrownBy(() -> world.sql(insert, run, 987654321L)).isInstanceOf(IllegalStateException.class)
+                .hasStackTraceContaining("does not exist");
+        world.sql(insert, run, lab);
+    }
+
+    @Test
     void aRunTheRoundDoesNotAllowIsRefusedBeforeAJobIsQueued() {
         long lab = world.laboratory();
         long round = world.round(RoundState.OPEN_FOR_RESULTS, lab);
