@@ -331,7 +331,7 @@ public final class RoundEvaluator {
             join();
         }
 
-        /** Stops reading (cancelling the COPY) and waits for the reader. */
+        /** Stops parsing (the rest is read and dropped) and waits for the reader. */
         void abort() {
             stop = true;
             while (!(head == END || head instanceof Throwable)) {
@@ -842,10 +842,15 @@ public final class RoundEvaluator {
             return rows;
         }
 
+        /**
+         * Reads the rest without parsing it. (Cancelling the COPY instead would fail the transaction and, as seen,
+         * leave the connection's protocol state confused.)
+         */
         void drain() throws SQLException {
-            if (out.isActive()) {
-                out.cancelCopy();
-            }
+            byte[] dropped;
+            do {
+                dropped = out.isActive() ? out.readFromCopy() : null;
+            } while (dropped != null);
         }
     }
 

@@ -149,19 +149,18 @@ class EvaluationJobsTest {
         return round;
     }
 
-    @Test
-    void theStreamedRunHasTheHashesAndOutputsOfTheRunThatHeldEverythingInMemory() {
-        long round = mixedRound(Round.LatePolicy.ACCEPT_FLAGGED_UNSCORED);
+    /** The inputs hash and outcomes as the run computed them before it streamed (all results in memory at once). */
+    private record Definition(String inputsSha256, List<EvaluationViews.MeasurandOutcome> outcomes, int results) {
+    }
 
-        EvaluationViews.Run run = evaluations.run(round, false, COORDINATOR);
-
-        // the definitions as the run computed them before it streamed: every result read at once (element, item,
-        // participant code order), grouped, evaluated in plan order and item order, hashed as one text / one JSON
+    private Definition earlierDefinition(long round, String latePolicy, boolean lateUnscored) {
+        // every result read at once (element, item, participant code order), grouped, evaluated in plan order and
+        // item order (the round's items and any item found in the results), hashed as one text / one JSON
         List<EvaluationService.Row> rows = QuarkusTransaction.requiringNew().call(() -> evaluations.currentResults(round));
         String planSha = world.text("SELECT sha256 FROM evaluation_plan WHERE round_id = ? AND plan_version = 2", round);
         StringBuilder inputs = new StringBuilder();
         inputs.append("round ").append(round).append('\n').append("plan ").append(2).append(' ').append(planSha)
-                .append('\n').append("late-policy ").append("ACCEPT_FLAGGED_UNSCORED").append('\n');
+                .append('\n').append("late-policy ").append(latePolicy).append('\n');
         for (EvaluationService.Row r : rows) {
             inputs.append(String.join("\t", Long.toString(r.laboratoryId()), r.participantCode(), r.element(),
                     r.itemLabel(), r.reported(), r.value().toPlainString(), Boolean.toString(r.lessThan()),
@@ -173,7 +172,8 @@ class EvaluationJobsTest {
         rows.forEach(r -> byMeasurand.computeIfAbsent(r.element() + "\u0000" + r.itemLabel(), k -> new ArrayList<>())
                 .add(r));
         Set<String> items = new TreeSet<>(List.of("A", "B"));
-        RoundEvaluator.Step step = evaluations.measurandStep(true);
+        rows.forEach(r -> items.add(r.itemLabel()));
+        RoundEvaluator.Step step = evaluations.measurandStep(lateUnscored);
         List<EvaluationViews.MeasurandOutcome> expected = new ArrayList<>();
         EvaluationPlan frozen = QuarkusTransaction.requiringNew().call(() -> plans.current(round).orElseThrow());
         for (EvaluationPlan.MeasurandPlan mp : frozen.measurands()) {
@@ -185,17 +185,45 @@ class EvaluationJobsTest {
                         byMeasurand.getOrDefault(mp.element() + "\u0000" + item, List.of())));
             }
         }
+        return new Definition(Secrets.sha256Hex(inputs.toString()), expected, rows.size());
+    }
 
-        assertThat(rows).hasSize(40);
-        assertThat(run.run().inputsSha256()).isEqualTo(Secrets.sha256Hex(inputs.toString()));
-        assertThat(run.measurands()).isEqualTo(expected);
-        assertThat(run.run().outputsSha256()).isEqualTo(EvaluationService.outputsSha256(expected));
+    @Test
+    void theStreamedRunHasTheHashesAndOutputsOfTheRunThatHeldEverythingInMemory() {
+        long round = mixedRound(Round.LatePolicy.ACCEPT_FLAGGED_UNSCORED);
+
+        EvaluationViews.Run run = evaluations.run(round, false, COORDINATOR);
+
+        Definition expected = earlierDefinition(round, "ACCEPT_FLAGGED_UNSCORED", true);
+        assertThat(expected.results()).isEqualTo(40);
+        assertThat(run.run().inputsSha256()).isEqualTo(expected.inputsSha256());
+        assertThat(run.measurands()).isEqualTo(expected.outcomes());
+        assertThat(run.run().outputsSha256()).isEqualTo(EvaluationService.outputsSha256(expected.outcomes()));
         assertThat(run.measurands()).extracting(m -> m.element() + m.itemLabel()).containsExactly("SiA", "SiB", "CrA",
                 "CrB");
         assertThat(run.measurands().get(1).censored()).isEqualTo(1);
         assertThat(run.measurands().get(0).excluded()).isEqualTo(1);
         assertThat(run.measurands().get(0).methodGroups()).extracting(EvaluationViews.MethodGroupStatistics::methodGroup)
                 .containsExactly("spark\\oes-ü", "xrf");
+    }
+
+    @Test
+    void aResultForAnItemTheRoundDoesNotListIsEvaluatedForEveryMeasurandAsBefore() {
+        long round = mixedRound(Round.LatePolicy.REFUSE);
+        // the intake refuses such results; written straight into the tables, the run still treats them as it did
+        long lab = world.laboratory();
+        world.insert("INSERT INTO round_participant (round_id, laboratory_id, participant_code, enrolled_at, "
+                + "enrolled_by) VALUES (?, ?, 'ZZZZ9', now(), 'test') RETURNING id", round, lab);
+        submit(round, lab, false, "Si C 0.31 - xrf");
+
+        EvaluationViews.Run run = evaluations.run(round, false, COORDINATOR);
+
+        Definition expected = earlierDefinition(round, "REFUSE", false);
+        assertThat(run.run().inputsSha256()).isEqualTo(expected.inputsSha256());
+        assertThat(run.measurands()).isEqualTo(expected.outcomes());
+        assertThat(run.run().outputsSha256()).isEqualTo(EvaluationService.outputsSha256(expected.outcomes()));
+        assertThat(run.measurands()).extracting(m -> m.element() + m.itemLabel()).containsExactly("SiA", "SiB", "SiC",
+                "CrA", "CrB", "CrC");
     }
 
     @Test
