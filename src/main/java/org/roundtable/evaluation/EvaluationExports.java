@@ -270,13 +270,14 @@ public class EvaluationExports {
     private EvaluateInput evaluateInput(long roundId, EvaluationViews.Run run) {
         EvaluationViews.RunSummary summary = run.run();
         Object[] stored = (Object[]) entityManager.createNativeQuery("""
-                SELECT id, plan_sha256 FROM evaluation_run WHERE round_id = :r AND version = :v
+                SELECT id, plan_sha256, inputs_trailer FROM evaluation_run WHERE round_id = :r AND version = :v
                 """).setParameter("r", roundId).setParameter("v", summary.version()).getSingleResult();
         long runId = ((Number) stored[0]).longValue();
         RoundAccess.SubmissionWindow window = rounds.window(roundId);
         List<EvaluationService.Row> rows = resultsReadBy(roundId, runId);
+        // the result lines rebuilt from the submissions, then the blunder marks and decisions the run recorded
         String text = EvaluationService.inputsText(roundId, summary.planVersion(), stored[1].toString(),
-                window.latePolicy(), rows);
+                window.latePolicy(), rows) + stored[2];
         if (!Secrets.sha256Hex(text).equals(summary.inputsSha256())) {
             throw new DomainException.Conflict("The inputs of evaluation version " + summary.version()
                     + " cannot be rebuilt exactly from the stored submissions (the inputs hash differs), so no"

@@ -12,6 +12,7 @@ import jakarta.ws.rs.core.Response;
 import org.roundtable.account.CurrentUser;
 import org.roundtable.account.Role;
 
+import java.net.URI;
 import java.util.List;
 
 /**
@@ -24,10 +25,12 @@ import java.util.List;
 public class EvaluationResource {
 
     private final EvaluationService evaluations;
+    private final EvaluationJobs evaluationJobs;
     private final CurrentUser currentUser;
 
-    public EvaluationResource(EvaluationService evaluations, CurrentUser currentUser) {
+    public EvaluationResource(EvaluationService evaluations, EvaluationJobs evaluationJobs, CurrentUser currentUser) {
         this.evaluations = evaluations;
+        this.evaluationJobs = evaluationJobs;
         this.currentUser = currentUser;
     }
 
@@ -35,12 +38,25 @@ public class EvaluationResource {
     public record RunRequest(Boolean preview) {
     }
 
+    /**
+     * Queues an evaluation run (a background job): 202 with the job and its address; 409 at once when the round's
+     * state or plan does not allow the run.
+     */
     @POST
     @Path("{roundId}/evaluations")
     @Consumes(MediaType.APPLICATION_JSON)
     public Response run(@PathParam("roundId") long roundId, RunRequest request) {
         boolean preview = request != null && Boolean.TRUE.equals(request.preview());
-        return Response.status(201).entity(evaluations.run(roundId, preview, currentUser.actor())).build();
+        EvaluationJobs.JobView job = evaluationJobs.start(roundId, preview, currentUser.actor());
+        return Response.accepted(job)
+                .location(URI.create("/api/v1/rounds/" + roundId + "/evaluation-jobs/" + job.jobId())).build();
+    }
+
+    /** An evaluation job of the round: status, progress in measurands, error, and the run's version once done. */
+    @GET
+    @Path("{roundId}/evaluation-jobs/{jobId}")
+    public EvaluationJobs.JobView job(@PathParam("roundId") long roundId, @PathParam("jobId") long jobId) {
+        return evaluationJobs.status(roundId, jobId);
     }
 
     @GET

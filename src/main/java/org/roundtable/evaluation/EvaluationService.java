@@ -32,8 +32,6 @@ import org.roundtable.statistics.sigma.MassFractionUnit;
 import org.roundtable.statistics.sigma.SigmaPt;
 
 import java.math.BigDecimal;
-import java.sql.PreparedStatement;
-import java.sql.Types;
 import java.time.Clock;
 import java.time.OffsetDateTime;
 import java.time.ZoneOffset;
@@ -53,7 +51,8 @@ import java.util.TreeMap;
  *
  * <p>Per measurand (element) and item, in one transaction:
  * <ol>
- *   <li>reads every laboratory's current revision set-based (one query);</li>
+ *   <li>reads every laboratory's current revision set-based, streamed with {@code COPY} one measurand at a time
+ *       ({@link RoundEvaluator}, which also writes the outputs with {@code COPY});</li>
  *   <li>excludes late results when the round's late-result policy does not score them (recorded reason);
  *       censored ("less than") results are set aside and classified by {@link MeasurandEvaluation}; results the
  *       coordinator marked as blunders ({@link ExclusionService}, the marks current at run time) are left out of
@@ -119,7 +118,8 @@ public class EvaluationService {
     }
 
     /**
-     * Runs the evaluation and stores it as the round's next version.
+     * Runs the evaluation and stores it as the round's next version, then reads the stored run back. For tests and
+     * offline use; the server runs evaluations as background jobs ({@link EvaluationJobs}).
      *
      * @param roundId the round
      * @param preview true for a preview on the results so far (round open for results, closed or evaluating);
@@ -129,8 +129,63 @@ public class EvaluationService {
      */
     @Transactional
     public EvaluationViews.Run run(long roundId, boolean preview, Actor actor) {
+        EvaluationViews.RunSummary summary = evaluateRound(roundId, preview, actor, (done, total) -> { });
+        return run(roundId, summary.version());
+    }
+
+    /**
+     * Runs the evaluation and stores it as the round's next version, in one transaction: a failure leaves nothing
+     * behind. The outputs are streamed to the database ({@link RoundEvaluator}), never all held in memory.
+     *
+     * @param progress measurands (of one item) evaluated so far, of all; called on this thread
+     * @return the stored run without its outputs
+     */
+    @Transactional
+    public EvaluationViews.RunSummary evaluateRound(long roundId, boolean preview, Actor actor,
+                                                    RoundEvaluator.Progress progress) {
         entityManager.createNativeQuery("SELECT id FROM round WHERE id = :r FOR UPDATE").setParameter("r", roundId)
                 .getResultList();
+        RoundState state = checkRunnable(roundId, preview);
+        RoundAccess.SubmissionWindow window = rounds.window(roundId);
+        PlanStore.PlanVersion planVersion = plans.latest(roundId).orElseThrow();
+        EvaluationPlan plan = plans.current(roundId).orElseThrow();
+        Map<String, String> units = units(roundId);
+        boolean lateUnscored = Round.LatePolicy.ACCEPT_FLAGGED_UNSCORED.name().equals(window.latePolicy());
+        // measurands withdrawn by a qualification decision are not evaluated; every item of the others is, even
+        // without results (then with its warnings and no scores)
+        Set<String> open = new HashSet<>();
+        rounds.openMeasurands(roundId).forEach(m -> open.add(m.element()));
+        List<RoundEvaluator.Planned> planned = plan.measurands().stream().filter(mp -> open.contains(mp.element()))
+                .map(mp -> new RoundEvaluator.Planned(mp, units.getOrDefault(mp.element(), ""))).toList();
+        Set<String> items = new java.util.TreeSet<>();
+        window.itemLabels().stream().map(String::strip).filter(l -> !l.isEmpty()).forEach(items::add);
+        // blunders marked now and qualification decisions that change the numbers: appended to the inputs text after
+        // the result lines (see EvaluationAdjustments.Loaded.appendTo) and kept with the run, so that an export can
+        // rebuild the inputs text; a run without them hashes exactly the text it hashed before they existed
+        EvaluationAdjustments.Loaded adjusted = adjustments.load(roundId);
+        StringBuilder trailer = new StringBuilder();
+        adjusted.appendTo(trailer);
+        RoundEvaluator.Context context = new RoundEvaluator.Context(roundId, state.name(), window.latePolicy(),
+                planVersion.version(), planVersion.sha256(), planned, items, trailer.toString());
+        OffsetDateTime now = OffsetDateTime.now(clock).withOffsetSameInstant(ZoneOffset.UTC);
+        RoundEvaluator.Header header = new RoundEvaluator.Header(preview, codeVersion, actor.name(), now);
+        RoundEvaluator.Result result = entityManager.unwrap(Session.class).doReturningWork(connection ->
+                RoundEvaluator.run(connection, context, header, measurandStep(lateUnscored, adjusted), progress));
+        audit.record(new AuditTrail.Event(actor, preview ? "evaluation.preview" : "evaluation.run", "round",
+                Long.toString(roundId), null, result.outputsSha256(), String.format(Locale.ROOT,
+                "version %d, plan version %d, inputs %s, %d measurand(s)", result.version(), planVersion.version(),
+                result.inputsSha256(), result.measurands())));
+        return new EvaluationViews.RunSummary(roundId, result.version(), preview, state.name(), planVersion.version(),
+                planVersion.sha256(), result.inputsSha256(), result.outputsSha256(), codeVersion, actor.name(), now);
+    }
+
+    /**
+     * Refuses a run the round's state or plan does not allow (409), or a round that does not exist (404).
+     *
+     * @return the round's state
+     */
+    @Transactional
+    public RoundState checkRunnable(long roundId, boolean preview) {
         RoundAccess.SubmissionWindow window = rounds.window(roundId);
         RoundState state = RoundState.valueOf(window.state());
         boolean closed = state == RoundState.CLOSED || state == RoundState.EVALUATING;
@@ -140,67 +195,20 @@ public class EvaluationService {
                     : "An evaluation needs a closed round (or one being evaluated); this round is " + state
                     + ". Ask for a preview instead.");
         }
-        PlanStore.PlanVersion planVersion = plans.latest(roundId)
-                .orElseThrow(() -> new DomainException.Conflict("The round has no frozen evaluation plan."));
-        EvaluationPlan plan = plans.current(roundId).orElseThrow();
-        Map<String, String> units = units(roundId);
-        boolean lateUnscored = Round.LatePolicy.ACCEPT_FLAGGED_UNSCORED.name().equals(window.latePolicy());
-        List<Row> rows = currentResults(roundId);
-
-        StringBuilder inputs = new StringBuilder(inputsText(roundId, planVersion.version(), planVersion.sha256(),
-                window.latePolicy(), rows));
-        // blunders marked now and qualification decisions: appended after the result lines (see appendTo), so
-        // a run without them hashes exactly the inputs text it hashed before they existed
-        EvaluationAdjustments.Loaded adjusted = adjustments.load(roundId);
-        adjusted.appendTo(inputs);
-
-        Map<String, List<Row>> byMeasurand = new TreeMap<>();
-        for (Row r : rows) {
-            byMeasurand.computeIfAbsent(r.element() + "\u0000" + r.itemLabel(), k -> new ArrayList<>()).add(r);
+        if (plans.latest(roundId).isEmpty()) {
+            throw new DomainException.Conflict("The round has no frozen evaluation plan.");
         }
-        // measurands withdrawn by a qualification decision are not evaluated; every item of the others is, even
-        // without results (then with its warnings and no scores)
-        Set<String> open = new HashSet<>();
-        rounds.openMeasurands(roundId).forEach(m -> open.add(m.element()));
-        Set<String> items = new java.util.TreeSet<>();
-        window.itemLabels().stream().map(String::strip).filter(l -> !l.isEmpty()).forEach(items::add);
-        rows.forEach(r -> items.add(r.itemLabel()));
-        List<EvaluationViews.MeasurandOutcome> outcomes = new ArrayList<>();
-        for (EvaluationPlan.MeasurandPlan mp : plan.measurands()) {
-            if (!open.contains(mp.element())) {
-                continue;
-            }
-            for (String item : items) {
-                List<Row> results = byMeasurand.getOrDefault(mp.element() + "\u0000" + item, List.of());
-                outcomes.add(evaluate(mp, units.getOrDefault(mp.element(), ""), item, results, lateUnscored, adjusted));
-            }
-        }
-        String outputsSha = outputsSha256(outcomes);
-        String inputsSha = Secrets.sha256Hex(inputs.toString());
+        return state;
+    }
 
-        Number last = (Number) entityManager.createNativeQuery(
-                "SELECT coalesce(max(version), 0) FROM evaluation_run WHERE round_id = :r")
-                .setParameter("r", roundId).getSingleResult();
-        int version = last.intValue() + 1;
-        OffsetDateTime now = OffsetDateTime.now(clock).withOffsetSameInstant(ZoneOffset.UTC);
-        long runId = ((Number) entityManager.createNativeQuery("""
-                INSERT INTO evaluation_run (round_id, version, preview, round_state, plan_version, plan_sha256,
-                    inputs_sha256, outputs_sha256, code_version, created_by, created_at)
-                VALUES (:round, :version, :preview, :state, :planVersion, :planSha, :inputs, :outputs, :code, :by, :at)
-                RETURNING id
-                """).setParameter("round", roundId).setParameter("version", version).setParameter("preview", preview)
-                .setParameter("state", state.name()).setParameter("planVersion", planVersion.version())
-                .setParameter("planSha", planVersion.sha256()).setParameter("inputs", inputsSha)
-                .setParameter("outputs", outputsSha).setParameter("code", codeVersion)
-                .setParameter("by", actor.name()).setParameter("at", now).getSingleResult()).longValue();
-        store(runId, outcomes);
-        audit.record(new AuditTrail.Event(actor, preview ? "evaluation.preview" : "evaluation.run", "round",
-                Long.toString(roundId), null, outputsSha, String.format(Locale.ROOT,
-                "version %d, plan version %d, inputs %s, %d measurand(s)", version, planVersion.version(), inputsSha,
-                outcomes.size())));
-        EvaluationViews.RunSummary summary = new EvaluationViews.RunSummary(roundId, version, preview, state.name(),
-                planVersion.version(), planVersion.sha256(), inputsSha, outputsSha, codeVersion, actor.name(), now);
-        return new EvaluationViews.Run(summary, outcomes);
+    /** The evaluation of one measurand of one item, as {@link RoundEvaluator} calls it, without blunders or decisions. */
+    public RoundEvaluator.Step measurandStep(boolean lateUnscored) {
+        return measurandStep(lateUnscored, EvaluationAdjustments.Loaded.NONE);
+    }
+
+    /** The evaluation of one measurand of one item with the round's blunder marks and qualification decisions. */
+    public RoundEvaluator.Step measurandStep(boolean lateUnscored, EvaluationAdjustments.Loaded adjusted) {
+        return (mp, unit, item, results) -> evaluate(mp, unit, item, results, lateUnscored, adjusted);
     }
 
     /**
@@ -593,101 +601,6 @@ public class EvaluationService {
 
     private static BigDecimal decimal(Object value) {
         return value == null ? null : value instanceof BigDecimal b ? b : new BigDecimal(value.toString());
-    }
-
-    private void store(long runId, List<EvaluationViews.MeasurandOutcome> outcomes) {
-        entityManager.unwrap(Session.class).doWork(connection -> {
-            try (PreparedStatement m = connection.prepareStatement("""
-                    INSERT INTO measurand_evaluation (run_id, element, item_label, position, unit, n, censored, excluded,
-                        assigned_value_method, assigned_value, assigned_value_uncertainty, sigma_pt, sigma_pt_method,
-                        sigma_pt_source, score_used, score_used_reason, median, made, niqr, robust_mean, robust_sd,
-                        iterations, converged, warnings_json, method_groups_json, rules_json)
-                    VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)
-                    """);
-                 PreparedStatement p = connection.prepareStatement("""
-                    INSERT INTO participant_score (run_id, element, item_label, laboratory_id, position, participant_code,
-                        reported, method_group, value, z, z_prime, zeta, en, classification, excluded_reason)
-                    VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)
-                    """)) {
-                int position = 0;
-                for (EvaluationViews.MeasurandOutcome o : outcomes) {
-                    int i = 1;
-                    m.setLong(i++, runId);
-                    m.setString(i++, o.element());
-                    m.setString(i++, o.itemLabel());
-                    m.setInt(i++, position++);
-                    m.setString(i++, o.unit());
-                    m.setInt(i++, o.n());
-                    m.setInt(i++, o.censored());
-                    m.setInt(i++, o.excluded());
-                    m.setString(i++, o.assignedValueMethod());
-                    setDouble(m, i++, o.assignedValue());
-                    setDouble(m, i++, o.assignedValueUncertainty());
-                    setDouble(m, i++, o.sigmaPt());
-                    m.setString(i++, o.sigmaPtMethod());
-                    m.setString(i++, o.sigmaPtSource());
-                    m.setString(i++, o.scoreUsed());
-                    m.setString(i++, o.scoreUsedReason());
-                    setDouble(m, i++, o.median());
-                    setDouble(m, i++, o.madE());
-                    setDouble(m, i++, o.nIqr());
-                    setDouble(m, i++, o.robustMean());
-                    setDouble(m, i++, o.robustSd());
-                    if (o.iterations() == null) {
-                        m.setNull(i++, Types.INTEGER);
-                    } else {
-                        m.setInt(i++, o.iterations());
-                    }
-                    if (o.converged() == null) {
-                        m.setNull(i++, Types.BOOLEAN);
-                    } else {
-                        m.setBoolean(i++, o.converged());
-                    }
-                    m.setString(i++, json(o.warnings()));
-                    m.setString(i++, json(o.methodGroups()));
-                    m.setString(i, o.rules() == null ? null : json(o.rules()));
-                    m.addBatch();
-                    int scorePosition = 0;
-                    for (EvaluationViews.Score s : o.scores()) {
-                        int j = 1;
-                        p.setLong(j++, runId);
-                        p.setString(j++, o.element());
-                        p.setString(j++, o.itemLabel());
-                        p.setLong(j++, s.laboratoryId());
-                        p.setInt(j++, scorePosition++);
-                        p.setString(j++, s.participantCode());
-                        p.setString(j++, s.reported());
-                        p.setString(j++, s.methodGroup());
-                        setDouble(p, j++, s.value());
-                        setDouble(p, j++, s.z());
-                        setDouble(p, j++, s.zPrime());
-                        setDouble(p, j++, s.zeta());
-                        setDouble(p, j++, s.en());
-                        p.setString(j++, s.classification());
-                        p.setString(j, s.excludedReason());
-                        p.addBatch();
-                    }
-                }
-                m.executeBatch();
-                p.executeBatch();
-            }
-        });
-    }
-
-    private static void setDouble(PreparedStatement s, int index, Double value) throws java.sql.SQLException {
-        if (value == null) {
-            s.setNull(index, Types.DOUBLE);
-        } else {
-            s.setDouble(index, value);
-        }
-    }
-
-    private static String json(Object value) {
-        try {
-            return CANONICAL.writeValueAsString(value);
-        } catch (JsonProcessingException e) {
-            throw new IllegalStateException(e);
-        }
     }
 
     private List<EvaluationViews.MeasurandOutcome> storedOutcomes(long runId) {

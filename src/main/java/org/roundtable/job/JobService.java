@@ -87,6 +87,19 @@ public class JobService {
                 .executeUpdate();
     }
 
+    /**
+     * Records a job's result inside the caller's transaction, the one that does the work: when the instance dies
+     * between that commit and {@link #succeed}, the re-claimed job carries the result and its handler can return it
+     * instead of doing the work again. Call it last in that transaction (it locks the job row until the commit).
+     */
+    @Transactional(Transactional.TxType.MANDATORY)
+    public void recordResult(long id, String result) {
+        entityManager.createNativeQuery("UPDATE job SET result = :result, version = version + 1 WHERE id = :id")
+                .setParameter("result", result)
+                .setParameter("id", id)
+                .executeUpdate();
+    }
+
     @Transactional(Transactional.TxType.REQUIRES_NEW)
     public void succeed(long id, String result) {
         Job job = jobs.findById(id);

@@ -47,6 +47,12 @@ class EvaluationServiceTest {
     @Inject
     EvaluationService evaluations;
 
+    @Inject
+    EvaluationJobs evaluationJobs;
+
+    @Inject
+    org.roundtable.job.JobRunner runner;
+
     private static EvaluationPlan.MeasurandPlan plan(String element, String assignedMethod, String methodGroup,
                                                      String reference, String referenceU, String sigmaPt,
                                                      String allowedGroupDifference) {
@@ -252,8 +258,19 @@ class EvaluationServiceTest {
 
         coordinator.json().body("{\"preview\":false}").post("/api/v1/rounds/" + round + "/evaluations")
                 .then().statusCode(409);
-        JsonNode preview = coordinator.json().body("{\"preview\":true}").post("/api/v1/rounds/" + round + "/evaluations")
-                .then().statusCode(201).extract().as(JsonNode.class);
+        io.restassured.response.Response queued = coordinator.json().body("{\"preview\":true}")
+                .post("/api/v1/rounds/" + round + "/evaluations");
+        queued.then().statusCode(202);
+        long jobId = queued.jsonPath().getLong("jobId");
+        assertThat(queued.header("Location")).endsWith("/api/v1/rounds/" + round + "/evaluation-jobs/" + jobId);
+        assertThat(queued.jsonPath().getString("status")).isEqualTo("QUEUED");
+        EvaluationJobsTest.runUntilFinished(runner, evaluationJobs, round, jobId);
+        JsonNode job = coordinator.json().get("/api/v1/rounds/" + round + "/evaluation-jobs/" + jobId)
+                .then().statusCode(200).extract().as(JsonNode.class);
+        assertThat(job.path("status").asText()).isEqualTo("SUCCEEDED");
+        assertThat(job.path("version").asInt()).isEqualTo(1);
+        JsonNode preview = coordinator.json().get("/api/v1/rounds/" + round + "/evaluations/1")
+                .then().statusCode(200).extract().as(JsonNode.class);
         assertThat(preview.path("run").path("preview").asBoolean()).isTrue();
         assertThat(preview.path("measurands").get(0).path("scores").get(0).path("reported").asText()).isEqualTo("18.12");
         coordinator.json().get("/api/v1/rounds/" + round + "/evaluations").then().statusCode(200);
@@ -261,6 +278,8 @@ class EvaluationServiceTest {
 
         String token = world.apiToken(lab);
         given().header("Authorization", "Bearer " + token).get("/api/v1/rounds/" + round + "/evaluations/1")
+                .then().statusCode(403);
+        given().header("Authorization", "Bearer " + token).get("/api/v1/rounds/" + round + "/evaluation-jobs/" + jobId)
                 .then().statusCode(403);
         given().header("Authorization", "Bearer " + token).get("/api/v1/rounds/" + round + "/evaluations")
                 .then().statusCode(403);

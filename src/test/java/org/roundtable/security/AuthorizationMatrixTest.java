@@ -73,6 +73,9 @@ class AuthorizationMatrixTest {
     @Inject
     org.roundtable.evaluation.ExclusionService exclusions;
 
+    @Inject
+    org.roundtable.evaluation.EvaluationJobs evaluationJobs;
+
     private long labA;
     private long labB;
 
@@ -291,6 +294,11 @@ class AuthorizationMatrixTest {
                 long exclusion = exclusions.mark(round, new org.roundtable.evaluation.ExclusionService.MarkRequest(code, "Cr",
                         "A", "matrix"), new org.roundtable.audit.Actor("matrix", "coordinator", null)).id();
                 resolved = resolved.replace("{exclusionId}", Long.toString(exclusion));
+            }
+            if (resolved.contains("{jobId}")) {
+                long job = evaluationJobs.start(round, true, new org.roundtable.audit.Actor("matrix", "coordinator", null))
+                        .jobId();
+                resolved = resolved.replace("{jobId}", Long.toString(job));
             }
             if (resolved.contains("{itemId}")) {
                 resolved = resolved.replace("{itemId}", Long.toString(world.itemOf(round, labA)));
