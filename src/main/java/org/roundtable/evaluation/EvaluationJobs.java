@@ -3,6 +3,7 @@ package org.roundtable.evaluation;
 import com.fasterxml.jackson.core.JsonProcessingException;
 import com.fasterxml.jackson.databind.ObjectMapper;
 import jakarta.enterprise.context.ApplicationScoped;
+import jakarta.persistence.EntityManager;
 import jakarta.transaction.Transactional;
 import org.roundtable.audit.Actor;
 import org.roundtable.job.Job;
@@ -26,8 +27,10 @@ public class EvaluationJobs {
 
     private final EvaluationService evaluations;
     private final JobService jobs;
+    private final EntityManager entityManager;
 
-    public EvaluationJobs(EvaluationService evaluations, JobService jobs) {
+    public EvaluationJobs(EvaluationService evaluations, JobService jobs, EntityManager entityManager) {
+        this.entityManager = entityManager;
         this.evaluations = evaluations;
         this.jobs = jobs;
     }
@@ -56,16 +59,38 @@ public class EvaluationJobs {
 
     /**
      * Queues an evaluation of the round. The round's state and plan are checked now (409 at once rather than a
-     * failed job) and again when the job runs.
+     * failed job) and again when the job runs. While an evaluation of the same kind (run or preview) of the round
+     * is queued or running, that job is answered instead of a second one, so a repeated click or request does not
+     * make two versions.
      *
-     * @return the queued job
+     * @return the queued (or already waiting) job
      */
     @Transactional
     public JobView start(long roundId, boolean preview, Actor actor) {
         evaluations.checkRunnable(roundId, preview);
+        // serialises starts of the same round, so two requests cannot both find no waiting job
+        entityManager.createNativeQuery("SELECT id FROM round WHERE id = :r FOR UPDATE").setParameter("r", roundId)
+                .getResultList();
+        Optional<JobView> waiting = unfinished(roundId).filter(j -> j.preview() == preview);
+        if (waiting.isPresent()) {
+            return waiting.get();
+        }
         Payload payload = new Payload(roundId, preview, actor.name(), actor.role(), actor.laboratoryId());
         Job job = jobs.enqueue(KIND, write(payload), actor.name());
         return view(job, payload);
+    }
+
+    /** The round's newest evaluation job that is queued or running, if any. */
+    @Transactional
+    public Optional<JobView> unfinished(long roundId) {
+        @SuppressWarnings("unchecked")
+        java.util.List<Number> ids = entityManager.createNativeQuery("""
+                SELECT id FROM job
+                 WHERE kind = :kind AND status IN ('QUEUED', 'RUNNING')
+                   AND CASE WHEN kind = :kind THEN (payload::jsonb ->> 'roundId')::bigint END = :round
+                 ORDER BY id DESC LIMIT 1
+                """).setParameter("kind", KIND).setParameter("round", roundId).getResultList();
+        return ids.stream().findFirst().map(id -> status(roundId, id.longValue()));
     }
 
     /** An evaluation job of the round; a job of another round answers like a missing one (404). */

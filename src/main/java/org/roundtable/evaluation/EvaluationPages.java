@@ -10,6 +10,7 @@ import jakarta.ws.rs.POST;
 import jakarta.ws.rs.Path;
 import jakarta.ws.rs.PathParam;
 import jakarta.ws.rs.Produces;
+import jakarta.ws.rs.QueryParam;
 import jakarta.ws.rs.core.MediaType;
 import jakarta.ws.rs.core.Response;
 import org.roundtable.account.CurrentUser;
@@ -63,39 +64,48 @@ public class EvaluationPages {
     @CheckedTemplate(basePath = "evaluation")
     static class Templates {
         static native TemplateInstance runs(RoundAccess.SubmissionWindow round, List<EvaluationViews.RunSummary> runs,
-                                            boolean previewAllowed, boolean runAllowed, String error);
+                                            boolean previewAllowed, boolean runAllowed, EvaluationJobs.JobView job,
+                                            String error);
 
         static native TemplateInstance run(RoundAccess.SubmissionWindow round, RunPage page);
     }
 
     private final EvaluationService evaluations;
+    private final EvaluationJobs jobs;
     private final RoundAccess rounds;
     private final CurrentUser currentUser;
 
-    public EvaluationPages(EvaluationService evaluations, RoundAccess rounds, CurrentUser currentUser) {
+    public EvaluationPages(EvaluationService evaluations, EvaluationJobs jobs, RoundAccess rounds,
+                           CurrentUser currentUser) {
         this.evaluations = evaluations;
+        this.jobs = jobs;
         this.rounds = rounds;
         this.currentUser = currentUser;
     }
 
+    /**
+     * The versions of the round; with {@code job} the progress of that evaluation job (the page reloads itself
+     * while the job waits or runs, and links the version it produced).
+     */
     @GET
     @Path("rounds/{roundId}/evaluation")
-    public TemplateInstance runs(@PathParam("roundId") long roundId) {
-        return runsPage(roundId, null);
+    public TemplateInstance runs(@PathParam("roundId") long roundId, @QueryParam("job") Long jobId) {
+        EvaluationJobs.JobView job = jobId == null ? jobs.unfinished(roundId).orElse(null) : jobs.status(roundId, jobId);
+        return runsPage(roundId, job, null);
     }
 
-    /** Starts a preview ({@code preview=true}) or a run; on success shows the new version. */
+    /** Queues a preview ({@code preview=true}) or a run as a background job and shows its progress. */
     @POST
     @Path("rounds/{roundId}/evaluation")
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
     public Response start(@PathParam("roundId") long roundId, @FormParam("preview") String preview) {
         try {
-            EvaluationViews.Run run = evaluations.run(roundId, "true".equals(preview), currentUser.actor());
-            return Response.seeOther(URI.create("/rounds/" + roundId + "/evaluation/" + run.run().version())).build();
+            EvaluationJobs.JobView job = jobs.start(roundId, "true".equals(preview), currentUser.actor());
+            return Response.seeOther(URI.create("/rounds/" + roundId + "/evaluation?job=" + job.jobId())).build();
         } catch (DomainException.NotFound | DomainException.Forbidden e) {
             throw e;
         } catch (DomainException e) {
-            return Response.status(e.status()).entity(runsPage(roundId, e.detail())).build();
+            return Response.status(e.status()).entity(runsPage(roundId, null, e.detail())).build();
         }
     }
 
@@ -107,13 +117,13 @@ public class EvaluationPages {
         return Templates.run(round, new RunPage(run.run(), run.measurands().stream().map(EvaluationPages::rows).toList()));
     }
 
-    private TemplateInstance runsPage(long roundId, String error) {
+    private TemplateInstance runsPage(long roundId, EvaluationJobs.JobView job, String error) {
         RoundAccess.SubmissionWindow round = rounds.window(roundId);
         RoundState state = RoundState.valueOf(round.state());
         boolean closed = state == RoundState.CLOSED || state == RoundState.EVALUATING;
         List<EvaluationViews.RunSummary> newestFirst = new ArrayList<>(evaluations.runs(roundId));
         Collections.reverse(newestFirst);
-        return Templates.runs(round, newestFirst, closed || state == RoundState.OPEN_FOR_RESULTS, closed, error);
+        return Templates.runs(round, newestFirst, closed || state == RoundState.OPEN_FOR_RESULTS, closed, job, error);
     }
 
     static MeasurandRows rows(EvaluationViews.MeasurandOutcome o) {

@@ -445,7 +445,7 @@ public final class RoundEvaluator {
                 o.excluded(), o.assignedValueMethod(), o.assignedValue(), o.assignedValueUncertainty(), o.sigmaPt(),
                 o.sigmaPtMethod(), o.sigmaPtSource(), o.scoreUsed(), o.scoreUsedReason(), o.median(), o.madE(),
                 o.nIqr(), o.robustMean(), o.robustSd(), o.iterations(), o.converged(), o.warnings(), o.methodGroups(),
-                List.of());
+                List.of(), o.rules());
     }
 
     /**

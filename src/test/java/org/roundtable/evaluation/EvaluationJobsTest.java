@@ -45,6 +45,9 @@ class EvaluationJobsTest {
     EvaluationService evaluations;
 
     @Inject
+    EvaluationAdjustments adjustments;
+
+    @Inject
     EvaluationJobs evaluationJobs;
 
     @Inject
@@ -173,7 +176,10 @@ class EvaluationJobsTest {
                 .add(r));
         Set<String> items = new TreeSet<>(List.of("A", "B"));
         rows.forEach(r -> items.add(r.itemLabel()));
-        RoundEvaluator.Step step = evaluations.measurandStep(lateUnscored);
+        // the round's blunder marks and qualification decisions, as the run loads them, then appended to the inputs
+        EvaluationAdjustments.Loaded adjusted = QuarkusTransaction.requiringNew().call(() -> adjustments.load(round));
+        adjusted.appendTo(inputs);
+        RoundEvaluator.Step step = evaluations.measurandStep(lateUnscored, adjusted);
         List<EvaluationViews.MeasurandOutcome> expected = new ArrayList<>();
         EvaluationPlan frozen = QuarkusTransaction.requiringNew().call(() -> plans.current(round).orElseThrow());
         for (EvaluationPlan.MeasurandPlan mp : frozen.measurands()) {

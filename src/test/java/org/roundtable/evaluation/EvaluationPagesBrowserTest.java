@@ -7,6 +7,7 @@ import org.junit.jupiter.api.AfterEach;
 import org.junit.jupiter.api.Test;
 import org.openqa.selenium.By;
 import org.openqa.selenium.WebDriver;
+import org.roundtable.job.JobRunner;
 import org.roundtable.scheme.RoundState;
 import org.roundtable.testing.Browser;
 import org.roundtable.testing.World;
@@ -27,6 +28,9 @@ class EvaluationPagesBrowserTest {
 
     @Inject
     World world;
+
+    @Inject
+    JobRunner runner;
 
     private WebDriver browser;
 
@@ -63,6 +67,13 @@ class EvaluationPagesBrowserTest {
         assertThat(browser.findElement(By.id("runs")).getText()).contains("No evaluation yet");
         assertThat(browser.findElements(By.id("start-run"))).as("a round still open can only be previewed").isEmpty();
         browser.findElement(By.id("start-preview")).click();
+        // the preview runs as a background job; the page reloads itself until the job links its version
+        Browser.waitForUrl(browser, url -> url.contains("/evaluation?job="));
+        assertThat(browser.findElement(By.id("evaluation-job")).getText()).contains("waiting to start");
+        while (runner.runNext()) {
+            // the test profile polls no jobs by itself: run the queued preview here, as a worker would
+        }
+        Browser.waitFor(browser, By.id("job-version")).click();
         Browser.waitForUrl(browser, url -> url.endsWith("/evaluation/1"));
 
         String page = browser.findElement(By.id("content")).getText();
