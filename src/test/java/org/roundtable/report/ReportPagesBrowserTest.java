@@ -72,13 +72,11 @@ class ReportPagesBrowserTest {
         String labPage = "/my-rounds/" + round + "/reports";
 
         signIn(coordinator, coordinatorPage);
-        browser.findElement(By.id("issue-preliminary")).click();
-        Browser.waitFor(browser, By.cssSelector(".notice-ok"));
+        submit(By.id("issue-preliminary"));
         runJobs();
         browser.get(base + coordinatorPage.substring(1));
         assertThat(browser.findElement(By.id("documents")).getText()).contains(code + "-R-P1");
-        browser.findElement(By.id("open-comment-period")).click();
-        Browser.waitFor(browser, By.cssSelector(".notice-ok"));
+        submit(By.id("open-comment-period"));
         assertThat(browser.findElement(By.id("round-state")).getText()).isEqualTo("COMMENT_PERIOD");
         signOut();
 
@@ -92,13 +90,10 @@ class ReportPagesBrowserTest {
         signIn(coordinator, coordinatorPage);
         assertThat(browser.findElement(By.cssSelector(".comment")).getText()).contains("Please confirm the Cr assigned value.");
         browser.findElement(By.cssSelector(".comment textarea")).sendKeys("Confirmed: robust mean of all results.");
-        browser.findElement(By.cssSelector(".comment .answer-button")).click();
-        Browser.waitFor(browser, By.cssSelector(".notice-ok"));
+        submit(By.cssSelector(".comment .answer-button"));
         assertThat(browser.findElement(By.cssSelector(".comment .answer")).getText()).contains("Confirmed");
-        browser.findElement(By.id("sign-off")).click();
-        Browser.waitFor(browser, By.cssSelector(".notice-ok"));
-        browser.findElement(By.id("issue-final")).click();
-        Browser.waitFor(browser, By.cssSelector(".notice-ok"));
+        submit(By.id("sign-off"));
+        submit(By.id("issue-final"));
         runJobs();
         browser.get(base + coordinatorPage.substring(1));
         assertThat(browser.findElement(By.id("documents")).getText()).contains(code + "-R-F");
@@ -109,5 +104,17 @@ class ReportPagesBrowserTest {
         signIn(member, labPage);
         assertThat(browser.findElement(By.cssSelector(".answer")).getText()).contains("Confirmed: robust mean of all results.");
         assertThat(browser.findElement(By.id("my-documents")).getText()).contains(code + "-R-F");
+    }
+
+    /**
+     * Clicks a form's button and waits for the page the form answers with (not for a notice still on the old page,
+     * which a busy machine lets the test see first), then for its success notice.
+     */
+    private void submit(By button) {
+        org.openqa.selenium.WebElement page = browser.findElement(By.tagName("html"));
+        browser.findElement(button).click();
+        new org.openqa.selenium.support.ui.WebDriverWait(browser, java.time.Duration.ofSeconds(20))
+                .until(org.openqa.selenium.support.ui.ExpectedConditions.stalenessOf(page));
+        Browser.waitFor(browser, By.cssSelector(".notice-ok"));
     }
 }
