@@ -487,7 +487,8 @@ public class ReportLifecycle {
                 }
                 ReportIdentity labIdentity = new ReportIdentity(reportId, row.status(), labReplaces, row.reason(),
                         today, identity.providerName());
-                LaboratoryReport lab = new LaboratoryReport(withIdentity(assembled, labIdentity), code);
+                LaboratoryReport lab = new LaboratoryReport(withIdentity(assembled, labIdentity), code,
+                        row.roundReportId());
                 byte[] bytes = renderer.render(lab);
                 documents.issue(new IssuedDocuments.Issue(labIdentity, DocumentKind.LABORATORY, row.roundId(),
                         laboratory, PDF, bytes, assembled.evaluationRunId()), actor);
