@@ -457,6 +457,7 @@ public class ReportLifecycle {
                 assembler.providerName());
         ReportAssembler.Assembled assembled = assembler.assemble(row.roundId(), row.runVersion(), identity, signatures,
                 row.comments());
+        // one renderer for every document of the run: it computes the charts' data once per measurand
         PdfReportRenderer renderer = new PdfReportRenderer();
         List<String> codes = new ArrayList<>(assembled.laboratories().keySet());
         int total = codes.size() + 1;

@@ -226,8 +226,9 @@ public final class ReportCharts {
     }
 
     /**
-     * The ordered score bars of a large round: an XY plot whose x is the rank, the bars of each
-     * colour one filled path of rectangles [i − ½, i + ½] × [0, score], the own bar on its band on top.
+     * The ordered score bars of a large round: an XY plot whose x is the rank; each run of
+     * neighbouring bars of one colour is one filled outline (along the bar tops [i − ½, i + ½] at the
+     * score, back along zero), all runs of a colour one path; the own bar on its band on top.
      */
     private static JFreeChart buildScoreBarPaths(MeasurandChartData d, String ownCode, String symbol) {
         MeasurandSection m = d.measurand;
@@ -235,15 +236,30 @@ public final class ReportCharts {
         int n = scored.size();
         int ownIndex = MeasurandChartData.indexOf(scored, ownCode);
         Map<Color, Path2D.Double> paths = new LinkedHashMap<>();
-        for (int i = 0; i < n; i++) {
-            if (i == ownIndex || d.scores[i] == 0.0) {
+        Path2D.Double run = null;
+        Color runPaint = null;
+        for (int i = 0; i <= n; i++) {
+            Color paint = null;
+            if (i < n && i != ownIndex) {
+                Color colour = ReportColours.of(scored.get(i).classification());
+                paint = ownCode == null ? colour : ReportColours.pale(colour);
+            }
+            if (run != null && !java.util.Objects.equals(paint, runPaint)) {
+                // close the run: down to zero after its last bar, back along zero to its start
+                run.lineTo(i - 0.5, 0);
+                run.closePath();
+                run = null;
+            }
+            if (paint == null) {
                 continue;
             }
-            Color colour = ReportColours.of(scored.get(i).classification());
-            Color paint = ownCode == null ? colour : ReportColours.pale(colour);
-            double s = d.scores[i];
-            paths.computeIfAbsent(paint, c -> new Path2D.Double(Path2D.WIND_NON_ZERO, n * 5))
-                    .append(new Rectangle2D.Double(i - 0.5, Math.min(0, s), 1, Math.abs(s)), false);
+            if (run == null) {
+                run = paths.computeIfAbsent(paint, c -> new Path2D.Double(Path2D.WIND_NON_ZERO, n * 2));
+                runPaint = paint;
+                run.moveTo(i - 0.5, 0);
+            }
+            run.lineTo(i - 0.5, d.scores[i]);
+            run.lineTo(i + 0.5, d.scores[i]);
         }
         NumberAxis ranks = new NumberAxis("participants (ordered)");
         styleAxisFonts(ranks);
@@ -495,7 +511,7 @@ public final class ReportCharts {
         styleUncertaintyPlot(plot, m);
         plot.addAnnotation(new XYShapeAnnotation(bars, new BasicStroke(0.5f), ReportColours.SLATE, null), false);
         plot.addAnnotation(new PointsAnnotation(java.util.Arrays.copyOf(xs, points), java.util.Arrays.copyOf(ys, points),
-                2.5, ReportColours.SLATE), false);
+                2.2, ReportColours.SLATE), false);
         if (ownIndex >= 0) {
             ParticipantResult r = shown.get(ownIndex);
             if (r.expandedUncertainty() != null && r.expandedUncertainty() > 0) {

@@ -51,6 +51,9 @@ final class ReportDocument {
 
     static final String END_OF_REPORT = "End of report";
 
+    /** Height of the measurand charts in a laboratory report, in CSS pixels. */
+    static final int LABORATORY_CHART_HEIGHT = 190;
+
     private static final DateTimeFormatter DATE = DateTimeFormatter.ISO_LOCAL_DATE;
     private static final String CSS = loadCss();
 
@@ -340,11 +343,12 @@ final class ReportDocument {
         String unit = " " + esc(m.unit());
         out.append("<div class=\"measurand\">\n<h3 id=\"m-").append(esc(m.id())).append("\">").append(number).append(" ")
                 .append(esc(m.title())).append(", ").append(esc(m.unit())).append("</h3>\n");
-        out.append("<table class=\"keep\">\n<tbody>\n");
+        // compact key figures, so that the figures and the three charts of a measurand fit on one page
+        out.append("<table class=\"keep\">\n<colgroup><col style=\"width: 27%\"/><col style=\"width: 30%\"/><col/>"
+                + "</colgroup>\n<tbody>\n");
         keyRow("Results used (n)", String.valueOf(m.n()), "");
-        keyRow("Assigned value x<sub>pt</sub>", ReportFormat.decimal(m.assignedValue(), d) + unit,
-                sym(m.assignedValueMethod()));
-        keyRow("Standard uncertainty u(x<sub>pt</sub>)", ReportFormat.decimal(m.assignedValueUncertainty(), dd) + unit, "");
+        keyRow("x<sub>pt</sub> / u(x<sub>pt</sub>)", ReportFormat.decimal(m.assignedValue(), d) + " / "
+                + ReportFormat.decimal(m.assignedValueUncertainty(), dd) + unit, sym(m.assignedValueMethod()));
         keyRow("\u03c3<sub>pt</sub>", ReportFormat.decimal(m.sigmaPt(), dd) + unit, sym(m.sigmaPtMethod()));
         var robust = m.robust();
         keyRow("Robust mean x* / SD s*", ReportFormat.decimal(robust.robustMean(), d) + " / "
@@ -558,9 +562,18 @@ final class ReportDocument {
 
     private void writeCharts(MeasurandSection m) {
         MeasurandChartData data = chartData.get(m);
-        figure(ReportCharts.scoreBars(data, ownCode));
-        figure(ReportCharts.density(data, ownCode));
-        figure(ReportCharts.uncertaintyBars(data, ownCode));
+        figure(compact(ReportCharts.scoreBars(data, ownCode)));
+        figure(compact(ReportCharts.density(data, ownCode)));
+        figure(compact(ReportCharts.uncertaintyBars(data, ownCode)));
+    }
+
+    /** In a laboratory report the measurand charts are a little lower, so figures and charts fit on one page. */
+    private ReportChart compact(ReportChart chart) {
+        if (chart == null || !forLaboratory()) {
+            return chart;
+        }
+        return new ReportChart(chart.key(), chart.caption(), chart.width(), LABORATORY_CHART_HEIGHT, chart.markCount(),
+                chart.factory());
     }
 
     private void keyRow(String label, String value, String how) {

@@ -214,7 +214,7 @@ class PdfReportRendererTest {
         List<String> titles = List.of("Participant report", "Round report LAS-2026-2-R1", "1 Status and confidentiality",
                 "2 Scheme and round", "3 Your results at a glance", "Your results", "Your scores", "4 The test item",
                 "5 How the results were evaluated", "Your results left out of the statistics",
-                "6 Your results by measurand", "Results used (n)", "Robust mean x* / SD s*", "7 Paired items",
+                "6 Your results by measurand", "Results used (n)", "Robust mean x* / SD s*", "Your result", "7 Paired items",
                 "8 Reading the scores", "Scores support, and do not replace", "9 Coordinator\u2019s comments",
                 "10 Sign-off", "End of report LAS-2026-2-R1");
         int at = -1;
