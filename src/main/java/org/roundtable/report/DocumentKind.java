@@ -4,7 +4,10 @@ package org.roundtable.report;
 public enum DocumentKind {
     /** The round report, with every participant under its code. */
     ROUND,
-    /** One laboratory's report: the round report with that laboratory's own code marked. */
+    /**
+     * One laboratory's report: its own results and scores, the round's key figures and the charts with its own
+     * bar or point highlighted; everyone's results are in the round report.
+     */
     LABORATORY,
     /** A laboratory's export of its history across rounds. */
     HISTORY_EXPORT

@@ -457,6 +457,7 @@ public class ReportLifecycle {
                 assembler.providerName());
         ReportAssembler.Assembled assembled = assembler.assemble(row.roundId(), row.runVersion(), identity, signatures,
                 row.comments());
+        // one renderer for every document of the run: it computes the charts' data once per measurand
         PdfReportRenderer renderer = new PdfReportRenderer();
         List<String> codes = new ArrayList<>(assembled.laboratories().keySet());
         int total = codes.size() + 1;
@@ -487,7 +488,8 @@ public class ReportLifecycle {
                 }
                 ReportIdentity labIdentity = new ReportIdentity(reportId, row.status(), labReplaces, row.reason(),
                         today, identity.providerName());
-                LaboratoryReport lab = new LaboratoryReport(withIdentity(assembled, labIdentity), code);
+                LaboratoryReport lab = new LaboratoryReport(withIdentity(assembled, labIdentity), code,
+                        row.roundReportId());
                 byte[] bytes = renderer.render(lab);
                 documents.issue(new IssuedDocuments.Issue(labIdentity, DocumentKind.LABORATORY, row.roundId(),
                         laboratory, PDF, bytes, assembled.evaluationRunId()), actor);

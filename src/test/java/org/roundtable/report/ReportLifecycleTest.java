@@ -106,6 +106,9 @@ class ReportLifecycleTest {
         // its PDF names its own code as the participant and no laboratory
         String text = ReportAssemblerTest.text(bytes);
         assertThat(text).contains("Participant code " + codeA).doesNotContain("Participant code " + codeB);
+        // its own shape: its results and scores, the round report named for everyone's results
+        assertThat(text).contains("Your results at a glance").contains("Round report " + code + "-R-P1")
+                .contains("End of report " + code + "-" + codeA + "-P1").doesNotContain("Results and scores");
         for (long lab : labs) {
             assertThat(text).doesNotContain(world.text("SELECT name FROM laboratory WHERE id = ?", lab));
         }

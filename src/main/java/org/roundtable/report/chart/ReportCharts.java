@@ -8,12 +8,13 @@ import java.awt.Shape;
 import java.awt.Stroke;
 import java.awt.geom.Ellipse2D;
 import java.awt.geom.Line2D;
+import java.awt.geom.Path2D;
 import java.awt.geom.Rectangle2D;
 import java.text.DecimalFormat;
 import java.text.DecimalFormatSymbols;
 import java.util.ArrayList;
-import java.util.Comparator;
 import java.util.HashMap;
+import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Locale;
 import java.util.Map;
@@ -21,6 +22,7 @@ import org.jfree.chart.JFreeChart;
 import org.jfree.chart.annotations.CategoryTextAnnotation;
 import org.jfree.chart.annotations.XYLineAnnotation;
 import org.jfree.chart.annotations.XYShapeAnnotation;
+import org.jfree.chart.annotations.XYTextAnnotation;
 import org.jfree.chart.axis.CategoryAxis;
 import org.jfree.chart.axis.CategoryLabelPositions;
 import org.jfree.chart.axis.NumberAxis;
@@ -82,6 +84,11 @@ public final class ReportCharts {
     public static final int MAX_LABELLED = 40;
     /** A rug of the individual results is drawn under the density up to this many results. */
     public static final int MAX_RUG = 200;
+    /**
+     * Above this many bars or points, a chart draws all marks of one kind as one path (the same marks,
+     * far fewer drawing operations in the PDF).
+     */
+    public static final int MAX_SINGLE_MARKS = 200;
     /** Score axis limit: bars beyond ± this are cut at the edge of the plot. */
     public static final double SCORE_AXIS_LIMIT = 8;
     /** Value axes show at most x_pt ± this many σ_pt. */
@@ -130,15 +137,17 @@ public final class ReportCharts {
      * lines at ±2 (warn colour) and ±3 (bad colour) — at ±1 for En. Unscored results are left out.
      */
     public static ReportChart scoreBars(MeasurandSection m, String ownCode) {
-        List<ParticipantResult> scored = new ArrayList<>();
-        for (ParticipantResult r : m.results()) {
-            Double s = primaryScore(m, r);
-            if (s != null && Double.isFinite(s)) {
-                scored.add(r);
-            }
-        }
-        scored.sort(Comparator.<ParticipantResult>comparingDouble(r -> primaryScore(m, r))
-                .thenComparing(ParticipantResult::participantCode));
+        return scoreBars(MeasurandChartData.of(m), ownCode);
+    }
+
+    /**
+     * Ordered score bars from precomputed chart data. Above {@value #MAX_SINGLE_MARKS} bars, the bars
+     * of one colour are drawn edge to edge as one filled path (every bar is still drawn, only as
+     * one shape per colour instead of one per bar).
+     */
+    public static ReportChart scoreBars(MeasurandChartData data, String ownCode) {
+        MeasurandSection m = data.measurand;
+        List<ParticipantResult> scored = data.scored;
         String symbol = scoreSymbol(m.scoreKind());
         String caption = symbol + " scores for " + m.title() + ", lowest to highest, " + scored.size()
                 + " participants." + (m.scoreKind() == ScoreKind.EN
@@ -146,19 +155,19 @@ public final class ReportCharts {
                         : " Lines at \u00b12 (questionable beyond) and \u00b13 (unsatisfactory from).")
                 + (ownCode != null ? " Your bar stands on a copper band and is labelled." : "");
         return new ReportChart("zbars-" + safe(m.id()), caption, WIDTH, HEIGHT, scored.size(),
-                () -> buildScoreBars(m, scored, ownCode, symbol));
+                () -> scored.size() > MAX_SINGLE_MARKS ? buildScoreBarPaths(data, ownCode, symbol)
+                        : buildScoreBars(data, ownCode, symbol));
     }
 
-    private static JFreeChart buildScoreBars(MeasurandSection m, List<ParticipantResult> scored, String ownCode,
-            String symbol) {
+    private static JFreeChart buildScoreBars(MeasurandChartData d, String ownCode, String symbol) {
+        MeasurandSection m = d.measurand;
+        List<ParticipantResult> scored = d.scored;
         DefaultCategoryDataset data = new DefaultCategoryDataset();
         List<Paint> paints = new ArrayList<>(scored.size());
         int ownColumn = -1;
-        double maxAbs = 0;
-        for (ParticipantResult r : scored) {
-            double s = primaryScore(m, r);
-            maxAbs = Math.max(maxAbs, Math.abs(s));
-            data.addValue(s, "score", r.participantCode());
+        for (int i = 0; i < scored.size(); i++) {
+            ParticipantResult r = scored.get(i);
+            data.addValue(d.scores[i], "score", r.participantCode());
             Color colour = ReportColours.of(r.classification());
             boolean own = r.participantCode().equals(ownCode);
             if (own) {
@@ -189,29 +198,14 @@ public final class ReportCharts {
         codes.setTickMarksVisible(false);
         codes.setCategoryLabelPositions(CategoryLabelPositions.UP_90);
 
-        NumberAxis scores = new NumberAxis(symbol);
-        styleAxisFonts(scores);
-        double limit = m.scoreKind() == ScoreKind.EN ? 2 : 3.5;
-        limit = Math.min(SCORE_AXIS_LIMIT, Math.max(limit, Math.ceil(maxAbs + 0.5)));
-        scores.setRange(-limit, limit);
-        scores.setNumberFormatOverride(numberFormat(limit > 4 ? 0 : 1));
-
+        NumberAxis scores = scoreAxis(m, d.maxAbsScore, symbol);
         CategoryPlot plot = new CategoryPlot(data, codes, scores, renderer);
         stylePlot(plot);
         plot.setDomainGridlinesVisible(false);
         plot.setRangeZeroBaselineVisible(true);
         plot.setRangeZeroBaselinePaint(ReportColours.MUTED);
-        if (m.scoreKind() == ScoreKind.EN) {
-            plot.addRangeMarker(marker(1, ReportColours.BAD, REFERENCE_STROKE, "+1"), Layer.FOREGROUND);
-            plot.addRangeMarker(marker(-1, ReportColours.BAD, REFERENCE_STROKE, ReportFormat.MINUS + "1"),
-                    Layer.FOREGROUND);
-        } else {
-            plot.addRangeMarker(marker(2, ReportColours.WARN, DASHED_STROKE, "+2"), Layer.FOREGROUND);
-            plot.addRangeMarker(marker(-2, ReportColours.WARN, DASHED_STROKE, ReportFormat.MINUS + "2"),
-                    Layer.FOREGROUND);
-            plot.addRangeMarker(marker(3, ReportColours.BAD, REFERENCE_STROKE, "+3"), Layer.FOREGROUND);
-            plot.addRangeMarker(marker(-3, ReportColours.BAD, REFERENCE_STROKE, ReportFormat.MINUS + "3"),
-                    Layer.FOREGROUND);
+        for (ValueMarker line : scoreLines(m)) {
+            plot.addRangeMarker(line, Layer.FOREGROUND);
         }
         if (ownColumn >= 0) {
             // a copper band behind the own bar, and a label just across the zero line leaning into the chart
@@ -220,18 +214,114 @@ public final class ReportCharts {
                     ReportColours.mix(ReportColours.COPPER, Color.WHITE, 0.6), new BasicStroke(scored.size() > MAX_LABELLED ? 3f : 14f, BasicStroke.CAP_BUTT, BasicStroke.JOIN_MITER));
             band.setDrawAsLine(true);
             plot.addDomainMarker(band, Layer.BACKGROUND);
-            double s = primaryScore(m, own);
+            double s = d.scores[ownColumn];
             CategoryTextAnnotation label = new CategoryTextAnnotation(
                     own.participantCode() + " " + ReportFormat.signedScore(s), own.participantCode(), s >= 0 ? -0.25 : 0.25);
             label.setFont(HIGHLIGHT_FONT);
             label.setPaint(ReportColours.COPPER);
-            boolean leftHalf = ownColumn < scored.size() / 2;
-            label.setTextAnchor(s >= 0
-                    ? (leftHalf ? TextAnchor.TOP_LEFT : TextAnchor.TOP_RIGHT)
-                    : (leftHalf ? TextAnchor.BOTTOM_LEFT : TextAnchor.BOTTOM_RIGHT));
+            label.setTextAnchor(ownLabelAnchor(s, ownColumn < scored.size() / 2));
             plot.addAnnotation(label);
         }
         return chart(plot);
+    }
+
+    /**
+     * The ordered score bars of a large round: an XY plot whose x is the rank; each run of
+     * neighbouring bars of one colour is one filled outline (along the bar tops [i − ½, i + ½] at the
+     * score, back along zero), all runs of a colour one path; the own bar on its band on top.
+     */
+    private static JFreeChart buildScoreBarPaths(MeasurandChartData d, String ownCode, String symbol) {
+        MeasurandSection m = d.measurand;
+        List<ParticipantResult> scored = d.scored;
+        int n = scored.size();
+        int ownIndex = MeasurandChartData.indexOf(scored, ownCode);
+        Map<Color, Path2D.Double> paths = new LinkedHashMap<>();
+        Path2D.Double run = null;
+        Color runPaint = null;
+        for (int i = 0; i <= n; i++) {
+            Color paint = null;
+            if (i < n && i != ownIndex) {
+                Color colour = ReportColours.of(scored.get(i).classification());
+                paint = ownCode == null ? colour : ReportColours.pale(colour);
+            }
+            if (run != null && !java.util.Objects.equals(paint, runPaint)) {
+                // close the run: down to zero after its last bar, back along zero to its start
+                run.lineTo(i - 0.5, 0);
+                run.closePath();
+                run = null;
+            }
+            if (paint == null) {
+                continue;
+            }
+            if (run == null) {
+                run = paths.computeIfAbsent(paint, c -> new Path2D.Double(Path2D.WIND_NON_ZERO, n * 2));
+                runPaint = paint;
+                run.moveTo(i - 0.5, 0);
+            }
+            run.lineTo(i - 0.5, d.scores[i]);
+            run.lineTo(i + 0.5, d.scores[i]);
+        }
+        NumberAxis ranks = new NumberAxis("participants (ordered)");
+        styleAxisFonts(ranks);
+        ranks.setTickLabelsVisible(false);
+        ranks.setTickMarksVisible(false);
+        double margin = 0.01 * n;
+        ranks.setRange(-0.5 - margin, n - 0.5 + margin);
+        NumberAxis scores = scoreAxis(m, d.maxAbsScore, symbol);
+        XYPlot plot = new XYPlot(new XYSeriesCollection(), ranks, scores, new XYLineAndShapeRenderer(false, false));
+        stylePlot(plot);
+        plot.setDomainGridlinesVisible(false);
+        plot.setRangeZeroBaselineVisible(true);
+        plot.setRangeZeroBaselinePaint(ReportColours.MUTED);
+        for (ValueMarker line : scoreLines(m)) {
+            plot.addRangeMarker(line, Layer.FOREGROUND);
+        }
+        for (Map.Entry<Color, Path2D.Double> e : paths.entrySet()) {
+            plot.addAnnotation(new XYShapeAnnotation(e.getValue(), null, null, e.getKey()), false);
+        }
+        if (ownIndex >= 0) {
+            double s = d.scores[ownIndex];
+            ValueMarker band = new ValueMarker(ownIndex, ReportColours.mix(ReportColours.COPPER, Color.WHITE, 0.6),
+                    new BasicStroke(3f, BasicStroke.CAP_BUTT, BasicStroke.JOIN_MITER));
+            plot.addDomainMarker(band, Layer.BACKGROUND);
+            plot.addAnnotation(new XYShapeAnnotation(new Rectangle2D.Double(ownIndex - 0.5, Math.min(0, s), 1,
+                    Math.max(Math.abs(s), 0.02)), null, null, ReportColours.of(scored.get(ownIndex).classification())), false);
+            XYTextAnnotation label = new XYTextAnnotation(
+                    scored.get(ownIndex).participantCode() + " " + ReportFormat.signedScore(s), ownIndex,
+                    s >= 0 ? -0.25 : 0.25);
+            label.setFont(HIGHLIGHT_FONT);
+            label.setPaint(ReportColours.COPPER);
+            label.setTextAnchor(ownLabelAnchor(s, ownIndex < n / 2));
+            plot.addAnnotation(label, false);
+        }
+        return chart(plot);
+    }
+
+    private static TextAnchor ownLabelAnchor(double score, boolean leftHalf) {
+        return score >= 0
+                ? (leftHalf ? TextAnchor.TOP_LEFT : TextAnchor.TOP_RIGHT)
+                : (leftHalf ? TextAnchor.BOTTOM_LEFT : TextAnchor.BOTTOM_RIGHT);
+    }
+
+    private static NumberAxis scoreAxis(MeasurandSection m, double maxAbs, String symbol) {
+        NumberAxis scores = new NumberAxis(symbol);
+        styleAxisFonts(scores);
+        double limit = m.scoreKind() == ScoreKind.EN ? 2 : 3.5;
+        limit = Math.min(SCORE_AXIS_LIMIT, Math.max(limit, Math.ceil(maxAbs + 0.5)));
+        scores.setRange(-limit, limit);
+        scores.setNumberFormatOverride(numberFormat(limit > 4 ? 0 : 1));
+        return scores;
+    }
+
+    private static List<ValueMarker> scoreLines(MeasurandSection m) {
+        if (m.scoreKind() == ScoreKind.EN) {
+            return List.of(marker(1, ReportColours.BAD, REFERENCE_STROKE, "+1"),
+                    marker(-1, ReportColours.BAD, REFERENCE_STROKE, ReportFormat.MINUS + "1"));
+        }
+        return List.of(marker(2, ReportColours.WARN, DASHED_STROKE, "+2"),
+                marker(-2, ReportColours.WARN, DASHED_STROKE, ReportFormat.MINUS + "2"),
+                marker(3, ReportColours.BAD, REFERENCE_STROKE, "+3"),
+                marker(-3, ReportColours.BAD, REFERENCE_STROKE, ReportFormat.MINUS + "3"));
     }
 
     // ---------------------------------------------------------------- kernel density
@@ -242,54 +332,38 @@ public final class ReportCharts {
      * results. Returns {@code null} when there is no density (fewer than two distinct values).
      */
     public static ReportChart density(MeasurandSection m, String ownCode) {
-        List<ParticipantResult> used = densityResults(m);
-        double[] values = used.stream().mapToDouble(ParticipantResult::value).toArray();
-        if (values.length < 2 || allEqual(values)) {
+        return density(MeasurandChartData.of(m), ownCode);
+    }
+
+    /** The density chart from precomputed chart data; {@code null} when there is no density. */
+    public static ReportChart density(MeasurandChartData data, String ownCode) {
+        if (!data.hasDensity()) {
             return null;
         }
-        String caption = "Kernel density of the " + values.length + " results for " + m.title()
+        MeasurandSection m = data.measurand;
+        int count = data.densityResults.size();
+        String caption = "Kernel density of the " + count + " results for " + m.title()
                 + " (Gaussian kernel, Silverman bandwidth), with x_pt and x_pt \u00b1 2\u03c3_pt"
-                + (values.length <= MAX_RUG ? "; ticks mark the results." : ".")
+                + (count <= MAX_RUG ? "; ticks mark the results." : ".")
                 + (ownCode != null ? " Your result is marked in copper." : "");
-        return new ReportChart("density-" + safe(m.id()), caption, WIDTH, HEIGHT, values.length,
-                () -> buildDensity(m, used, values, ownCode));
+        return new ReportChart("density-" + safe(m.id()), caption, WIDTH, HEIGHT, count,
+                () -> buildDensity(data, ownCode));
     }
 
-    private static List<ParticipantResult> densityResults(MeasurandSection m) {
-        List<ParticipantResult> used = new ArrayList<>();
-        for (ParticipantResult r : m.results()) {
-            if (!r.excluded() && !r.lessThan() && !r.late() && Double.isFinite(r.value())) {
-                used.add(r);
-            }
-        }
-        return used;
-    }
-
-    private static JFreeChart buildDensity(MeasurandSection m, List<ParticipantResult> used, double[] values,
-            String ownCode) {
-        KernelDensity kde = KernelDensity.of(values);
-        double h = kde.bandwidth();
-        double lo = Math.min(min(values), m.assignedValue() - 3 * m.sigmaPt()) - 3 * h;
-        double hi = Math.max(max(values), m.assignedValue() + 3 * m.sigmaPt()) + 3 * h;
-        Range window = valueWindow(m);
-        lo = Math.max(lo, window.getLowerBound());
-        hi = Math.min(hi, window.getUpperBound());
+    private static JFreeChart buildDensity(MeasurandChartData d, String ownCode) {
+        MeasurandSection m = d.measurand;
+        List<ParticipantResult> used = d.densityResults;
         XYSeries curve = new XYSeries("density", false, true);
-        int points = 241;
-        double top = 0;
-        for (int i = 0; i < points; i++) {
-            double t = lo + (hi - lo) * i / (points - 1);
-            double f = kde.density(t);
-            top = Math.max(top, f);
-            curve.add(t, f);
+        for (int i = 0; i < d.curveX.length; i++) {
+            curve.add(d.curveX[i], d.curveY[i], false);
         }
         XYSeries rug = new XYSeries("results", false, true);
         XYSeries ownRug = new XYSeries("own", false, true);
         for (ParticipantResult r : used) {
             if (r.participantCode().equals(ownCode)) {
-                ownRug.add(r.value(), 0.0);
+                ownRug.add(r.value(), 0.0, false);
             } else if (used.size() <= MAX_RUG) {
-                rug.add(r.value(), 0.0);
+                rug.add(r.value(), 0.0, false);
             }
         }
         XYSeriesCollection curveData = new XYSeriesCollection(curve);
@@ -299,17 +373,19 @@ public final class ReportCharts {
 
         NumberAxis x = new NumberAxis(m.name() + ", " + m.unit());
         styleAxisFonts(x);
-        x.setRange(lo, hi);
+        x.setRange(d.densityLow, d.densityHigh);
         x.setNumberFormatOverride(numberFormat(m.reportingDigits()));
         NumberAxis y = new NumberAxis("density");
         styleAxisFonts(y);
         y.setTickLabelsVisible(false);
         y.setTickMarksVisible(false);
-        y.setRange(-top * 0.06, top * 1.12);
+        y.setRange(-d.densityTop * 0.06, d.densityTop * 1.12);
 
         XYLineAndShapeRenderer line = new XYLineAndShapeRenderer(true, false);
         line.setSeriesPaint(0, ReportColours.SLATE);
         line.setSeriesStroke(0, new BasicStroke(2f));
+        // the curve as one path rather than 240 separate segments
+        line.setDrawSeriesLineAsPath(true);
         XYPlot plot = new XYPlot(curveData, x, y, line);
         XYLineAndShapeRenderer ticks = new XYLineAndShapeRenderer(false, true);
         ticks.setSeriesShape(0, new Line2D.Double(0, -6, 0, 0));
@@ -335,23 +411,28 @@ public final class ReportCharts {
      * is limited to x_pt ± {@value #VALUE_AXIS_SIGMAS}σ_pt; results beyond lie off the chart.
      */
     public static ReportChart uncertaintyBars(MeasurandSection m, String ownCode) {
-        List<ParticipantResult> shown = new ArrayList<>();
-        for (ParticipantResult r : m.results()) {
-            if (!r.lessThan() && Double.isFinite(r.value())) {
-                shown.add(r);
-            }
-        }
-        shown.sort(Comparator.comparingDouble(ParticipantResult::value)
-                .thenComparing(ParticipantResult::participantCode));
-        long withU = shown.stream().filter(r -> r.expandedUncertainty() != null).count();
-        String caption = "Results for " + m.title() + " in increasing order with their expanded uncertainties U ("
-                + withU + " of " + shown.size() + " reported U), against x_pt (line) and x_pt \u00b1 2\u03c3_pt (band)."
-                + (ownCode != null ? " Your result is in copper." : "");
-        return new ReportChart("ubars-" + safe(m.id()), caption, WIDTH, HEIGHT, shown.size(),
-                () -> buildUncertaintyBars(m, shown, ownCode));
+        return uncertaintyBars(MeasurandChartData.of(m), ownCode);
     }
 
-    private static JFreeChart buildUncertaintyBars(MeasurandSection m, List<ParticipantResult> shown, String ownCode) {
+    /**
+     * The results-with-U chart from precomputed chart data. Above {@value #MAX_SINGLE_MARKS} results,
+     * all U bars are drawn as one stroked path and all points as one filled path (every result is
+     * still drawn); the own result is drawn on top in copper.
+     */
+    public static ReportChart uncertaintyBars(MeasurandChartData data, String ownCode) {
+        MeasurandSection m = data.measurand;
+        List<ParticipantResult> shown = data.shown;
+        String caption = "Results for " + m.title() + " in increasing order with their expanded uncertainties U ("
+                + data.shownWithU + " of " + shown.size() + " reported U), against x_pt (line) and x_pt \u00b1 2\u03c3_pt (band)."
+                + (ownCode != null ? " Your result is in copper." : "");
+        return new ReportChart("ubars-" + safe(m.id()), caption, WIDTH, HEIGHT, shown.size(),
+                () -> shown.size() > MAX_SINGLE_MARKS ? buildUncertaintyPaths(data, ownCode)
+                        : buildUncertaintyBars(data, ownCode));
+    }
+
+    private static JFreeChart buildUncertaintyBars(MeasurandChartData d, String ownCode) {
+        MeasurandSection m = d.measurand;
+        List<ParticipantResult> shown = d.shown;
         YIntervalSeries others = new YIntervalSeries("results", false, true);
         YIntervalSeries own = new YIntervalSeries("own", false, true);
         String[] codes = new String[shown.size()];
@@ -379,14 +460,7 @@ public final class ReportCharts {
         }
         styleAxisFonts(x);
         x.setRange(-0.8, shown.size() - 0.2);
-        NumberAxis y = new NumberAxis(m.name() + ", " + m.unit());
-        styleAxisFonts(y);
-        y.setNumberFormatOverride(numberFormat(m.reportingDigits()));
-        y.setRange(valueRange(m, shown.stream()
-                .flatMap(r -> r.expandedUncertainty() == null
-                        ? java.util.stream.Stream.of(r.value())
-                        : java.util.stream.Stream.of(r.value() - r.expandedUncertainty(), r.value() + r.expandedUncertainty()))
-                .mapToDouble(Double::doubleValue).toArray()));
+        NumberAxis y = valueAxis(m, d.uncertaintyRange);
 
         XYErrorRenderer renderer = new XYErrorRenderer();
         renderer.setDrawXError(false);
@@ -400,6 +474,65 @@ public final class ReportCharts {
         renderer.setErrorStroke(new BasicStroke(shown.size() > 200 ? 0.5f : 1f));
         renderer.setDefaultShapesFilled(true);
         XYPlot plot = new XYPlot(data, x, y, renderer);
+        styleUncertaintyPlot(plot, m);
+        return chart(plot);
+    }
+
+    /** The results-with-U chart of a large round: one path for the U bars, one for the points, the own result on top. */
+    private static JFreeChart buildUncertaintyPaths(MeasurandChartData d, String ownCode) {
+        MeasurandSection m = d.measurand;
+        List<ParticipantResult> shown = d.shown;
+        int n = shown.size();
+        int ownIndex = MeasurandChartData.indexOf(shown, ownCode);
+        Path2D.Double bars = new Path2D.Double(Path2D.WIND_NON_ZERO, 2 * n);
+        double[] xs = new double[n];
+        double[] ys = new double[n];
+        int points = 0;
+        for (int i = 0; i < n; i++) {
+            if (i == ownIndex) {
+                continue;
+            }
+            ParticipantResult r = shown.get(i);
+            if (r.expandedUncertainty() != null && r.expandedUncertainty() > 0) {
+                bars.moveTo(i, r.value() - r.expandedUncertainty());
+                bars.lineTo(i, r.value() + r.expandedUncertainty());
+            }
+            xs[points] = i;
+            ys[points] = r.value();
+            points++;
+        }
+        NumberAxis rank = new NumberAxis("participants in order of result");
+        styleAxisFonts(rank);
+        rank.setTickLabelsVisible(false);
+        rank.setTickMarksVisible(false);
+        rank.setRange(-0.8, n - 0.2);
+        NumberAxis y = valueAxis(m, d.uncertaintyRange);
+        XYPlot plot = new XYPlot(new XYSeriesCollection(), rank, y, new XYLineAndShapeRenderer(false, false));
+        styleUncertaintyPlot(plot, m);
+        plot.addAnnotation(new XYShapeAnnotation(bars, new BasicStroke(0.5f), ReportColours.SLATE, null), false);
+        plot.addAnnotation(new PointsAnnotation(java.util.Arrays.copyOf(xs, points), java.util.Arrays.copyOf(ys, points),
+                2.2, ReportColours.SLATE), false);
+        if (ownIndex >= 0) {
+            ParticipantResult r = shown.get(ownIndex);
+            if (r.expandedUncertainty() != null && r.expandedUncertainty() > 0) {
+                plot.addAnnotation(new XYLineAnnotation(ownIndex, r.value() - r.expandedUncertainty(), ownIndex,
+                        r.value() + r.expandedUncertainty(), new BasicStroke(1.5f), ReportColours.COPPER), false);
+            }
+            plot.addAnnotation(new PointsAnnotation(new double[] {ownIndex}, new double[] {r.value()}, 9,
+                    ReportColours.COPPER), false);
+        }
+        return chart(plot);
+    }
+
+    private static NumberAxis valueAxis(MeasurandSection m, Range range) {
+        NumberAxis y = new NumberAxis(m.name() + ", " + m.unit());
+        styleAxisFonts(y);
+        y.setNumberFormatOverride(numberFormat(m.reportingDigits()));
+        y.setRange(range);
+        return y;
+    }
+
+    private static void styleUncertaintyPlot(XYPlot plot, MeasurandSection m) {
         stylePlot(plot);
         plot.setDomainGridlinesVisible(false);
         IntervalMarker band = new IntervalMarker(m.assignedValue() - 2 * m.sigmaPt(),
@@ -408,7 +541,6 @@ public final class ReportCharts {
         plot.addRangeMarker(band, Layer.BACKGROUND);
         ValueMarker assigned = marker(m.assignedValue(), ReportColours.SLATE, REFERENCE_STROKE, X_PT);
         plot.addRangeMarker(assigned, Layer.FOREGROUND);
-        return chart(plot);
     }
 
     // ---------------------------------------------------------------- Youden plot
@@ -564,13 +696,13 @@ public final class ReportCharts {
     }
 
     /** The window of values a value axis may show: x_pt ± {@value #VALUE_AXIS_SIGMAS}σ_pt. */
-    private static Range valueWindow(MeasurandSection m) {
+    static Range valueWindow(MeasurandSection m) {
         double half = VALUE_AXIS_SIGMAS * m.sigmaPt();
         return new Range(m.assignedValue() - half, m.assignedValue() + half);
     }
 
     /** The data range, at least x_pt ± 3σ_pt, at most the value window, with a small margin. */
-    private static Range valueRange(MeasurandSection m, double[] values) {
+    static Range valueRange(MeasurandSection m, double[] values) {
         double lo = m.assignedValue() - 3 * m.sigmaPt();
         double hi = m.assignedValue() + 3 * m.sigmaPt();
         for (double v : values) {
@@ -582,31 +714,6 @@ public final class ReportCharts {
         hi = Math.min(hi, window.getUpperBound());
         double margin = (hi - lo) * 0.04;
         return new Range(lo - margin, hi + margin);
-    }
-
-    private static boolean allEqual(double[] values) {
-        for (double v : values) {
-            if (v != values[0]) {
-                return false;
-            }
-        }
-        return true;
-    }
-
-    private static double min(double[] values) {
-        double min = Double.POSITIVE_INFINITY;
-        for (double v : values) {
-            min = Math.min(min, v);
-        }
-        return min;
-    }
-
-    private static double max(double[] values) {
-        double max = Double.NEGATIVE_INFINITY;
-        for (double v : values) {
-            max = Math.max(max, v);
-        }
-        return max;
     }
 
     private static String safe(String id) {

@@ -29,6 +29,7 @@ import org.apache.pdfbox.cos.COSString;
 import org.apache.pdfbox.pdmodel.PDDocument;
 import org.apache.pdfbox.pdmodel.PDDocumentInformation;
 import org.jfree.chart.JFreeChart;
+import org.roundtable.report.chart.ChartDataCache;
 import org.roundtable.report.chart.ReportChart;
 import org.roundtable.report.model.LaboratoryReport;
 import org.roundtable.report.model.RoundReport;
@@ -53,7 +54,12 @@ import org.w3c.dom.Element;
  * (dates = issue date, 00:00 UTC), and the trailer's document id is a SHA-256 digest of the
  * XHTML, so the same model renders to the same bytes; the server can hash the result.
  *
- * <p>Thread-safe: every call builds its own renderer.
+ * <p>Chart data that is the same in every report of a round (scores in order, the density curve,
+ * axis ranges) is computed once per measurand section and kept by this renderer
+ * ({@link ChartDataCache}); use one renderer for the round report and all laboratory reports of a
+ * run, as the issue job does.
+ *
+ * <p>Thread-safe: every call builds its own openhtmltopdf renderer; the chart data cache is synchronised.
  */
 public final class PdfReportRenderer {
 
@@ -70,6 +76,8 @@ public final class PdfReportRenderer {
     private static final byte[] REGULAR_FONT = ReportFonts.withoutGlyphSubstitution(ReportFonts.REGULAR_RESOURCE);
     private static final byte[] BOLD_FONT = ReportFonts.withoutGlyphSubstitution(ReportFonts.BOLD_RESOURCE);
 
+    private final ChartDataCache chartData = new ChartDataCache();
+
     /** Renders the round report. */
     public byte[] render(RoundReport report) {
         return render(report, RenderProgress.NONE);
@@ -84,7 +92,8 @@ public final class PdfReportRenderer {
 
     /** Renders the round report to a stream (not closed), reporting progress. */
     public void render(RoundReport report, OutputStream out, RenderProgress progress) {
-        write(report, null, out, progress);
+        progress.progress(0.0, "building the document");
+        write(ReportDocument.build(report, ChartEmbedding.PDF_OBJECT, chartData), report, null, out, progress);
     }
 
     /** Renders a participant's report. */
@@ -101,12 +110,13 @@ public final class PdfReportRenderer {
 
     /** Renders a participant's report to a stream (not closed), reporting progress. */
     public void render(LaboratoryReport report, OutputStream out, RenderProgress progress) {
-        write(report.round(), report.ownParticipantCode(), out, progress);
+        progress.progress(0.0, "building the document");
+        write(ReportDocument.build(report, ChartEmbedding.PDF_OBJECT, chartData), report.round(),
+                report.ownParticipantCode(), out, progress);
     }
 
-    private void write(RoundReport report, String ownCode, OutputStream out, RenderProgress progress) {
-        progress.progress(0.0, "building the document");
-        ReportDocument.Built built = ReportDocument.build(report, ownCode, ChartEmbedding.PDF_OBJECT);
+    private void write(ReportDocument.Built built, RoundReport report, String ownCode, OutputStream out,
+            RenderProgress progress) {
         ChartDrawer drawer = new ChartDrawer(built.charts(), progress);
         progress.progress(0.05, "laying out pages");
 

@@ -14,11 +14,14 @@ import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.Optional;
+import org.roundtable.report.chart.ChartDataCache;
+import org.roundtable.report.chart.MeasurandChartData;
 import org.roundtable.report.chart.ReportChart;
 import org.roundtable.report.chart.ReportCharts;
 import org.roundtable.report.chart.SvgCharts;
 import org.roundtable.report.model.Exclusion;
 import org.roundtable.report.model.ItemCheck;
+import org.roundtable.report.model.LaboratoryReport;
 import org.roundtable.report.model.MeasurandSection;
 import org.roundtable.report.model.MethodGroupStatistics;
 import org.roundtable.report.model.PairedItems;
@@ -48,21 +51,30 @@ final class ReportDocument {
 
     static final String END_OF_REPORT = "End of report";
 
+    /** Height of the measurand charts in a laboratory report, in CSS pixels. */
+    static final int LABORATORY_CHART_HEIGHT = 190;
+
     private static final DateTimeFormatter DATE = DateTimeFormatter.ISO_LOCAL_DATE;
     private static final String CSS = loadCss();
 
     private final RoundReport report;
     private final String ownCode;
+    private final String roundReportId;
     private final ChartEmbedding embedding;
+    private final ChartDataCache chartData;
     private final StringBuilder out;
     private final Map<String, ReportChart> charts = new LinkedHashMap<>();
     private int section;
 
-    private ReportDocument(RoundReport report, String ownCode, ChartEmbedding embedding) {
+    private ReportDocument(RoundReport report, String ownCode, String roundReportId, ChartEmbedding embedding,
+            ChartDataCache chartData) {
         this.report = report;
         this.ownCode = ownCode;
+        this.roundReportId = roundReportId;
         this.embedding = embedding;
-        this.out = new StringBuilder(64 * 1024 + report.resultCount() * 700);
+        this.chartData = chartData;
+        this.out = new StringBuilder(ownCode == null ? 64 * 1024 + report.resultCount() * 700
+                : 64 * 1024 + report.measurands().size() * 4 * 1024);
     }
 
     /** The XHTML and the charts it refers to (by key), in document order. */
@@ -70,14 +82,30 @@ final class ReportDocument {
     }
 
     /**
-     * Builds the document.
+     * Builds the round report's document.
      *
      * @param report the round report
-     * @param ownCode the participant the report is for, or {@code null} for the round report
      * @param embedding how charts are embedded
+     * @param chartData chart data of the measurands, shared with other reports of the same round
      */
-    static Built build(RoundReport report, String ownCode, ChartEmbedding embedding) {
-        ReportDocument doc = new ReportDocument(report, ownCode, embedding);
+    static Built build(RoundReport report, ChartEmbedding embedding, ChartDataCache chartData) {
+        ReportDocument doc = new ReportDocument(report, null, null, embedding, chartData);
+        doc.write();
+        return new Built(doc.out.toString(), Map.copyOf(doc.charts));
+    }
+
+    /**
+     * Builds a laboratory report's document: its own results and scores, the round's key figures and
+     * the charts per measurand, no table of the other participants' results (those are in the round
+     * report, named by its report id).
+     *
+     * @param report the laboratory report
+     * @param embedding how charts are embedded
+     * @param chartData chart data of the measurands, shared with other reports of the same round
+     */
+    static Built build(LaboratoryReport report, ChartEmbedding embedding, ChartDataCache chartData) {
+        ReportDocument doc = new ReportDocument(report.round(), report.ownParticipantCode(), report.roundReportId(),
+                embedding, chartData);
         doc.write();
         return new Built(doc.out.toString(), Map.copyOf(doc.charts));
     }
@@ -97,11 +125,15 @@ final class ReportDocument {
         writeSchemeAndRound();
         if (forLaboratory()) {
             writeOwnSummary();
+            writeItem();
+            writeEvaluation();
+            writeOwnMeasurands();
+        } else {
+            writeItem();
+            writeEvaluation();
+            writeOverview();
+            writeMeasurands();
         }
-        writeItem();
-        writeEvaluation();
-        writeOverview();
-        writeMeasurands();
         writePairs();
         writeInterpretation();
         writeComments();
@@ -154,6 +186,7 @@ final class ReportDocument {
         identRow("Round", esc(report.round().roundId()));
         if (forLaboratory()) {
             identRow("Participant code", "<span class=\"you\">" + esc(ownCode) + "</span>");
+            identRow("Round report", esc(roundReportId) + " (every participant's results, by code)");
         }
         identRow("Provider", esc(id.providerName()));
         Signatory coordinator = report.signatures().coordinator();
@@ -187,6 +220,12 @@ final class ReportDocument {
         out.append("<p>Participants are identified only by their participant codes")
                 .append(forLaboratory() ? "; your code in this round is <span class=\"you\">" + esc(ownCode)
                         + "</span>." : ".").append("</p>\n");
+        if (forLaboratory()) {
+            out.append("<p>This report shows your own results and scores, the round's key figures and the charts, "
+                    + "in which other participants appear only as unlabelled bars and points (or by code in small "
+                    + "rounds). The results and scores of every participant, by code, are in the round report <b>")
+                    .append(esc(roundReportId)).append("</b>, which every participant receives.</p>\n");
+        }
     }
 
     private void writeSchemeAndRound() {
@@ -210,32 +249,142 @@ final class ReportDocument {
         }
     }
 
-    private void writeOwnSummary() {
-        heading("Your results at a glance", "own-summary");
-        out.append("<table class=\"results\">\n<thead><tr><th style=\"width: 24%\">Measurand</th>"
-                + "<th class=\"num\" style=\"width: 14%\">Your result</th><th class=\"num\" style=\"width: 10%\">U</th>"
-                + "<th class=\"num\" style=\"width: 10%\">x<sub>pt</sub></th>"
-                + "<th class=\"num\" style=\"width: 10%\">\u03c3<sub>pt</sub></th><th style=\"width: 7%\">Score</th>"
-                + "<th class=\"num\" style=\"width: 9%\">Value</th><th>Assessment</th></tr></thead>\n<tbody>\n");
-        for (MeasurandSection m : report.measurands()) {
-            for (ParticipantResult r : m.results()) {
-                if (!r.participantCode().equals(ownCode)) {
-                    continue;
-                }
-                Double s = ReportCharts.primaryScore(m, r);
-                out.append("<tr><td>").append(esc(m.title())).append("</td><td class=\"num\">")
-                        .append(esc(ReportFormat.minusSigns(r.reportedValue()))).append(" ").append(esc(m.unit()))
-                        .append("</td><td class=\"num\">").append(ReportFormat.decimal(r.expandedUncertainty(),
-                                dispersionDigits(m)))
-                        .append("</td><td class=\"num\">").append(ReportFormat.decimal(m.assignedValue(),
-                                m.reportingDigits()))
-                        .append("</td><td class=\"num\">").append(ReportFormat.decimal(m.sigmaPt(), dispersionDigits(m)))
-                        .append("</td><td>").append(ReportCharts.scoreSymbol(m.scoreKind()))
-                        .append("</td><td class=\"num\">").append(ReportFormat.score(s)).append("</td><td>")
-                        .append(assessment(r)).append("</td></tr>\n");
+    /** The participant's own result for a measurand, or {@code null} when it reported none. */
+    private ParticipantResult ownResult(MeasurandSection m) {
+        for (ParticipantResult r : m.results()) {
+            if (r.participantCode().equals(ownCode)) {
+                return r;
             }
         }
+        return null;
+    }
+
+    private void writeOwnSummary() {
+        heading("Your results at a glance", "own-summary");
+        out.append("<p>Every measurand of the round, with your result as reported. Scores are computed on the "
+                + "unrounded values and printed to two decimals; the assessment uses the score named in "
+                + "\u201cscore used\u201d.</p>\n");
+        out.append("<h4>Your results</h4>\n<table class=\"results\">\n<thead><tr><th style=\"width: 22%\">Measurand</th>"
+                + "<th class=\"num\" style=\"width: 13%\">Your result</th><th class=\"num\" style=\"width: 9%\">U</th>"
+                + "<th class=\"num\" style=\"width: 10%\">x<sub>pt</sub></th>"
+                + "<th class=\"num\" style=\"width: 9%\">u(x<sub>pt</sub>)</th>"
+                + "<th class=\"num\" style=\"width: 9%\">\u03c3<sub>pt</sub></th><th>Notes</th></tr></thead>\n<tbody>\n");
+        for (MeasurandSection m : report.measurands()) {
+            ParticipantResult r = ownResult(m);
+            int dd = dispersionDigits(m);
+            out.append("<tr><td>").append(esc(m.title())).append("</td><td class=\"num\">");
+            if (r == null) {
+                out.append("no result");
+            } else {
+                out.append(esc(ReportFormat.minusSigns(r.reportedValue()))).append(" ").append(esc(m.unit()));
+            }
+            out.append("</td><td class=\"num\">").append(r == null ? "" : ReportFormat.decimal(r.expandedUncertainty(), dd))
+                    .append("</td><td class=\"num\">").append(ReportFormat.decimal(m.assignedValue(), m.reportingDigits()))
+                    .append("</td><td class=\"num\">").append(ReportFormat.decimal(m.assignedValueUncertainty(), dd))
+                    .append("</td><td class=\"num\">").append(ReportFormat.decimal(m.sigmaPt(), dd))
+                    .append("</td><td>").append(r == null ? "" : notes(r)).append("</td></tr>\n");
+        }
         out.append("</tbody></table>\n");
+        out.append("<h4>Your scores</h4>\n<table class=\"results\">\n<thead><tr><th style=\"width: 22%\">Measurand</th>"
+                + "<th style=\"width: 10%\">Score used</th><th class=\"num\" style=\"width: 10%\">z</th>"
+                + "<th class=\"num\" style=\"width: 10%\">z\u2032</th><th class=\"num\" style=\"width: 10%\">\u03b6</th>"
+                + "<th class=\"num\" style=\"width: 10%\">En</th><th>Assessment</th></tr></thead>\n<tbody>\n");
+        for (MeasurandSection m : report.measurands()) {
+            ParticipantResult r = ownResult(m);
+            out.append("<tr><td>").append(esc(m.title())).append("</td><td>")
+                    .append(ReportCharts.scoreSymbol(m.scoreKind()));
+            if (r == null) {
+                out.append("</td><td class=\"num\"></td><td class=\"num\"></td><td class=\"num\"></td>"
+                        + "<td class=\"num\"></td><td class=\"unscored\">no result</td></tr>\n");
+                continue;
+            }
+            out.append("</td><td class=\"num\">").append(ReportFormat.score(r.z()))
+                    .append("</td><td class=\"num\">").append(ReportFormat.score(r.zPrime()))
+                    .append("</td><td class=\"num\">").append(ReportFormat.score(r.zeta()))
+                    .append("</td><td class=\"num\">").append(ReportFormat.score(r.en()))
+                    .append("</td>").append(assessmentCell(r)).append("</tr>\n");
+        }
+        out.append("</tbody></table>\n");
+    }
+
+    /** The laboratory's own results left out of the statistics (the round report lists everyone's). */
+    private void writeOwnExclusions() {
+        out.append("<h4>Your results left out of the statistics</h4>\n");
+        List<Exclusion> own = report.evaluation().exclusions().stream()
+                .filter(e -> e.participantCode().equals(ownCode)).toList();
+        if (own.isEmpty()) {
+            out.append("<p>None.</p>\n");
+            return;
+        }
+        out.append("<table>\n<thead><tr><th>Measurand</th><th>Reason</th></tr></thead>\n<tbody>\n");
+        for (Exclusion e : own) {
+            out.append("<tr><td>").append(esc(e.measurandId().isEmpty() ? "all"
+                            : report.measurand(e.measurandId()).map(MeasurandSection::title).orElse(e.measurandId())))
+                    .append("</td><td>").append(sym(e.reason())).append("</td></tr>\n");
+        }
+        out.append("</tbody></table>\n");
+    }
+
+    private void writeOwnMeasurands() {
+        heading("Your results by measurand", "measurands");
+        out.append("<p>Each measurand starts on a new page: the round's key figures, your result and score, and "
+                + "the charts with your bar or point in copper. Statistics by method group and the results of every "
+                + "participant are in the round report ").append(esc(roundReportId)).append(".</p>\n");
+        int sub = 0;
+        for (MeasurandSection m : report.measurands()) {
+            sub++;
+            writeOwnMeasurand(m, section + "." + sub);
+        }
+    }
+
+    private void writeOwnMeasurand(MeasurandSection m, String number) {
+        int d = m.reportingDigits();
+        int dd = dispersionDigits(m);
+        String unit = " " + esc(m.unit());
+        out.append("<div class=\"measurand\">\n<h3 id=\"m-").append(esc(m.id())).append("\">").append(number).append(" ")
+                .append(esc(m.title())).append(", ").append(esc(m.unit())).append("</h3>\n");
+        // compact key figures, so that the figures and the three charts of a measurand fit on one page
+        out.append("<table class=\"keep\">\n<colgroup><col style=\"width: 27%\"/><col style=\"width: 30%\"/><col/>"
+                + "</colgroup>\n<tbody>\n");
+        keyRow("Results used (n)", String.valueOf(m.n()), "");
+        keyRow("x<sub>pt</sub> / u(x<sub>pt</sub>)", ReportFormat.decimal(m.assignedValue(), d) + " / "
+                + ReportFormat.decimal(m.assignedValueUncertainty(), dd) + unit, sym(m.assignedValueMethod()));
+        keyRow("\u03c3<sub>pt</sub>", ReportFormat.decimal(m.sigmaPt(), dd) + unit, sym(m.sigmaPtMethod()));
+        var robust = m.robust();
+        keyRow("Robust mean x* / SD s*", ReportFormat.decimal(robust.robustMean(), d) + " / "
+                + ReportFormat.decimal(robust.robustSd(), dd) + unit, esc(robust.method()) + ", " + robust.iterations()
+                + " iterations, " + (robust.converged() ? "converged" : "<b>not converged</b>"));
+        keyRow("Median / MADe / nIQR", ReportFormat.decimal(robust.median(), d) + " / "
+                + ReportFormat.decimal(robust.scaledMad(), dd) + " / " + ReportFormat.decimal(robust.normalizedIqr(), dd)
+                + unit, "");
+        keyRow("Score used", ReportCharts.scoreSymbol(m.scoreKind()), sym(m.scoreChoiceReason()));
+        ParticipantResult r = ownResult(m);
+        if (r == null) {
+            out.append("<tr class=\"own\"><th>Your result</th><td class=\"num\">no result</td><td></td></tr>\n");
+        } else {
+            Double score = ReportCharts.primaryScore(m, r);
+            String u = r.expandedUncertainty() == null ? ""
+                    : " \u00b1 " + ReportFormat.decimal(r.expandedUncertainty(), dd) + " (U)";
+            out.append("<tr class=\"own\"><th>Your result</th><td class=\"num\">")
+                    .append(esc(ReportFormat.minusSigns(r.reportedValue()))).append(unit).append(u)
+                    .append("</td><td>").append(ReportCharts.scoreSymbol(m.scoreKind())).append(" = ")
+                    .append(ReportFormat.score(score)).append(", ").append(assessment(r));
+            String notes = notes(r);
+            if (!notes.isEmpty()) {
+                out.append("; ").append(notes);
+            }
+            out.append("</td></tr>\n");
+        }
+        out.append("</tbody></table>\n");
+        if (!m.warnings().isEmpty()) {
+            out.append("<div class=\"warnings\"><b>Warnings</b><ul>\n");
+            for (String w : m.warnings()) {
+                out.append("<li>").append(sym(w)).append("</li>\n");
+            }
+            out.append("</ul></div>\n");
+        }
+        writeCharts(m);
+        out.append("</div>\n");
     }
 
     // ---------------------------------------------------------------- item and evaluation
@@ -299,7 +448,11 @@ final class ReportDocument {
         }
         out.append("</table>\n<p>How the assigned value x<sub>pt</sub> and the standard deviation for proficiency "
                 + "assessment \u03c3<sub>pt</sub> were set is stated for each measurand in section ")
-                .append(section + 2).append(".</p>\n");
+                .append(section + (forLaboratory() ? 1 : 2)).append(".</p>\n");
+        if (forLaboratory()) {
+            writeOwnExclusions();
+            return;
+        }
         out.append("<h4>Results left out of the statistics</h4>\n");
         if (notes.exclusions().isEmpty()) {
             out.append("<p>None.</p>\n");
@@ -401,12 +554,26 @@ final class ReportDocument {
             out.append("</ul></div>\n");
         }
 
-        figure(ReportCharts.scoreBars(m, ownCode));
-        figure(ReportCharts.density(m, ownCode));
-        figure(ReportCharts.uncertaintyBars(m, ownCode));
+        writeCharts(m);
 
         writeResultsTable(m);
         out.append("</div>\n");
+    }
+
+    private void writeCharts(MeasurandSection m) {
+        MeasurandChartData data = chartData.get(m);
+        figure(compact(ReportCharts.scoreBars(data, ownCode)));
+        figure(compact(ReportCharts.density(data, ownCode)));
+        figure(compact(ReportCharts.uncertaintyBars(data, ownCode)));
+    }
+
+    /** In a laboratory report the measurand charts are a little lower, so figures and charts fit on one page. */
+    private ReportChart compact(ReportChart chart) {
+        if (chart == null || !forLaboratory()) {
+            return chart;
+        }
+        return new ReportChart(chart.key(), chart.caption(), chart.width(), LABORATORY_CHART_HEIGHT, chart.markCount(),
+                chart.factory());
     }
 
     private void keyRow(String label, String value, String how) {

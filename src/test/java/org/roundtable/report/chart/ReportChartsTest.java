@@ -111,16 +111,57 @@ class ReportChartsTest {
     }
 
     @Test
-    void aThousandParticipantsGiveAThousandBarsWithoutCodesOnTheAxis() throws Exception {
+    void aThousandParticipantsGiveAThousandBarsAsOnePathPerColourWithoutCodesOnTheAxis() throws Exception {
         RoundReport large = SampleRoundBuilder.synthetic(1000, 1).build();
-        String svg = SvgCharts.toSvgElement(ReportCharts.scoreBars(large.measurands().get(0), null));
+        MeasurandSection m = large.measurands().get(0);
+        String svg = SvgCharts.toSvgElement(ReportCharts.scoreBars(m, null));
         Document document = parse(svg);
-        // a score of exactly 0 (result equal to x_pt) is a bar of no height, which is not drawn
-        long nonZero = large.measurands().get(0).results().stream().filter(r -> r.z() != 0.0).count();
-        assertThat(nonZero).isGreaterThan(900);
-        assertThat(filledRectangles(document, Set.of(ReportColours.GOOD, ReportColours.WARN, ReportColours.BAD)))
-                .hasSize((int) nonZero);
+        long scored = m.results().stream().filter(r -> r.z() != null).count();
+        assertThat(scored).isGreaterThan(900);
+        List<Element> paths = filledPaths(document, Set.of(ReportColours.GOOD, ReportColours.WARN, ReportColours.BAD));
+        // every bar is drawn, as the top of an outline in the path of its classification's colour
+        assertThat(paths).hasSizeBetween(1, 3);
+        assertThat(paths.stream().mapToInt(ReportChartsTest::barsInOutlines).sum()).isEqualTo((int) scored);
+        assertThat(filledRectangles(document, Set.of(ReportColours.GOOD, ReportColours.WARN, ReportColours.BAD))).isEmpty();
         assertThat(svg).doesNotContain(">P0001<");
+    }
+
+    @Test
+    void inALargeRoundOnlyTheOwnBarAndPointKeepTheirFullColourAndTheOwnBarIsLabelled() throws Exception {
+        RoundReport large = SampleRoundBuilder.synthetic(1000, 1).build();
+        MeasurandSection m = large.measurands().get(0);
+        MeasurandChartData data = MeasurandChartData.of(m);
+        String own = "P0421";
+        Document bars = parse(SvgCharts.toSvgElement(ReportCharts.scoreBars(data, own)));
+        Set<java.awt.Color> full = Set.of(ReportColours.GOOD, ReportColours.WARN, ReportColours.BAD);
+        List<Element> fullColour = filledPaths(bars, full);
+        fullColour.addAll(filledRectangles(bars, full));
+        assertThat(fullColour).hasSize(1);
+        Double z = m.results().stream().filter(r -> r.participantCode().equals(own)).findFirst().orElseThrow().z();
+        assertThat(SvgCharts.toSvgElement(ReportCharts.scoreBars(data, own)))
+                .contains(">" + own + " " + org.roundtable.report.style.ReportFormat.signedScore(z) + "<");
+        long pale = filledPaths(bars, Set.of(ReportColours.pale(ReportColours.GOOD), ReportColours.pale(ReportColours.WARN),
+                ReportColours.pale(ReportColours.BAD))).stream().mapToInt(ReportChartsTest::barsInOutlines).sum();
+        assertThat(pale).isEqualTo(m.results().stream().filter(r -> r.z() != null && !r.participantCode().equals(own)).count());
+
+        ReportChart points = ReportCharts.uncertaintyBars(data, own);
+        Document u = parse(SvgCharts.toSvgElement(points));
+        // all other points in one slate path, the own point alone in copper
+        assertThat(filledPaths(u, Set.of(ReportColours.SLATE)).stream().mapToInt(ReportChartsTest::subpaths).sum())
+                .isEqualTo(points.markCount() - 1);
+        assertThat(filledPaths(u, Set.of(ReportColours.COPPER)).stream().mapToInt(ReportChartsTest::subpaths).sum())
+                .isEqualTo(1);
+    }
+
+    @Test
+    void chartDataIsComputedOncePerSectionAndGivesTheSameChartsAsComputedAfresh() {
+        ChartDataCache cache = new ChartDataCache();
+        MeasurandSection m = round.measurand("Mn-A").orElseThrow();
+        assertThat(cache.get(m)).isSameAs(cache.get(m));
+        assertThat(SvgCharts.toSvgElement(ReportCharts.scoreBars(cache.get(m), "P05")))
+                .isEqualTo(SvgCharts.toSvgElement(ReportCharts.scoreBars(m, "P05")));
+        assertThat(SvgCharts.toSvgElement(ReportCharts.density(cache.get(m), "P05")))
+                .isEqualTo(SvgCharts.toSvgElement(ReportCharts.density(m, "P05")));
     }
 
     static Document parse(String svg) throws Exception {
@@ -142,5 +183,37 @@ class ReportChartsTest {
             }
         }
         return found;
+    }
+
+    static List<Element> filledPaths(Document svg, Set<java.awt.Color> colours) {
+        List<String> fills = colours.stream()
+                .map(c -> "fill:rgb(" + c.getRed() + "," + c.getGreen() + "," + c.getBlue() + ")").toList();
+        List<Element> found = new ArrayList<>();
+        NodeList paths = svg.getElementsByTagNameNS("*", "path");
+        for (int i = 0; i < paths.getLength(); i++) {
+            Element path = (Element) paths.item(i);
+            // JFreeSVG puts the fill of a path either on the path or on the group around it
+            String style = path.getAttribute("style").isEmpty() && path.getParentNode() instanceof Element parent
+                    ? parent.getAttribute("style") : path.getAttribute("style");
+            if (fills.stream().anyMatch(style::startsWith)) {
+                found.add(path);
+            }
+        }
+        return found;
+    }
+
+    /**
+     * Bars in an SVG path of bar outlines: each outline is a move-to at zero, two line-tos per bar
+     * (along its top) and one line-to back down to zero.
+     */
+    static int barsInOutlines(Element path) {
+        String d = path.getAttribute("d");
+        long lines = d.chars().filter(c -> c == 'L').count();
+        return (int) (lines - subpaths(path)) / 2;
+    }
+
+    /** Number of subpaths (move-to commands) of an SVG path. */
+    static int subpaths(Element path) {
+        return (int) path.getAttribute("d").chars().filter(c -> c == 'M').count();
     }
 }

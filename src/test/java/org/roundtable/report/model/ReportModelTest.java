@@ -28,6 +28,13 @@ class ReportModelTest {
     }
 
     @Test
+    void aLaboratoryReportNamesTheRoundReportWithEveryonesResults() {
+        assertThat(new LaboratoryReport(round, "P03").roundReportId()).isEqualTo(round.identity().reportId());
+        assertThat(new LaboratoryReport(round, "P03", "LAS-2026-2-R-F").roundReportId()).isEqualTo("LAS-2026-2-R-F");
+        assertThatThrownBy(() -> new LaboratoryReport(round, "P03", null)).isInstanceOf(NullPointerException.class);
+    }
+
+    @Test
     void aSchemeThatRequiresASecondReviewerCannotIssueWithoutOne() {
         Signatures coordinatorOnly = new Signatures(round.signatures().coordinator(), null);
         assertThatThrownBy(() -> new RoundReport(round.identity(), round.scheme(), round.round(), round.item(),

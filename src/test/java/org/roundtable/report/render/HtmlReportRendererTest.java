@@ -77,14 +77,16 @@ class HtmlReportRendererTest {
 
     @Test
     void theLaboratoryPageMarksItsOwnRowsAndHighlightsItsBars() {
-        assertThat(labHtml).contains("<tr class=\"own\"><td>P05 (you)</td>")
-                .contains("Your results at a glance").contains(">P05 \u22122.30<");
-        assertThat(html).doesNotContain("(you)").doesNotContain("Your results at a glance");
+        assertThat(labHtml).contains("<tr class=\"own\"><th>Your result</th>")
+                .contains("Your results at a glance").contains(">P05 \u22122.30<")
+                .doesNotContain("Results and scores").doesNotContain("<tr class=\"own\"><td>");
+        assertThat(html).doesNotContain("Your result").doesNotContain("<tr class=\"own\">");
     }
 
     @Test
     void renderingTwiceGivesTheSameText() {
         assertThat(new HtmlReportRenderer().render(round)).isEqualTo(html);
+        assertThat(new HtmlReportRenderer().render(new LaboratoryReport(round, "P05"))).isEqualTo(labHtml);
     }
 
     private static Document parse(String xhtml) throws Exception {

@@ -196,16 +196,59 @@ class PdfReportRendererTest {
     @Test
     void laboratoryReportMarksItsOwnResultsAndShowsOthersOnlyByCode() {
         assertThat(labText).contains("Participant report").contains("Participant code P05")
-                .contains("Your results at a glance").contains("P05 (you)")
-                .contains("participant P05");
-        Matcher own = Pattern.compile("Manganese \\(item A\\) 0\\.702 % .*").matcher(labText);
-        assertThat(own.find()).isTrue();
-        assertThat(own.group()).contains("\u22122.30").contains("questionable");
-        assertThat(labText).contains("P01").contains("P12");
+                .contains("Your results at a glance").contains("participant P05");
+        Matcher value = Pattern.compile("Manganese \\(item A\\) 0\\.702 % .*").matcher(labText);
+        assertThat(value.find()).isTrue();
+        Matcher score = Pattern.compile("Manganese \\(item A\\) z .*").matcher(labText);
+        assertThat(score.find()).isTrue();
+        assertThat(score.group()).contains("\u22122.30").contains("questionable");
+        assertThat(labText).containsPattern("Your result 0\\.702 %.*z = \u22122\\.30, questionable");
         for (String name : LABORATORY_NAMES) {
             assertThat(labText).doesNotContain(name);
             assertThat(roundText).doesNotContain(name);
         }
+    }
+
+    @Test
+    void laboratoryReportHasItsOwnShapeAndPointsToTheRoundReportForEveryonesResults() {
+        List<String> titles = List.of("Participant report", "Round report LAS-2026-2-R1", "1 Status and confidentiality",
+                "2 Scheme and round", "3 Your results at a glance", "Your results", "Your scores", "4 The test item",
+                "5 How the results were evaluated", "Your results left out of the statistics",
+                "6 Your results by measurand", "Results used (n)", "Robust mean x* / SD s*", "Your result", "7 Paired items",
+                "8 Reading the scores", "Scores support, and do not replace", "9 Coordinator\u2019s comments",
+                "10 Sign-off", "End of report LAS-2026-2-R1");
+        int at = -1;
+        for (String title : titles) {
+            int next = labText.indexOf(title, at + 1);
+            assertThat(next).as("section %s after position %d", title, at).isGreaterThan(at);
+            at = next;
+        }
+        // no table of every participant's results, no other participant's exclusion, no method groups
+        assertThat(labText).doesNotContain("Results and scores").doesNotContain("(you)")
+                .doesNotContain("unit error (reported in mg/kg)").doesNotContain("Method groups")
+                .doesNotContain("Measurands at a glance");
+        assertThat(labText).contains("are in the round report LAS-2026-2-R1");
+    }
+
+    @Test
+    void aLaboratoryReportIssuedUnderItsOwnNumberNamesTheRoundReport() {
+        RoundReport issued = SampleRoundBuilder.lowAlloySteel().status(ReportStatus.FINAL, "LAS-2026-2-P05-F").build();
+        String text = text(new PdfReportRenderer().render(new LaboratoryReport(issued, "P05", "LAS-2026-2-R-F")));
+        assertThat(text).contains("Round report LAS-2026-2-R-F").contains("End of report LAS-2026-2-P05-F")
+                .contains("participant P05");
+    }
+
+    @Test
+    void renderingTheSameLaboratoryReportTwiceGivesIdenticalBytes() {
+        byte[] again = new PdfReportRenderer().render(new LaboratoryReport(round, "P05"));
+        assertThat(again).isEqualTo(labPdf);
+    }
+
+    @Test
+    void theExcludedParticipantSeesItsOwnExclusionWithItsReason() {
+        String text = text(new PdfReportRenderer().render(new LaboratoryReport(round, "P12")));
+        assertThat(text).containsPattern("Your results left out of the statistics\\s+Measurand Reason\\s+Nickel")
+                .contains("unit error (reported in mg/kg)");
     }
 
     @Test
