@@ -11,7 +11,8 @@ import java.util.TreeMap;
 /**
  * What an evaluation run takes besides the plan and the results: the blunders marked now
  * ({@link ExclusionService}) and each measurand's latest qualification decision with the between-item SD s_s of
- * its latest homogeneity check ({@link QualificationService}). Loaded once per run, before the measurands are
+ * its latest homogeneity check and the difference |ȳ1 − ȳ2| of its latest stability check
+ * ({@link QualificationService}). Loaded once per run, before the measurands are
  * evaluated, and appended to the run's inputs text.
  */
 @ApplicationScoped
@@ -25,14 +26,26 @@ public class EvaluationAdjustments {
         this.qualification = qualification;
     }
 
-    /** A measurand's latest qualification decision and the s_s of its latest homogeneity check (null if none). */
-    public record Decision(String element, String decision, Double betweenItemSd) {
+    /**
+     * A measurand's latest qualification decision, the s_s of its latest homogeneity check and the difference
+     * |ȳ1 − ȳ2| of its latest stability check (each null if there is none).
+     */
+    public record Decision(String element, String decision, Double betweenItemSd, Double stabilityDifference) {
 
-        /** Whether the decision adds u_hom to u(x_pt) or widens σpt (and there is an s_s to do it with). */
+        /**
+         * Whether the decision adds u_hom (and u_stab) to u(x_pt) or widens σpt, and there are the figures to do it
+         * with (s_s; for the stability decision also |ȳ1 − ȳ2|).
+         */
         public boolean changesNumbers() {
             return betweenItemSd != null
                     && (QualificationService.Decision.ADD_HOMOGENEITY_UNCERTAINTY.name().equals(decision)
-                    || QualificationService.Decision.WIDEN_SIGMA_PT.name().equals(decision));
+                    || QualificationService.Decision.WIDEN_SIGMA_PT.name().equals(decision)
+                    || addsStability() && stabilityDifference != null);
+        }
+
+        /** Whether the decision is the one that adds u_stab as well as u_hom. */
+        public boolean addsStability() {
+            return QualificationService.Decision.ADD_HOMOGENEITY_AND_STABILITY_UNCERTAINTY.name().equals(decision);
         }
     }
 
@@ -56,15 +69,23 @@ public class EvaluationAdjustments {
          * Appends to a run's inputs text, after the result lines, one line per current mark
          * ({@code exclusion <id> <laboratory id> <element> <item> <reason>}, tab-separated, in id order) and one per
          * measurand whose decision changes the numbers ({@code qualification <element> <decision> <s_s>}, in
-         * element order). A run without either has exactly the inputs text it had before these lines existed.
+         * element order; the decision that adds u_stab appends {@code <|ȳ1 − ȳ2|>} as a fifth field). A run without
+         * either has exactly the inputs text it had before these lines existed, and a line of the older decisions is
+         * unchanged.
          */
         public void appendTo(StringBuilder inputs) {
             exclusions.values().stream().sorted(java.util.Comparator.comparingLong(ExclusionService.Current::id))
                     .forEach(e -> inputs.append(String.join("\t", "exclusion", Long.toString(e.id()),
                             Long.toString(e.laboratoryId()), e.element(), e.itemLabel(), e.reason())).append('\n'));
             new TreeMap<>(decisions).values().stream().filter(Decision::changesNumbers)
-                    .forEach(d -> inputs.append(String.join("\t", "qualification", d.element(), d.decision(),
-                            Double.toString(d.betweenItemSd()))).append('\n'));
+                    .forEach(d -> {
+                        inputs.append(String.join("\t", "qualification", d.element(), d.decision(),
+                                Double.toString(d.betweenItemSd())));
+                        if (d.addsStability()) {
+                            inputs.append('\t').append(Double.toString(d.stabilityDifference()));
+                        }
+                        inputs.append('\n');
+                    });
         }
     }
 
@@ -75,7 +96,8 @@ public class EvaluationAdjustments {
         for (QualificationService.MeasurandQualification q : qualification.status(roundId)) {
             if (q.decision() != null) {
                 decisions.put(q.element(), new Decision(q.element(), q.decision().decision(),
-                        q.homogeneity() == null ? null : q.homogeneity().betweenItemSd()));
+                        q.homogeneity() == null ? null : q.homogeneity().betweenItemSd(),
+                        q.stability() == null ? null : q.stability().difference()));
             }
         }
         return new Loaded(exclusions.current(roundId), decisions);

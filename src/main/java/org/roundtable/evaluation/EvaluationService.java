@@ -73,8 +73,11 @@ import java.util.TreeMap;
  * qualification decision is applied: {@code ADD_HOMOGENEITY_UNCERTAINTY} gives
  * u(x_pt) = sqrt(u_char² + u_hom²) with u_hom = s_s of the latest homogeneity check (a reference value only; the
  * z/z′ choice then uses it), {@code WIDEN_SIGMA_PT} gives σpt' = sqrt(σpt² + s_s²) for a σpt known before the
- * round's data (ISO 13528:2015, clause 7 and Annex B; sub-clauses from memory). No decision records a stability
- * uncertainty, so u_stab is never added.
+ * round's data (ISO 13528:2015, clause 7 and Annex B; sub-clauses from memory).
+ * {@code ADD_HOMOGENEITY_AND_STABILITY_UNCERTAINTY} gives u(x_pt) = sqrt(u_char² + u_hom² + u_stab²) with
+ * u_stab = |ȳ1 − ȳ2|/√3 of the latest stability check, the observed difference taken as the half-width of a
+ * rectangular distribution (ISO 13528:2015 / ISO Guide 35:2017 practice, from memory), again for a reference value
+ * only: a consensus is measured on the items as they were during the round.
  * The run stores the SHA-256 of its inputs (plan version and hash, and every result read) and of its outputs,
  * and is audited as one event carrying the outputs hash. A preview (round still open for results) is a run like
  * any other, marked {@code preview}; all of it is for coordinators only.
@@ -390,7 +393,7 @@ public class EvaluationService {
                 default -> null;
             };
         }
-        // the qualification decision: u_hom into u(x_pt) of a reference value, or σpt widened by s_s
+        // the qualification decision: u_hom (and u_stab) into u(x_pt) of a reference value, or σpt widened by s_s
         List<String> components = new ArrayList<>(List.of("u_char"));
         boolean widened = false;
         EvaluationAdjustments.Decision decision = adjusted.decisionOf(mp.element());
@@ -398,7 +401,28 @@ public class EvaluationService {
             double ss = decision.betweenItemSd();
             boolean reference = method.equals(EvaluationPlan.AssignedValueMethod.CERTIFIED_REFERENCE.name())
                     || method.equals(EvaluationPlan.AssignedValueMethod.REFERENCE_LABORATORY.name());
-            if (decision.decision().equals(QualificationService.Decision.ADD_HOMOGENEITY_UNCERTAINTY.name())) {
+            if (decision.addsStability()) {
+                if (reference && assigned != null) {
+                    double uChar = assignedU == null ? 0 : assignedU / MeasurandEvaluation.DEFAULT_COVERAGE_FACTOR;
+                    double uStab = AssignedValueUncertainty.stabilityFromDifference(decision.stabilityDifference());
+                    double combined = AssignedValueUncertainty.combined(uChar, ss, uStab);
+                    assignedU = MeasurandEvaluation.DEFAULT_COVERAGE_FACTOR * combined;
+                    components.add("u_hom");
+                    components.add("u_stab");
+                    extra.add(new EvaluationViews.Warning("u-hom-u-stab-added", String.format(Locale.ROOT,
+                            "u(x_pt) includes u_hom = s_s = %s %s and u_stab = |ȳ1 − ȳ2|/√3 = %s/√3 = %s %s"
+                            + " (qualification decision ADD_HOMOGENEITY_AND_STABILITY_UNCERTAINTY): u(x_pt) ="
+                            + " sqrt(u_char² + u_hom² + u_stab²) = sqrt(%s² + %s² + %s²) = %s (ISO 13528:2015, clause 7"
+                            + " and Annex B; ISO Guide 35:2017; from memory)",
+                            Double.toString(ss), unit, Double.toString(decision.stabilityDifference()),
+                            Double.toString(uStab), unit, Double.toString(uChar), Double.toString(ss),
+                            Double.toString(uStab), Double.toString(combined))));
+                } else {
+                    extra.add(new EvaluationViews.Warning("u-hom-u-stab-not-added", "The qualification decision adds"
+                            + " u_hom and u_stab to u(x_pt), but the plan's assigned value is a consensus of the round"
+                            + " (measured on the items as they were during the round) or missing: they are not added"));
+                }
+            } else if (decision.decision().equals(QualificationService.Decision.ADD_HOMOGENEITY_UNCERTAINTY.name())) {
                 if (reference && assigned != null) {
                     double uChar = assignedU == null ? 0 : assignedU / MeasurandEvaluation.DEFAULT_COVERAGE_FACTOR;
                     double combined = AssignedValueUncertainty.combined(uChar, ss, 0);

@@ -365,6 +365,79 @@ class EvaluationRulesTest {
         assertThat(cr.rules().qualificationDecision()).isEqualTo("WIDEN_SIGMA_PT");
     }
 
+    @Test
+    void aDecisionToAddUHomAndUStabPutsBothIntoUOfTheAssignedValue() {
+        long[] labs = labs(2);
+        long round = world.round(RoundState.ENROLLING, new EvaluationPlan(List.of(certifiedCr("18.12", "0.056", "0.10",
+                null))), Round.LatePolicy.REFUSE, labs);
+        World.Browser coordinator = world.signIn(world.user("coordinator", null));
+        coordinator.json().body(Map.of("csv", resource("/scheme/homogeneity-cr-stainless.csv")))
+                .post("/api/v1/rounds/" + round + "/qualification/homogeneity").then().statusCode(200);
+        coordinator.json().body(Map.of("csv", resource("/scheme/stability-cr-stainless.csv")))
+                .post("/api/v1/rounds/" + round + "/qualification/stability").then().statusCode(200);
+        coordinator.json().body(Map.of("element", "Cr", "decision", "ADD_HOMOGENEITY_AND_STABILITY_UNCERTAINTY",
+                "reason", "the discs may change a little over the round")).post("/api/v1/rounds/" + round
+                + "/qualification/decisions").then().statusCode(200);
+        world.sql("UPDATE round SET state = 'CLOSED' WHERE id = ?", round);
+        world.reportResult(round, labs[0], "Cr", "18.20", null, "spark-oes", false);
+        world.reportResult(round, labs[1], "Cr", "18.10", "0.04", "spark-oes", false);
+
+        EvaluationViews.Run run = evaluations.run(round, false, COORDINATOR);
+        EvaluationViews.MeasurandOutcome cr = run.measurands().get(0);
+
+        // u_char = 0.056/2 = 0.028; u_hom² = s_s² = 0.000136666667 (statistics reference §14.8, CALC);
+        // u_stab = |ȳ1 − ȳ2|/√3 = 0.011/√3 (§14.9, CALC; rectangular half-width, ISO 13528:2015 / ISO Guide 35:2017
+        // practice, from memory); u(x_pt)² = 0.000784 + 0.000136666667 + 0.000121/3 = 0.000961, u(x_pt) = 0.031
+        // (CALC: python3 -c 'import math; print(math.sqrt(0.028**2 + (0.000553333333333333 - 0.00028)/2
+        // + (0.011/math.sqrt(3))**2))' -> 0.031), rel 1e-6
+        assertThat(cr.assignedValueUncertainty()).isCloseTo(0.031, within(0.031 * 1e-6));
+        // u(x_pt) > 0.3·σpt: z′ classifies (ISO 13528:2015, 9.2.1); z′ = 0.08/sqrt(0.01 + 0.031²) = 0.76412586
+        // (CALC: python3 -c 'import math; print(0.08/math.sqrt(0.01+0.031**2))'), rel 1e-6
+        assertThat(cr.scoreUsed()).isEqualTo("zPrime");
+        assertThat(scoreOf(cr, labs[0]).zPrime()).isCloseTo(0.76412586, within(0.76412586 * 1e-6));
+        assertThat(cr.warnings()).extracting(EvaluationViews.Warning::code).contains("u-hom-u-stab-added")
+                .doesNotContain("u-hom-added");
+        assertThat(cr.warnings().stream().filter(w -> w.code().equals("u-hom-u-stab-added")).findFirst().orElseThrow()
+                .message()).contains("u_hom = s_s = 0.0116904").contains("u_stab = |ȳ1 − ȳ2|/√3 = 0.01")
+                .contains("= 0.0063508");
+        assertThat(cr.rules().qualificationDecision()).isEqualTo("ADD_HOMOGENEITY_AND_STABILITY_UNCERTAINTY");
+        assertThat(cr.rules().assignedValueUncertaintyComponents()).containsExactly("u_char", "u_hom", "u_stab");
+        // the decision is kept in the run's inputs: s_s, then |ȳ1 − ȳ2| as a fifth field
+        String trailer = world.text("SELECT inputs_trailer FROM evaluation_run WHERE round_id = ? AND version = ?",
+                round, run.run().version());
+        assertThat(trailer).matches("qualification\tCr\tADD_HOMOGENEITY_AND_STABILITY_UNCERTAINTY\t0\\.0116904\\d*"
+                + "\t0\\.01[01]\\d*\n");
+    }
+
+    @Test
+    void theDecisionToAddUStabIsRefusedWithoutStabilityDataAndForAConsensus() {
+        long[] labs = labs(2);
+        long round = world.round(RoundState.ENROLLING, new EvaluationPlan(List.of(certifiedCr("18.12", "0.056", "0.10",
+                null))), Round.LatePolicy.REFUSE, labs);
+        World.Browser coordinator = world.signIn(world.user("coordinator", null));
+        coordinator.json().body(Map.of("csv", resource("/scheme/homogeneity-cr-stainless.csv")))
+                .post("/api/v1/rounds/" + round + "/qualification/homogeneity").then().statusCode(200);
+        var refused = coordinator.json().body(Map.of("element", "Cr", "decision",
+                "ADD_HOMOGENEITY_AND_STABILITY_UNCERTAINTY", "reason", "drift suspected"))
+                .post("/api/v1/rounds/" + round + "/qualification/decisions");
+        assertThat(refused.statusCode()).as(refused.asString()).isEqualTo(409);
+        assertThat(refused.jsonPath().getString("detail")).contains("Upload homogeneity and stability data first");
+        // World.round records one ACCEPT per measurand; the refused decision adds no row
+        assertThat(world.text("SELECT string_agg(decision, ',') FROM qualification_decision WHERE round_id = ?", round))
+                .doesNotContain("STABILITY");
+
+        long consensus = world.round(RoundState.ENROLLING, World.simplePlan("0.10"), Round.LatePolicy.REFUSE, labs);
+        coordinator.json().body(Map.of("csv", resource("/scheme/homogeneity-cr-stainless.csv")))
+                .post("/api/v1/rounds/" + consensus + "/qualification/homogeneity").then().statusCode(200);
+        coordinator.json().body(Map.of("csv", resource("/scheme/stability-cr-stainless.csv")))
+                .post("/api/v1/rounds/" + consensus + "/qualification/stability").then().statusCode(200);
+        var forConsensus = coordinator.json().body(Map.of("element", "Cr", "decision",
+                "ADD_HOMOGENEITY_AND_STABILITY_UNCERTAINTY", "reason", "drift suspected"))
+                .post("/api/v1/rounds/" + consensus + "/qualification/decisions");
+        assertThat(forConsensus.statusCode()).as(forConsensus.asString()).isEqualTo(409);
+        assertThat(forConsensus.jsonPath().getString("detail")).contains("not a consensus");
+    }
+
     private static String resource(String name) {
         try (InputStream in = EvaluationRulesTest.class.getResourceAsStream(name)) {
             return new String(java.util.Objects.requireNonNull(in, name).readAllBytes(), StandardCharsets.UTF_8);

@@ -61,6 +61,10 @@ class RoundPageBrowserTest {
         String table = browser.findElement(By.id("qualification")).getText();
         // statistics reference §14.8 (CALC): s_x 0.0166333, s_w 0.0167332, s_s 0.0116905 to 6 significant digits
         assertThat(table).contains("0.0166333").contains("0.0167332").contains("0.0116905").contains("sufficient");
+        // the decision select offers every decision, the one adding u_hom and u_stab among them
+        assertThat(browser.findElements(By.cssSelector("#decision option")).stream()
+                .map(o -> o.getAttribute("value")).toList())
+                .contains("ADD_HOMOGENEITY_UNCERTAINTY", "ADD_HOMOGENEITY_AND_STABILITY_UNCERTAINTY");
 
         browser.findElement(By.cssSelector("button[data-action=CONFIRM_QUALIFICATION]")).click();
         waitForState("Items qualified");

@@ -79,6 +79,14 @@ public class QualificationService {
         WIDEN_SIGMA_PT,
         /** Add u_hom = s_s to u(x_pt); only for an assigned value that is not a consensus of the round. */
         ADD_HOMOGENEITY_UNCERTAINTY,
+        /**
+         * Add u_hom = s_s and u_stab = |ȳ1 − ȳ2|/√3 to u(x_pt): u(x_pt) = sqrt(u_char² + u_hom² + u_stab²), the
+         * difference of the latest stability check taken as the half-width of a rectangular distribution. Needs
+         * stability data (which need homogeneity data); only for an assigned value that is not a consensus of the
+         * round, like u_hom. One decision for both components because one decision is in force per measurand
+         * and the stability check always comes with a homogeneity check (its start).
+         */
+        ADD_HOMOGENEITY_AND_STABILITY_UNCERTAINTY,
         /** Do not score the measurand in this round. */
         WITHDRAW_MEASURAND
     }
@@ -217,9 +225,21 @@ public class QualificationService {
                 && current.homogeneity() == null) {
             throw new DomainException.Conflict("Upload homogeneity data first: this decision uses s_s.");
         }
+        if (decision == Decision.ADD_HOMOGENEITY_AND_STABILITY_UNCERTAINTY
+                && (current.homogeneity() == null || current.stability() == null)) {
+            throw new DomainException.Conflict("Upload homogeneity and stability data first: this decision uses s_s"
+                    + " and the stability difference |ȳ1 − ȳ2|.");
+        }
         if (decision == Decision.ADD_HOMOGENEITY_UNCERTAINTY && planned.get(element).consensus()) {
             throw new DomainException.Conflict("u_hom is added to u(x_pt) only for an assigned value that is not a"
                     + " consensus of the round's results; widen σpt instead.");
+        }
+        if (decision == Decision.ADD_HOMOGENEITY_AND_STABILITY_UNCERTAINTY && planned.get(element).consensus()) {
+            // a consensus is measured on the items as the participants received them, after transport and during the
+            // round: its spread (and so u_char) already contains the items' inhomogeneity and their change
+            throw new DomainException.Conflict("u_hom and u_stab are added to u(x_pt) only for an assigned value that"
+                    + " is not a consensus of the round's results (the results were measured on the items as they were"
+                    + " during the round); widen σpt instead.");
         }
         OffsetDateTime now = now();
         entityManager.createNativeQuery("""
