@@ -316,6 +316,33 @@ public class EvaluationExports {
         return new EvaluateInput(window.roundCode(), summary.version(), csv.toString(), arguments(present, name));
     }
 
+    /** The expanded uncertainty U and its coverage factor k a participant reported; both null when it gave none. */
+    public record ReportedUncertainty(Double expandedUncertainty, Double coverageFactor) {
+    }
+
+    /**
+     * The uncertainties the participants reported, as evaluation run {@code runId} read them (each laboratory's
+     * revision current when the run was made), keyed by {@link #uncertaintyKey}. The stored scores do not repeat
+     * them; a report shows them beside each result.
+     */
+    @Transactional
+    public Map<String, ReportedUncertainty> uncertaintiesReadBy(long roundId, long runId) {
+        Map<String, ReportedUncertainty> found = new HashMap<>();
+        for (EvaluationService.Row r : resultsReadBy(roundId, runId)) {
+            if (r.expandedUncertainty() != null) {
+                found.put(uncertaintyKey(r.element(), r.itemLabel(), r.participantCode()), new ReportedUncertainty(
+                        r.expandedUncertainty().doubleValue(),
+                        r.coverageFactor() == null ? null : r.coverageFactor().doubleValue()));
+            }
+        }
+        return found;
+    }
+
+    /** The key of {@link #uncertaintiesReadBy}: element, item label and participant code. */
+    public static String uncertaintyKey(String element, String itemLabel, String participantCode) {
+        return element + "\u0000" + itemLabel + "\u0000" + participantCode;
+    }
+
     /**
      * Each laboratory's latest revision submitted at or before the run was made, in the order the run reads
      * results (element, item, participant code) — the same columns as {@link EvaluationService#currentResults}.

@@ -4,6 +4,7 @@ import jakarta.enterprise.context.ApplicationScoped;
 import jakarta.persistence.EntityManager;
 import jakarta.transaction.Transactional;
 import org.eclipse.microprofile.config.inject.ConfigProperty;
+import org.roundtable.evaluation.EvaluationExports;
 import org.roundtable.evaluation.EvaluationService;
 import org.roundtable.evaluation.EvaluationViews;
 import org.roundtable.platform.DomainException;
@@ -60,6 +61,7 @@ public class ReportAssembler {
             + "accreditation body.";
 
     private final EvaluationService evaluations;
+    private final EvaluationExports exports;
     private final RoundService rounds;
     private final RoundAccess roundAccess;
     private final SchemeService schemes;
@@ -68,12 +70,14 @@ public class ReportAssembler {
     private final EntityManager entityManager;
     private final String providerName;
 
-    public ReportAssembler(EvaluationService evaluations, RoundService rounds, RoundAccess roundAccess,
+    public ReportAssembler(EvaluationService evaluations, EvaluationExports exports, RoundService rounds,
+                           RoundAccess roundAccess,
                            SchemeService schemes, PlanStore plans, QualificationService qualification,
                            EntityManager entityManager,
                            @ConfigProperty(name = "roundtable.reports.provider-name",
                                    defaultValue = "Roundtable proficiency testing") String providerName) {
         this.evaluations = evaluations;
+        this.exports = exports;
         this.rounds = rounds;
         this.roundAccess = roundAccess;
         this.schemes = schemes;
@@ -132,6 +136,7 @@ public class ReportAssembler {
                               String coordinatorComments) {
         long runId = runId(roundId, version);
         EvaluationViews.Run run = evaluations.run(roundId, version);
+        Map<String, EvaluationExports.ReportedUncertainty> uncertainties = exports.uncertaintiesReadBy(roundId, runId);
         RoundService.RoundView round = rounds.get(roundId);
         SchemeService.SchemeView scheme = schemes.get(round.schemeId());
         boolean secondReviewer = schemes.secondReviewerRequired(round.schemeId());
@@ -163,8 +168,11 @@ public class ReportAssembler {
                 if (excluded) {
                     exclusions.add(new Exclusion(s.participantCode(), id, s.excludedReason()));
                 }
+                EvaluationExports.ReportedUncertainty u = uncertainties.get(
+                        EvaluationExports.uncertaintyKey(o.element(), o.itemLabel(), s.participantCode()));
                 results.add(new ParticipantResult(s.participantCode(), o.itemLabel(), s.reported(),
-                        s.value() == null ? Double.NaN : s.value(), o.unit(), null, null, s.methodGroup(),
+                        s.value() == null ? Double.NaN : s.value(), o.unit(), u == null ? null : u.expandedUncertainty(),
+                        u == null ? null : u.coverageFactor(), s.methodGroup(),
                         s.z(), s.zPrime(), s.zeta(), s.en(), classification, lessThan,
                         lessThan && classification == null && s.classification() != null ? s.classification() : "",
                         excluded, excluded ? s.excludedReason() : "", late));

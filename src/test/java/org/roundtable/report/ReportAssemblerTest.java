@@ -75,6 +75,11 @@ class ReportAssemblerTest {
         assertThat(report.measurands()).hasSize(1);
         assertThat(report.measurands().get(0).assignedValue()).isEqualTo(cr.assignedValue());
         assertThat(report.measurands().get(0).results()).hasSize(CR.length);
+        assertThat(report.measurands().get(0).results()).as("U and k as each laboratory reported them")
+                .allSatisfy(r -> {
+                    assertThat(r.expandedUncertainty()).isEqualTo(0.08);
+                    assertThat(r.coverageFactor()).isEqualTo(2.0);
+                });
         assertThat(assembled.laboratories()).hasSize(CR.length);
 
         String text = text(new PdfReportRenderer().render(report));
