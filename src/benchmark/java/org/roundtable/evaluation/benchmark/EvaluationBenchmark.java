@@ -100,7 +100,7 @@ public final class EvaluationBenchmark {
             String jdbc = postgres.getJdbcUrl("postgres", "postgres");
             Flyway.configure().dataSource(jdbc, "postgres", "").locations("classpath:db/migration")
                     .placeholders(Map.of("appRole", APP_ROLE)).load().migrate();
-            EvaluationService service = new EvaluationService(null, null, null, null, Clock.systemUTC(), "benchmark");
+            EvaluationService service = new EvaluationService(null, null, null, null, Clock.systemUTC(), "benchmark", null);
 
             long generateStart = System.nanoTime();
             Generated large;
