@@ -56,6 +56,14 @@ public class DemoSubmissions {
             new String[]{"0.386", "80", "0.233", "0.0141", "0.0090", "0.987", "0.809", "0.152", "0.183", "0.240"},
             new String[]{"0.402", "92", "0.239", "0.0151", "0.0099", "1.012", "0.838", "0.158", "0.190", "0.249"});
 
+    /**
+     * Invented expanded uncertainties (k = 2) that three of the five laboratories report with their results in the
+     * earlier round, so that its reports show ζ and En beside z (demo only).
+     */
+    static final String[] PAST_UNCERTAINTIES = {"0.012", "7", "0.010", "0.0015", "0.0012", "0.025", "0.018", "0.008",
+        "0.008", "0.010"};
+    static final java.util.Set<Integer> PAST_WITH_UNCERTAINTY = java.util.Set.of(0, 1, 3);
+
     /** Every demo laboratory reports in the earlier round NLS-2026-1 (still open for results at this point). */
     public void loadPastRound() {
         @SuppressWarnings("unchecked")
@@ -66,11 +74,16 @@ public class DemoSubmissions {
         for (int i = 0; i < rows.size() && i < PAST_RESULTS.size(); i++) {
             submissions.submitFor(((Number) rows.get(i)[1]).longValue(), ((Number) rows.get(i)[0]).longValue(),
                     new SubmissionService.Upload(SubmissionService.Channel.JSON, UploadFormat.JSON,
-                            json(PAST_RESULTS.get(i)), null, "application/json"), true, null, null);
+                            json(PAST_RESULTS.get(i), PAST_WITH_UNCERTAINTY.contains(i) ? PAST_UNCERTAINTIES : null),
+                            null, "application/json"), true, null, null);
         }
     }
 
     private static byte[] json(String[] values) {
+        return json(values, null);
+    }
+
+    private static byte[] json(String[] values, String[] uncertainties) {
         StringBuilder out = new StringBuilder("{\"results\":[");
         for (int e = 0; e < ELEMENTS.size(); e++) {
             if (e > 0) {
@@ -78,8 +91,11 @@ public class DemoSubmissions {
             }
             String unit = ELEMENTS.get(e).equals("N") ? "mg/kg" : "%";
             out.append("{\"measurand\":\"").append(ELEMENTS.get(e)).append("\",\"value\":\"").append(values[e])
-                    .append("\",\"unit\":\"").append(unit).append("\",\"method\":\"").append(METHODS.get(e))
-                    .append("\",\"replicates\":2}");
+                    .append("\",\"unit\":\"").append(unit).append("\",\"method\":\"").append(METHODS.get(e));
+            if (uncertainties != null) {
+                out.append("\",\"expandedUncertainty\":\"").append(uncertainties[e]).append("\",\"coverageFactor\":\"2");
+            }
+            out.append("\",\"replicates\":2}");
         }
         return out.append("]}").toString().getBytes(StandardCharsets.UTF_8);
     }
