@@ -5,6 +5,7 @@ import jakarta.enterprise.context.ApplicationScoped;
 import jakarta.enterprise.inject.Any;
 import jakarta.enterprise.inject.Instance;
 import org.jboss.logging.Logger;
+import org.roundtable.platform.DomainException;
 
 import java.lang.management.ManagementFactory;
 import java.util.Map;
@@ -56,6 +57,10 @@ public class JobRunner {
         try {
             String result = handler.run(job, (done, total) -> jobService.reportProgress(id, done, total));
             jobService.succeed(id, result);
+        } catch (DomainException e) {
+            // a rule of the domain refused the work; the same data will be refused again, so no retry
+            LOG.warnf("job %d (%s) refused: %s", id, job.kind, e.detail());
+            jobService.failFinally(id, "refused: " + e.detail());
         } catch (Exception e) {
             LOG.errorf(e, "job %d (%s) failed", id, job.kind);
             jobService.fail(id, e.getClass().getSimpleName() + ": " + e.getMessage());

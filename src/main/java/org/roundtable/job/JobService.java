@@ -128,6 +128,19 @@ public class JobService {
         }
     }
 
+    /**
+     * Records a failure that another attempt cannot mend (a domain rule refused the work, e.g. the round's state
+     * no longer allows it): FAILED at once, without using up the remaining attempts.
+     */
+    @Transactional(Transactional.TxType.REQUIRES_NEW)
+    public void failFinally(long id, String error) {
+        Job job = jobs.findById(id);
+        job.claimedBy = null;
+        job.error = error == null ? "failed" : truncate(error);
+        job.status = JobStatus.FAILED.name();
+        job.finishedAt = now();
+    }
+
     /** Puts jobs whose instance stopped sending heartbeats back in the queue. Safe on many instances. */
     @Transactional(Transactional.TxType.REQUIRES_NEW)
     public int requeueAbandoned() {

@@ -278,6 +278,21 @@ class EvaluationJobsTest {
     }
 
     @Test
+    void aJobTheRoundNoLongerAllowsFailsAtOnceWithTheReasonInsteadOfBeingRetried() {
+        long round = mixedRound(Round.LatePolicy.REFUSE);
+        EvaluationJobs.JobView queued = evaluationJobs.start(round, false, COORDINATOR);
+        // before the job runs, the round moves on to a state in which no evaluation is possible
+        world.sql("UPDATE round SET state = 'CANCELLED' WHERE id = ?", round);
+
+        EvaluationJobs.JobView done = runUntilFinished(runner, evaluationJobs, round, queued.jobId());
+
+        assertThat(done.status()).isEqualTo("FAILED");
+        assertThat(done.attempts()).as("a refusal is not retried").isEqualTo(1);
+        assertThat(done.error()).startsWith("refused: ").contains("CANCELLED");
+        assertThat(evaluations.runs(round)).isEmpty();
+    }
+
+    @Test
     void aJobOfAnotherRoundAnswersLikeAMissingOne() {
         long round = mixedRound(Round.LatePolicy.REFUSE);
         long other = world.round(RoundState.CLOSED, world.laboratory());
