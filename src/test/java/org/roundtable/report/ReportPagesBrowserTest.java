@@ -106,15 +106,9 @@ class ReportPagesBrowserTest {
         assertThat(browser.findElement(By.id("my-documents")).getText()).contains(code + "-R-F");
     }
 
-    /**
-     * Clicks a form's button and waits for the page the form answers with (not for a notice still on the old page,
-     * which a busy machine lets the test see first), then for its success notice.
-     */
+    /** Submits a form by its button, waits for the answering page, then for its success notice. */
     private void submit(By button) {
-        org.openqa.selenium.WebElement page = browser.findElement(By.tagName("html"));
-        browser.findElement(button).click();
-        new org.openqa.selenium.support.ui.WebDriverWait(browser, java.time.Duration.ofSeconds(20))
-                .until(org.openqa.selenium.support.ui.ExpectedConditions.stalenessOf(page));
+        Browser.submit(browser, button);
         Browser.waitFor(browser, By.cssSelector(".notice-ok"));
     }
 }

@@ -61,6 +61,26 @@ public final class Browser {
                 .until(org.openqa.selenium.support.ui.ExpectedConditions.presenceOfElementLocated(locator));
     }
 
+    /**
+     * Clicks a button that submits a form and waits (up to 20 s) until the page that answers it has replaced the
+     * current one, so that what the test looks for next is not found on the old page. While the browser navigates,
+     * asking about the old page can also fail with an error other than "stale"; those answers are asked again.
+     */
+    public static void submit(WebDriver driver, org.openqa.selenium.By button) {
+        org.openqa.selenium.WebElement page = driver.findElement(org.openqa.selenium.By.tagName("html"));
+        driver.findElement(button).click();
+        new org.openqa.selenium.support.ui.WebDriverWait(driver, Duration.ofSeconds(20))
+                .ignoring(org.openqa.selenium.WebDriverException.class)
+                .until(d -> {
+                    try {
+                        page.isEnabled();
+                        return false;
+                    } catch (org.openqa.selenium.StaleElementReferenceException gone) {
+                        return true;
+                    }
+                });
+    }
+
     /** Waits (up to 20 s) until the current address satisfies the condition. */
     public static void waitForUrl(WebDriver driver, java.util.function.Predicate<String> condition) {
         new org.openqa.selenium.support.ui.WebDriverWait(driver, Duration.ofSeconds(20))
