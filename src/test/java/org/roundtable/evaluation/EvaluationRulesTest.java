@@ -316,11 +316,8 @@ class EvaluationRulesTest {
         long round = world.round(RoundState.ENROLLING, new EvaluationPlan(List.of(certifiedCr("18.12", "0.056", "0.10",
                 null))), Round.LatePolicy.REFUSE, labs);
         World.Browser coordinator = world.signIn(world.user("coordinator", null));
-        coordinator.json().body(Map.of("csv", resource("/scheme/homogeneity-cr-stainless.csv")))
-                .post("/api/v1/rounds/" + round + "/qualification/homogeneity").then().statusCode(200);
-        coordinator.json().body(Map.of("element", "Cr", "decision", "ADD_HOMOGENEITY_UNCERTAINTY",
-                "reason", "account for the between-disc spread")).post("/api/v1/rounds/" + round
-                + "/qualification/decisions").then().statusCode(200);
+        uploadQualificationData(coordinator, round, false);
+        decide(coordinator, round, "ADD_HOMOGENEITY_UNCERTAINTY", "account for the between-disc spread");
         world.sql("UPDATE round SET state = 'CLOSED' WHERE id = ?", round);
         world.reportResult(round, labs[0], "Cr", "18.20", null, "spark-oes", false);
         world.reportResult(round, labs[1], "Cr", "18.10", "0.04", "spark-oes", false);
@@ -347,10 +344,8 @@ class EvaluationRulesTest {
         long[] labs = labs(2);
         long round = world.round(RoundState.ENROLLING, World.simplePlan("0.10"), Round.LatePolicy.REFUSE, labs);
         World.Browser coordinator = world.signIn(world.user("coordinator", null));
-        coordinator.json().body(Map.of("csv", resource("/scheme/homogeneity-cr-stainless.csv")))
-                .post("/api/v1/rounds/" + round + "/qualification/homogeneity").then().statusCode(200);
-        coordinator.json().body(Map.of("element", "Cr", "decision", "WIDEN_SIGMA_PT", "reason", "discs differ a little"))
-                .post("/api/v1/rounds/" + round + "/qualification/decisions").then().statusCode(200);
+        uploadQualificationData(coordinator, round, false);
+        decide(coordinator, round, "WIDEN_SIGMA_PT", "discs differ a little");
         world.sql("UPDATE round SET state = 'CLOSED' WHERE id = ?", round);
         world.reportResult(round, labs[0], "Cr", "18.20", null, "spark-oes", false);
         world.reportResult(round, labs[1], "Cr", "18.10", null, "spark-oes", false);
@@ -371,13 +366,9 @@ class EvaluationRulesTest {
         long round = world.round(RoundState.ENROLLING, new EvaluationPlan(List.of(certifiedCr("18.12", "0.056", "0.10",
                 null))), Round.LatePolicy.REFUSE, labs);
         World.Browser coordinator = world.signIn(world.user("coordinator", null));
-        coordinator.json().body(Map.of("csv", resource("/scheme/homogeneity-cr-stainless.csv")))
-                .post("/api/v1/rounds/" + round + "/qualification/homogeneity").then().statusCode(200);
-        coordinator.json().body(Map.of("csv", resource("/scheme/stability-cr-stainless.csv")))
-                .post("/api/v1/rounds/" + round + "/qualification/stability").then().statusCode(200);
-        coordinator.json().body(Map.of("element", "Cr", "decision", "ADD_HOMOGENEITY_AND_STABILITY_UNCERTAINTY",
-                "reason", "the discs may change a little over the round")).post("/api/v1/rounds/" + round
-                + "/qualification/decisions").then().statusCode(200);
+        uploadQualificationData(coordinator, round, true);
+        decide(coordinator, round, "ADD_HOMOGENEITY_AND_STABILITY_UNCERTAINTY",
+                "the discs may change a little over the round");
         world.sql("UPDATE round SET state = 'CLOSED' WHERE id = ?", round);
         world.reportResult(round, labs[0], "Cr", "18.20", null, "spark-oes", false);
         world.reportResult(round, labs[1], "Cr", "18.10", "0.04", "spark-oes", false);
@@ -415,8 +406,7 @@ class EvaluationRulesTest {
         long round = world.round(RoundState.ENROLLING, new EvaluationPlan(List.of(certifiedCr("18.12", "0.056", "0.10",
                 null))), Round.LatePolicy.REFUSE, labs);
         World.Browser coordinator = world.signIn(world.user("coordinator", null));
-        coordinator.json().body(Map.of("csv", resource("/scheme/homogeneity-cr-stainless.csv")))
-                .post("/api/v1/rounds/" + round + "/qualification/homogeneity").then().statusCode(200);
+        uploadQualificationData(coordinator, round, false);
         var refused = coordinator.json().body(Map.of("element", "Cr", "decision",
                 "ADD_HOMOGENEITY_AND_STABILITY_UNCERTAINTY", "reason", "drift suspected"))
                 .post("/api/v1/rounds/" + round + "/qualification/decisions");
@@ -427,15 +417,28 @@ class EvaluationRulesTest {
                 .doesNotContain("STABILITY");
 
         long consensus = world.round(RoundState.ENROLLING, World.simplePlan("0.10"), Round.LatePolicy.REFUSE, labs);
-        coordinator.json().body(Map.of("csv", resource("/scheme/homogeneity-cr-stainless.csv")))
-                .post("/api/v1/rounds/" + consensus + "/qualification/homogeneity").then().statusCode(200);
-        coordinator.json().body(Map.of("csv", resource("/scheme/stability-cr-stainless.csv")))
-                .post("/api/v1/rounds/" + consensus + "/qualification/stability").then().statusCode(200);
+        uploadQualificationData(coordinator, consensus, true);
         var forConsensus = coordinator.json().body(Map.of("element", "Cr", "decision",
                 "ADD_HOMOGENEITY_AND_STABILITY_UNCERTAINTY", "reason", "drift suspected"))
                 .post("/api/v1/rounds/" + consensus + "/qualification/decisions");
         assertThat(forConsensus.statusCode()).as(forConsensus.asString()).isEqualTo(409);
         assertThat(forConsensus.jsonPath().getString("detail")).contains("not a consensus");
+    }
+
+    /** Uploads the Cr homogeneity data of statistics reference §14.8 and, with {@code stability}, those of §14.9. */
+    private static void uploadQualificationData(World.Browser coordinator, long round, boolean stability) {
+        coordinator.json().body(Map.of("csv", resource("/scheme/homogeneity-cr-stainless.csv")))
+                .post("/api/v1/rounds/" + round + "/qualification/homogeneity").then().statusCode(200);
+        if (stability) {
+            coordinator.json().body(Map.of("csv", resource("/scheme/stability-cr-stainless.csv")))
+                    .post("/api/v1/rounds/" + round + "/qualification/stability").then().statusCode(200);
+        }
+    }
+
+    /** Records the coordinator's qualification decision on Cr, which must be accepted. */
+    private static void decide(World.Browser coordinator, long round, String decision, String reason) {
+        coordinator.json().body(Map.of("element", "Cr", "decision", decision, "reason", reason))
+                .post("/api/v1/rounds/" + round + "/qualification/decisions").then().statusCode(200);
     }
 
     private static String resource(String name) {
