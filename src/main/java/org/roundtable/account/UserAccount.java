@@ -42,6 +42,10 @@ public class UserAccount {
     @Column(name = "password_changed_at")
     public OffsetDateTime passwordChangedAt;
 
+    /** IANA zone name chosen by the user; {@code null} means the installation's zone. */
+    @Column(name = "time_zone")
+    public String timeZone;
+
     @Column(name = "created_at", nullable = false)
     public OffsetDateTime createdAt;
 
