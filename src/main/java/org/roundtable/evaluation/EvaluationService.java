@@ -356,7 +356,8 @@ public class EvaluationService {
                     }
                 }
                 MeasurandEvaluation.Result consensus = MeasurandEvaluation.evaluate(new MeasurandEvaluation.Input(
-                        mp.element(), unit, subset, null, null, null, rules));
+                        mp.element(), unit, subset, null, null, null, rules, MeasurandEvaluation.Decimals.NONE,
+                        forAssignedValueOnly(mp)));
                 if (consensus.assignedValueSource() == MeasurandEvaluation.AssignedValueSource.ALGORITHM_A) {
                     assigned = consensus.assignedValue();
                     assignedU = MeasurandEvaluation.DEFAULT_COVERAGE_FACTOR * consensus.assignedValueUncertainty();
@@ -383,7 +384,7 @@ public class EvaluationService {
             Double x = assigned;
             if (x == null && !subsetFailed) {
                 x = MeasurandEvaluation.evaluate(new MeasurandEvaluation.Input(mp.element(), unit, inputs, null, null,
-                        null, rules)).assignedValue();
+                        null, rules, MeasurandEvaluation.Decimals.NONE, forAssignedValueOnly(mp))).assignedValue();
             }
             sigma = x == null || !(x > 0) ? null : sm == EvaluationPlan.SigmaPtMethod.PERCENT_OF_ASSIGNED
                     ? SigmaPt.percentOfAssigned(number(mp.sigmaPtPercent()), x)
@@ -544,6 +545,16 @@ public class EvaluationService {
                         : Integer.parseInt(mp.scoreDecimals().strip()),
                 mp.scoreCoverageFactor() == null ? MeasurandEvaluation.DEFAULT_COVERAGE_FACTOR
                         : Double.parseDouble(mp.scoreCoverageFactor().strip()));
+    }
+
+    /**
+     * The small-round rules for a step that only needs a consensus x_pt (a subset's, or the one a σpt in % of x_pt
+     * is taken from): the plan's minimum for a consensus, none for the σpt that step does not use. A consensus
+     * below the minimum gives no x_pt, so nothing is scored against it.
+     */
+    static MeasurandEvaluation.SmallRounds forAssignedValueOnly(EvaluationPlan.MeasurandPlan mp) {
+        MeasurandEvaluation.SmallRounds plan = smallRounds(mp, null);
+        return new MeasurandEvaluation.SmallRounds(plan.minimumParticipants(), 1, false, null);
     }
 
     /**

@@ -5,6 +5,7 @@ import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;
 import java.util.Objects;
+import org.roundtable.statistics.density.CriticalBandwidth;
 import org.roundtable.statistics.density.KernelDensity;
 import org.roundtable.statistics.robust.AlgorithmA;
 import org.roundtable.statistics.robust.Median;
@@ -54,7 +55,9 @@ import org.roundtable.statistics.score.Scores;
  * fewer values than the plan's minimum ({@code few-participants}); p &lt; 2 (no Algorithm A, no
  * consensus); MADe = 0 ({@code zero-spread}: no robust SD; with a σ_pt given independently of the
  * data the median is the assigned value, {@code scored-against-median}; with a data-derived σ_pt
- * nothing is scored and {@code no-sigma-pt} names the alternatives); more than one density mode ({@code multimodal});
+ * nothing is scored and {@code no-sigma-pt} names the alternatives); more than one population ({@code multimodal}: the plain kernel density shows more
+ * than one mode and Silverman's bootstrap-calibrated critical-bandwidth test rejects one mode at
+ * α = 0.05, {@link CriticalBandwidth});
  * more than 20 % censored ({@code censored-share}); a consensus x_pt with ζ/En
  * ({@code zeta-en-biased}). Undefined numbers are {@code null}.
  *
@@ -414,13 +417,18 @@ public final class MeasurandEvaluation {
         }
 
         if (p >= 3 && scale) {
+            // the costly calibrated test only where the plain density shows more than one mode
             int modes = KernelDensity.of(values).modes().size();
             if (modes > 1) {
-                warnings.add(new StatisticsWarning("multimodal", String.format(Locale.ROOT,
-                        "The kernel density of the results has %d modes (Gaussian kernel, Silverman"
-                        + " bandwidth, modes above %.0f %% of the highest): results may come from"
-                        + " more than one population (e.g. methods); investigate before relying on"
-                        + " the consensus", modes, 100 * KernelDensity.DEFAULT_RELATIVE_HEIGHT)));
+                CriticalBandwidth.Result test = CriticalBandwidth.test(values);
+                if (test.moreThanOneMode()) {
+                    warnings.add(new StatisticsWarning("multimodal", String.format(Locale.ROOT,
+                            "The results look like more than one population (e.g. methods): Silverman's"
+                            + " critical-bandwidth test rejects one mode, bootstrap p = %.3f < %.2f (%d seeded"
+                            + " smoothed bootstrap samples; Silverman 1981, J. R. Stat. Soc. B 43); investigate"
+                            + " before relying on the consensus", test.pValue(), CriticalBandwidth.DEFAULT_ALPHA,
+                            test.bootstrapSamples())));
+                }
             }
         }
 

@@ -261,9 +261,11 @@ final class ReportDocument {
 
     private void writeOwnSummary() {
         heading("Your results at a glance", "own-summary");
-        out.append("<p>Every measurand of the round, with your result as reported. Scores are computed on the "
-                + "unrounded values and printed to two decimals; the assessment uses the score named in "
-                + "\u201cscore used\u201d.</p>\n");
+        out.append("<p>Every measurand of the round, with your result as reported. Scores are computed from the "
+                + "unrounded values, printed to the plan's score decimals (stated in \u201cHow the results were "
+                + "evaluated\u201d) and classified <b>as printed</b>, so a printed score and its verdict always agree; "
+                + "the assessment uses the score named in \u201cscore used\u201d. Scores for information only carry "
+                + "no verdict.</p>\n");
         out.append("<h4>Your results</h4>\n<table class=\"results\">\n<thead><tr><th style=\"width: 22%\">Measurand</th>"
                 + "<th class=\"num\" style=\"width: 13%\">Your result</th><th class=\"num\" style=\"width: 9%\">U</th>"
                 + "<th class=\"num\" style=\"width: 10%\">x<sub>pt</sub></th>"
