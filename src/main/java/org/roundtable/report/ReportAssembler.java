@@ -187,7 +187,9 @@ public class ReportAssembler {
                     nan(o.assignedValue()), assignedValueWords(o.assignedValueMethod()), nan(o.assignedValueUncertainty()),
                     nan(o.sigmaPt()), sigmaPtWords(o.sigmaPtMethod(), o.sigmaPtSource()), robust, groups,
                     o.warnings().stream().map(EvaluationViews.Warning::message).toList(), kind,
-                    o.scoreUsedReason(), results));
+                    o.scoreUsedReason(), results,
+                    o.rules() == null ? org.roundtable.platform.NumberFormats.DEFAULT_SCORE_DECIMALS
+                            : o.rules().decimalsOfScores()));
         }
 
         List<ItemCheck> checks = new ArrayList<>();

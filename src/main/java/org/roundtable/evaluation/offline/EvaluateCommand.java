@@ -27,6 +27,7 @@ import java.math.BigDecimal;
 import org.roundtable.platform.NumberFormats;
 import org.roundtable.statistics.MeasurandEvaluation;
 import org.roundtable.submission.intake.ChemicalElements;
+import org.roundtable.submission.intake.ResultRanges;
 import org.roundtable.statistics.robust.AlgorithmA;
 import org.roundtable.statistics.robust.QuartileRule;
 import org.roundtable.statistics.score.BoundaryRule;
@@ -59,7 +60,9 @@ import org.roundtable.statistics.StatisticsWarning;
  * uncertainty is at k = 2.
  *
  * <p>Exit codes: 0 done; 2 bad input (message on stderr naming row — the header is row 1 —,
- * column and reason), also a file with a header and no rows.
+ * column and reason), also a file with a header and no rows. The range rules are the server's
+ * ({@code submission.intake.ResultRanges}): k between 1 and 4, a mass fraction in % or mg/kg at most 100 %, no
+ * negative values.
  */
 public final class EvaluateCommand {
 
@@ -376,11 +379,24 @@ public final class EvaluateCommand {
                         throw new BadInput("row " + row + ", column expanded_uncertainty: must be >= 0, got '" + uText + "'");
                     }
                 }
+                // the server's range rules (submission.intake.ResultRanges): the same numbers are refused alike
+                if (numberText.startsWith("-")) {
+                    throw new BadInput("row " + row + ", column value: '" + reported + "': "
+                            + ResultRanges.negativeMessage());
+                }
+                java.util.Optional<String> above = ResultRanges.aboveHundredPercent(new BigDecimal(numberText), unit);
+                if (above.isPresent()) {
+                    throw new BadInput("row " + row + ", column value: '" + reported + "': " + above.get());
+                }
                 Double k = null;
                 if (!kText.isEmpty()) {
                     k = parseNumber(row, "coverage_factor", kText, "expected a number");
                     if (!(k > 0)) {
                         throw new BadInput("row " + row + ", column coverage_factor: must be > 0, got '" + kText + "'");
+                    }
+                    if (!ResultRanges.coverageFactorInRange(new BigDecimal(kText))) {
+                        throw new BadInput("row " + row + ", column coverage_factor: '" + kText + "': "
+                                + ResultRanges.coverageFactorMessage());
                     }
                     if (u == null) {
                         throw new BadInput("row " + row + ", column coverage_factor: given without an expanded_uncertainty");

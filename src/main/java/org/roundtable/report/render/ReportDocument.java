@@ -300,10 +300,10 @@ final class ReportDocument {
                         + "<td class=\"num\"></td><td class=\"unscored\">no result</td></tr>\n");
                 continue;
             }
-            out.append("</td><td class=\"num\">").append(ReportFormat.score(r.z()))
-                    .append("</td><td class=\"num\">").append(ReportFormat.score(r.zPrime()))
-                    .append("</td><td class=\"num\">").append(ReportFormat.score(r.zeta()))
-                    .append("</td><td class=\"num\">").append(ReportFormat.score(r.en()))
+            out.append("</td><td class=\"num\">").append(ReportFormat.score(r.z(), m.scoreDecimals()))
+                    .append("</td><td class=\"num\">").append(ReportFormat.score(r.zPrime(), m.scoreDecimals()))
+                    .append("</td><td class=\"num\">").append(ReportFormat.score(r.zeta(), m.scoreDecimals()))
+                    .append("</td><td class=\"num\">").append(ReportFormat.score(r.en(), m.scoreDecimals()))
                     .append("</td>").append(assessmentCell(r)).append("</tr>\n");
         }
         out.append("</tbody></table>\n");
@@ -366,11 +366,12 @@ final class ReportDocument {
         } else {
             Double score = ReportCharts.primaryScore(m, r);
             String u = r.expandedUncertainty() == null ? ""
-                    : " \u00b1 " + ReportFormat.decimal(r.expandedUncertainty(), dd) + " (U)";
+                    : " \u00b1 " + ReportFormat.decimal(r.expandedUncertainty(), dd) + " (U, k = "
+                    + ReportFormat.decimal(r.coverageFactor() == null ? 2.0 : r.coverageFactor(), 1) + ")";
             out.append("<tr class=\"own\"><th>Your result</th><td class=\"num\">")
                     .append(esc(ReportFormat.minusSigns(r.reportedValue()))).append(unit).append(u)
                     .append("</td><td>").append(ReportCharts.scoreSymbol(m.scoreKind())).append(" = ")
-                    .append(ReportFormat.score(score)).append(", ").append(assessment(r));
+                    .append(ReportFormat.score(score, m.scoreDecimals())).append(", ").append(assessment(r));
             String notes = notes(r);
             if (!notes.isEmpty()) {
                 out.append("; ").append(notes);
@@ -605,10 +606,10 @@ final class ReportDocument {
                     .append("</td><td class=\"num\">").append(ReportFormat.decimal(r.expandedUncertainty(), dd))
                     .append("</td><td class=\"num\">").append(ReportFormat.decimal(r.coverageFactor(), 1))
                     .append("</td><td>").append(esc(r.methodGroup()))
-                    .append("</td><td class=\"num\">").append(ReportFormat.score(r.z()))
-                    .append("</td><td class=\"num\">").append(ReportFormat.score(r.zPrime()))
-                    .append("</td><td class=\"num\">").append(ReportFormat.score(r.zeta()))
-                    .append("</td><td class=\"num\">").append(ReportFormat.score(r.en()))
+                    .append("</td><td class=\"num\">").append(ReportFormat.score(r.z(), m.scoreDecimals()))
+                    .append("</td><td class=\"num\">").append(ReportFormat.score(r.zPrime(), m.scoreDecimals()))
+                    .append("</td><td class=\"num\">").append(ReportFormat.score(r.zeta(), m.scoreDecimals()))
+                    .append("</td><td class=\"num\">").append(ReportFormat.score(r.en(), m.scoreDecimals()))
                     .append("</td>").append(assessmentCell(r)).append("<td>").append(notes(r)).append("</td></tr>\n");
         }
         out.append("</tbody></table>\n");

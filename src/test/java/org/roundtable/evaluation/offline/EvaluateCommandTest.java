@@ -140,6 +140,9 @@ class EvaluateCommandTest {
         "HEADERA,Mn,%,1,-0.1,,| row 2, column expanded_uncertainty| a negative uncertainty",
         "HEADERA,Mn,%,1,0.1,0,| row 2, column coverage_factor| a zero coverage factor",
         "HEADERA,,%,1,,,| row 2, column measurand: must not be empty| an empty measurand",
+        "HEADERA,Mn,%,1,0.1,5,| row 2, column coverage_factor: '5': The coverage factor k must lie between 1 and 4.| k above 4 (the server's rule)",
+        "HEADERA,Mn,%,-0.002,,,| row 2, column value: '-0.002': A mass fraction cannot be negative.| a negative value (the server's rule)",
+        "HEADERA,Mn,%,100.5,,,| row 2, column value: '100.5': A mass fraction cannot exceed 100 %| above 100 % (the server's rule)",
         "| row 1: the file is empty| an empty file"})
     void badInputExitsWithTwoAndNamesRowColumnAndReason(String csv, String expected, String what)
             throws IOException {
@@ -278,6 +281,7 @@ class EvaluateCommandTest {
         assertEquals(0, r.exitCode(), r.err());
         JsonNode m = r.json().get("measurands").get(0);
         assertEquals("0.000300", m.get("printed").get("assignedValue").asText());
-        assertFalse(m.get("printed").toString().contains("E"));
+        m.get("printed").forEach(v -> assertFalse(v.asText().matches(".*[eE].*"), v.asText()));
+        m.get("scores").forEach(s -> s.get("printed").forEach(v -> assertFalse(v.asText().matches(".*[eE].*"))));
     }
 }
