@@ -618,13 +618,22 @@ final class ReportDocument {
     /** The assessment as a table cell whose class carries the colour (one element less per row than a span). */
     private static String assessmentCell(ParticipantResult r) {
         Classification c = r.classification();
-        return c == null ? "<td class=\"unscored\">not scored</td>" : "<td class=\"" + c.word() + "\">" + c.word() + "</td>";
+        return c == null ? "<td class=\"unscored\">" + unscoredWords(r) + "</td>"
+                : "<td class=\"" + c.word() + "\">" + c.word() + "</td>";
+    }
+
+    /**
+     * A result without a verdict: a z or z′ without a classification is a score for information only (a consensus
+     * or data-derived σpt below the plan's minimum); otherwise it was not scored.
+     */
+    private static String unscoredWords(ParticipantResult r) {
+        return !r.lessThan() && (r.z() != null || r.zPrime() != null) ? "for information only" : "not scored";
     }
 
     private static String assessment(ParticipantResult r) {
         Classification c = r.classification();
         if (c == null) {
-            return "<span class=\"unscored\">not scored</span>";
+            return "<span class=\"unscored\">" + unscoredWords(r) + "</span>";
         }
         return "<span class=\"" + c.word() + "\">" + c.word() + "</span>";
     }

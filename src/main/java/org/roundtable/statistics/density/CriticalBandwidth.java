@@ -179,19 +179,8 @@ public final class CriticalBandwidth {
     /** Number of modes of the binned density with these kernel weights (sparse convolution). */
     private static int modes(double[] counts, double[] density, double[] weights) {
         Arrays.fill(density, 0);
+        KernelDensity.convolve(counts, weights, density);
         int g = counts.length;
-        int reach = weights.length - 1;
-        for (int i = 0; i < g; i++) {
-            double c = counts[i];
-            if (c == 0) {
-                continue;
-            }
-            int from = Math.max(0, i - reach);
-            int to = Math.min(g - 1, i + reach);
-            for (int j = from; j <= to; j++) {
-                density[j] += c * weights[Math.abs(j - i)];
-            }
-        }
         double max = 0;
         for (double d : density) {
             max = Math.max(max, d);
