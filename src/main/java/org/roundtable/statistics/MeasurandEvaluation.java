@@ -62,7 +62,8 @@ import org.roundtable.statistics.score.Scores;
  * ({@code zeta-en-biased}). Undefined numbers are {@code null}.
  *
  * <p>References: ISO 13528:2015 clauses 7 (assigned value, 7.7 consensus), 8 (σ_pt), 9
- * (scores), Annex C (robust statistics); ISO Guide 35:2017 B.5.1 c) (at least 10 values).
+ * (scores), Annex C (robust statistics); Silverman B.W. (1981) J. R. Stat. Soc. B 43:97–99 (the
+ * multimodality test). The minimum of 10 results is common practice, no source.
  */
 public final class MeasurandEvaluation {
 
