@@ -91,9 +91,41 @@ public class ProblemMapper {
         return answer(400, "Invalid request", "Some fields are not valid.", errors, headers);
     }
 
+    /**
+     * A JSON body that cannot be read (malformed, a wrong type, or a string {@link org.roundtable.platform.TextInput}
+     * refuses): 400 naming the field, never the Java type it was meant for.
+     */
     @ServerExceptionMapper
-    public Response web(WebApplicationException e, HttpHeaders headers) {
+    public Response json(com.fasterxml.jackson.core.JsonProcessingException e, HttpHeaders headers, UriInfo uri,
+                         Request request) {
+        for (Throwable cause = e.getCause(); cause != null; cause = cause.getCause()) {
+            if (cause instanceof DomainException domain) {
+                return domain(domain, headers, uri, request);
+            }
+        }
+        String field = null;
+        if (e instanceof com.fasterxml.jackson.databind.JsonMappingException mapping && !mapping.getPath().isEmpty()) {
+            var last = mapping.getPath().get(mapping.getPath().size() - 1);
+            field = last.getFieldName() != null ? last.getFieldName() : "[" + last.getIndex() + "]";
+        }
+        List<Problem.FieldError> errors = field == null ? List.of()
+                : List.of(new Problem.FieldError(null, field, null, "invalid", "This value cannot be read."));
+        return answer(400, "Invalid request", field == null ? "The JSON body cannot be read."
+                : "The JSON body cannot be read at '" + field + "'.", errors, headers);
+    }
+
+    @ServerExceptionMapper
+    public Response web(WebApplicationException e, HttpHeaders headers, UriInfo uri, Request request) {
         int status = e.getResponse().getStatus();
+        // a body reader's failure (e.g. JSON that cannot be read) arrives wrapped: answer it as itself
+        for (Throwable cause = e.getCause(); cause != null && status == 400; cause = cause.getCause()) {
+            if (cause instanceof DomainException domain) {
+                return domain(domain, headers, uri, request);
+            }
+            if (cause instanceof com.fasterxml.jackson.core.JsonProcessingException json) {
+                return json(json, headers, uri, request);
+            }
+        }
         if (status >= 500) {
             LOG.errorf(e, "request %s failed", RequestIds.current());
             return answer(status, "Server error", "Something went wrong on our side.", List.of(), headers);
