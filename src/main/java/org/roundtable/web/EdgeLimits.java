@@ -11,6 +11,7 @@ import io.vertx.ext.web.RoutingContext;
 import jakarta.enterprise.context.ApplicationScoped;
 import jakarta.enterprise.event.Observes;
 import org.eclipse.microprofile.config.inject.ConfigProperty;
+import org.roundtable.platform.Admission;
 
 import java.util.Map;
 
@@ -29,9 +30,12 @@ public class EdgeLimits {
 
     private final long maxBodyBytes;
     private final long maxHeaderBytes;
+    private final Admission admission;
 
     public EdgeLimits(@ConfigProperty(name = "quarkus.http.limits.max-body-size") MemorySize maxBody,
-                      @ConfigProperty(name = "roundtable.http.max-header-size", defaultValue = "20K") MemorySize maxHeader) {
+                      @ConfigProperty(name = "roundtable.http.max-header-size", defaultValue = "20K") MemorySize maxHeader,
+                      Admission admission) {
+        this.admission = admission;
         this.maxBodyBytes = maxBody.asLongValue();
         this.maxHeaderBytes = maxHeader.asLongValue();
     }
@@ -51,6 +55,12 @@ public class EdgeLimits {
             problem(context, 431, "Headers too large", "The request's headers are larger than allowed.");
             return;
         }
+        if (!admission.databaseAvailable() && !request.path().startsWith("/q/") && !request.path().startsWith("/assets/")) {
+            context.response().headers().set("Retry-After", "5");
+            Admission.Unavailable refused = admission.databaseUnavailable();
+            problem(context, 503, refused.title(), refused.detail());
+            return;
+        }
         String length = request.getHeader(HttpHeaders.CONTENT_LENGTH);
         if (length != null) {
             try {
@@ -67,6 +77,13 @@ public class EdgeLimits {
     }
 
     private void failed(RoutingContext context) {
+        if (context.failure() != null && admission.isDatabaseOutage(context.failure()) && !context.response().headWritten()) {
+            // e.g. the session lookup during authentication found the database gone
+            context.response().headers().set("Retry-After", "5");
+            Admission.Unavailable refused = admission.databaseUnavailable();
+            problem(context, 503, refused.title(), refused.detail());
+            return;
+        }
         if (context.failure() instanceof io.quarkus.security.AuthenticationFailedException
                 && !context.response().headWritten()) {
             // an unknown or revoked API token: the same 401 problem body the endpoints give

@@ -35,10 +35,13 @@ public class ProblemMapper {
 
     private final Template error;
     private final RoutingContext routing;
+    private final org.roundtable.platform.Admission admission;
 
-    public ProblemMapper(@Location("web/error.html") Template error, RoutingContext routing) {
+    public ProblemMapper(@Location("web/error.html") Template error, RoutingContext routing,
+                         org.roundtable.platform.Admission admission) {
         this.error = error;
         this.routing = routing;
+        this.admission = admission;
     }
 
     /** The caller's name without blocking: the identity already established for this request, if any. */
@@ -79,7 +82,11 @@ public class ProblemMapper {
         }
         List<Problem.FieldError> details = e.details().stream()
                 .map(d -> new Problem.FieldError(d.row(), d.column(), d.value(), d.key(), d.message())).toList();
-        return answer(e.status(), e.title(), e.detail(), details, headers);
+        Response answer = answer(e.status(), e.title(), e.detail(), details, headers);
+        if (e instanceof org.roundtable.platform.Admission.Unavailable unavailable) {
+            return Response.fromResponse(answer).header("Retry-After", unavailable.retryAfterSeconds()).build();
+        }
+        return answer;
     }
 
     @ServerExceptionMapper
@@ -151,7 +158,11 @@ public class ProblemMapper {
     }
 
     @ServerExceptionMapper(priority = 10_000)
-    public Response unexpected(Throwable e, HttpHeaders headers) {
+    public Response unexpected(Throwable e, HttpHeaders headers, UriInfo uri, Request request) {
+        if (admission.isDatabaseOutage(e)) {
+            // logged once per outage by Admission, not once per request
+            return domain(admission.databaseUnavailable(), headers, uri, request);
+        }
         LOG.errorf(e, "request %s failed", RequestIds.current());
         return answer(500, "Server error", "Something went wrong on our side.", List.of(), headers);
     }
