@@ -45,4 +45,20 @@ Roundtable demo
   The demo sign-ins are printed once the server is up. Stop with Ctrl-C.
 MSG
 
-exec java -Xmx"${JAVA_HEAP:-768m}" -XX:+ExitOnOutOfMemoryError -Duser.timezone=UTC -jar "$jar"
+# The server exits with status 3 when its embedded PostgreSQL died and could not be started again in-process:
+# start both afresh. Any other exit (Ctrl-C included) ends the script with the server's status.
+java_pid=
+trap '[ -n "$java_pid" ] && kill -TERM "$java_pid" 2>/dev/null' TERM INT
+while true; do
+  java -Xmx"${JAVA_HEAP:-768m}" -XX:+ExitOnOutOfMemoryError -Duser.timezone=UTC -jar "$jar" &
+  java_pid=$!
+  set +e
+  wait "$java_pid"; status=$?
+  # a signal interrupts the first wait: wait for the server to finish stopping
+  if kill -0 "$java_pid" 2>/dev/null; then wait "$java_pid"; status=$?; fi
+  set -e
+  if [ "$status" -ne 3 ]; then
+    exit "$status"
+  fi
+  echo "Roundtable stopped because its database was lost; starting again..." >&2
+done
