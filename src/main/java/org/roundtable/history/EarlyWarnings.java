@@ -90,6 +90,11 @@ public final class EarlyWarnings {
         public String basis() {
             return BASIS;
         }
+
+        /** A CSS class for the kind. */
+        public String cssClass() {
+            return "warning-" + kind.name().toLowerCase(java.util.Locale.ROOT).replace('_', '-');
+        }
     }
 
     private final Rules rules;

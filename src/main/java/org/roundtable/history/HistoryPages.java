@@ -53,7 +53,7 @@ public class HistoryPages {
     public record RowView(String reportedOn, String round, String scheme, String measurand, String item,
                           String reported, String method, String assigned, String sigmaPt, String scoreKind,
                           String score, String zeta, String en, String verdict, String verdictClass, String report,
-                          String reportLink, String note) {
+                          String reportLink, String note, String resultKey, boolean needsAction) {
     }
 
     /** A choice of a filter select. */
@@ -65,13 +65,15 @@ public class HistoryPages {
                            List<Choice> schemes, List<Choice> measurands, List<Choice> methods, String from,
                            String until, String rounds, String years, List<EarlyWarnings.Warning> warnings,
                            List<SeriesView> series, List<RowView> rows, int total, int page, int pages,
-                           String previous, String next) {
+                           String previous, String next, List<CorrectiveActions.Entry> actions) {
     }
 
     private final HistoryService history;
+    private final CorrectiveActions actions;
 
-    public HistoryPages(HistoryService history) {
+    public HistoryPages(HistoryService history, CorrectiveActions actions) {
         this.history = history;
+        this.actions = actions;
     }
 
     @GET
@@ -83,7 +85,7 @@ public class HistoryPages {
                                 @QueryParam("years") String years, @QueryParam("page") String page) {
         HistoryService.History h = history.own(HistoryFilters.of(scheme, measurand, method, from, until, rounds, years));
         return Templates.history(view(h, true, "/my-laboratory/history", page,
-                e -> "/api/v1/my-rounds/" + e.roundId() + "/documents/" + e.documentId()));
+                e -> "/api/v1/my-rounds/" + e.roundId() + "/documents/" + e.documentId(), actions.own()));
     }
 
     @GET
@@ -97,11 +99,11 @@ public class HistoryPages {
         HistoryService.History h = history.history(laboratoryId,
                 HistoryFilters.of(scheme, measurand, method, from, until, rounds, years));
         return Templates.history(view(h, false, "/laboratories/" + laboratoryId + "/history", page,
-                e -> "/api/v1/rounds/" + e.roundId() + "/documents/" + e.documentId()));
+                e -> "/api/v1/rounds/" + e.roundId() + "/documents/" + e.documentId(), actions.forReader(laboratoryId)));
     }
 
     static PageView view(HistoryService.History h, boolean own, String action, String pageParam,
-                         Function<HistoryService.Entry, String> link) {
+                         Function<HistoryService.Entry, String> link, List<CorrectiveActions.Entry> actions) {
         HistoryService.Filter f = h.filter();
         List<Choice> schemes = new ArrayList<>();
         schemes.add(new Choice("", "All schemes", f.schemeId() == null));
@@ -149,7 +151,7 @@ public class HistoryPages {
                 f.windowRounds() == null ? "" : f.windowRounds().toString(),
                 f.windowYears() == null ? "" : f.windowYears().toString(), h.warnings(), series, rows, total, page,
                 pages, page > 1 ? action + "?" + query + "page=" + (page - 1) : null,
-                page < pages ? action + "?" + query + "page=" + (page + 1) : null);
+                page < pages ? action + "?" + query + "page=" + (page + 1) : null, actions);
     }
 
     private static List<Choice> choices(String all, List<String> values, String selected) {
@@ -184,7 +186,9 @@ public class HistoryPages {
                 e.verdict() == null ? "not scored" : e.verdict().word(),
                 e.verdict() == null ? "" : "verdict-" + e.verdict().word(), e.reportId() + " ("
                 + e.reportStatus().toLowerCase(java.util.Locale.ROOT) + ")", link,
-                e.excludedReason() != null ? e.excludedReason() : e.informationOnly() ? "for information only" : "");
+                e.excludedReason() != null ? e.excludedReason() : e.informationOnly() ? "for information only" : "",
+                URLEncoder.encode(e.resultKey(), StandardCharsets.UTF_8),
+                e.verdict() == Verdict.QUESTIONABLE || e.verdict() == Verdict.UNSATISFACTORY);
     }
 
     /** A method group in words: {@code SPARK_OES} → "Spark OES". */

@@ -20,9 +20,26 @@ import org.roundtable.account.Role;
 public class HistoryResource {
 
     private final HistoryService history;
+    private final CorrectiveActions actions;
 
-    public HistoryResource(HistoryService history) {
+    public HistoryResource(HistoryService history, CorrectiveActions actions) {
         this.history = history;
+        this.actions = actions;
+    }
+
+    @GET
+    @Path("my-laboratory/corrective-actions")
+    @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
+    public java.util.List<CorrectiveActions.Entry> ownCorrectiveActions() {
+        return actions.own();
+    }
+
+    /** A laboratory's corrective actions for coordinators and granted auditors (rounds inside the data window). */
+    @GET
+    @Path("laboratories/{laboratoryId}/corrective-actions")
+    @RolesAllowed({Role.COORDINATOR_NAME, Role.AUDITOR_NAME})
+    public java.util.List<CorrectiveActions.Entry> correctiveActions(@PathParam("laboratoryId") long laboratoryId) {
+        return actions.forReader(laboratoryId);
     }
 
     @GET

@@ -44,6 +44,34 @@ public class HistoryService {
     static final int DEFAULT_WINDOW_ROUNDS = 4;
 
     /**
+     * Every result of a laboratory ({@code :lab}) in each round's latest publication with a status in
+     * {@code :statuses}, oldest round first; columns as {@link #entry(Object[])} reads them. Public for the benchmark.
+     */
+    public static final String ENTRIES_SQL = """
+                WITH rounds AS (
+                    SELECT DISTINCT round_id FROM history_score WHERE laboratory_id = :lab
+                ), visible AS (
+                    SELECT DISTINCT ON (p.round_id) p.document_id, p.round_id, p.round_code, p.scheme_id,
+                           p.scheme_name, p.report_id, p.status, p.report_sha256,
+                           (SELECT min(f.issued_at) FROM history_publication f
+                             WHERE f.round_id = p.round_id AND f.status IN (:statuses)) AS reported_at
+                      FROM history_publication p
+                     WHERE p.round_id IN (SELECT round_id FROM rounds)
+                       AND p.status IN (:statuses)
+                       AND NOT EXISTS (SELECT 1 FROM history_publication n
+                                        WHERE n.replaces_document_id = p.document_id AND n.status IN (:statuses))
+                     ORDER BY p.round_id, p.issued_at DESC, p.document_id DESC
+                )
+                SELECT v.round_id, v.round_code, v.scheme_id, v.scheme_name, v.document_id, v.report_id, v.status,
+                       v.report_sha256, v.reported_at, s.element, s.item_label, s.unit, s.reported, s.method_group,
+                       s.value, s.assigned_value, s.assigned_value_uncertainty, s.sigma_pt, s.score_used, s.z,
+                       s.z_prime, s.zeta, s.en, s.classification, s.excluded_reason, s.information_only
+                  FROM visible v
+                  JOIN history_score s ON s.laboratory_id = :lab AND s.document_id = v.document_id
+                 ORDER BY v.reported_at, v.round_id, s.element, s.item_label
+                """;
+
+    /**
      * What to show. All optional.
      *
      * @param schemeId      one scheme
@@ -82,6 +110,16 @@ public class HistoryService {
         public Double zLike() {
             ScoreKind k = zLikeKind();
             return k == null ? null : k == ScoreKind.Z ? z : zPrime;
+        }
+
+        /** The round's id as text (form values). */
+        public String roundIdText() {
+            return Long.toString(roundId);
+        }
+
+        /** The result's key in forms: round, element and item. */
+        public String resultKey() {
+            return roundId + ":" + element + ":" + itemLabel;
         }
 
         /** Measurand key: scheme and element (item labels of one round are separate points). */
@@ -170,6 +208,13 @@ public class HistoryService {
         return series(all, Filter.none()).stream().flatMap(s -> s.warnings().stream()).toList();
     }
 
+    /** The rounds of the laboratory's history the caller may see (404 as in {@link #history}). */
+    @Transactional
+    public java.util.Set<Long> visibleRounds(long laboratoryId) {
+        return entries(laboratoryId, reader(laboratoryId)).stream().map(Entry::roundId)
+                .collect(java.util.stream.Collectors.toSet());
+    }
+
     // ---- who reads ---------------------------------------------------------------------------------------------
 
     /** Which reports the caller reads and, for an auditor, the data windows. */
@@ -203,43 +248,29 @@ public class HistoryService {
      */
     List<Entry> entries(long laboratoryId, Reader reader) {
         @SuppressWarnings("unchecked")
-        List<Object[]> rows = entityManager.createNativeQuery("""
-                WITH rounds AS (
-                    SELECT DISTINCT round_id FROM history_score WHERE laboratory_id = :lab
-                ), visible AS (
-                    SELECT DISTINCT ON (p.round_id) p.document_id, p.round_id, p.round_code, p.scheme_id,
-                           p.scheme_name, p.report_id, p.status, p.report_sha256,
-                           (SELECT min(f.issued_at) FROM history_publication f
-                             WHERE f.round_id = p.round_id AND f.status IN (:statuses)) AS reported_at
-                      FROM history_publication p
-                     WHERE p.round_id IN (SELECT round_id FROM rounds)
-                       AND p.status IN (:statuses)
-                       AND NOT EXISTS (SELECT 1 FROM history_publication n
-                                        WHERE n.replaces_document_id = p.document_id AND n.status IN (:statuses))
-                     ORDER BY p.round_id, p.issued_at DESC, p.document_id DESC
-                )
-                SELECT v.round_id, v.round_code, v.scheme_id, v.scheme_name, v.document_id, v.report_id, v.status,
-                       v.report_sha256, v.reported_at, s.element, s.item_label, s.unit, s.reported, s.method_group,
-                       s.value, s.assigned_value, s.assigned_value_uncertainty, s.sigma_pt, s.score_used, s.z,
-                       s.z_prime, s.zeta, s.en, s.classification, s.excluded_reason, s.information_only
-                  FROM visible v
-                  JOIN history_score s ON s.laboratory_id = :lab AND s.document_id = v.document_id
-                 ORDER BY v.reported_at, v.round_id, s.element, s.item_label
-                """).setParameter("lab", laboratoryId).setParameter("statuses", reader.statuses()).getResultList();
+        List<Object[]> rows = entityManager.createNativeQuery(ENTRIES_SQL).setParameter("lab", laboratoryId)
+                .setParameter("statuses", reader.statuses()).getResultList();
         List<Entry> out = new ArrayList<>(rows.size());
         for (Object[] r : rows) {
-            OffsetDateTime reportedAt = Timestamps.utc(r[8]);
-            LocalDate reportedOn = reportedAt.withOffsetSameInstant(ZoneOffset.UTC).toLocalDate();
-            if (reader.windows() != null && reader.windows().stream().noneMatch(w -> w.contains(reportedOn))) {
+            Entry e = entry(r);
+            if (reader.windows() != null && reader.windows().stream().noneMatch(w -> w.contains(e.reportedOn()))) {
                 continue;
             }
-            out.add(new Entry(((Number) r[0]).longValue(), (String) r[1], ((Number) r[2]).longValue(), (String) r[3],
+            out.add(e);
+        }
+        return out;
+    }
+
+    /** One row of {@link #ENTRIES_SQL}. */
+    public static Entry entry(Object[] r) {
+        LocalDate reportedOn = Timestamps.utc(r[8]).withOffsetSameInstant(ZoneOffset.UTC).toLocalDate();
+        {
+            return new Entry(((Number) r[0]).longValue(), (String) r[1], ((Number) r[2]).longValue(), (String) r[3],
                     ((Number) r[4]).longValue(), (String) r[5], (String) r[6], ((String) r[7]).strip(), reportedOn,
                     (String) r[9], (String) r[10], (String) r[11], (String) r[12], (String) r[13], dbl(r[14]),
                     dbl(r[15]), dbl(r[16]), dbl(r[17]), (String) r[18], dbl(r[19]), dbl(r[20]), dbl(r[21]),
-                    dbl(r[22]), Verdict.of((String) r[23]), (String) r[24], Boolean.TRUE.equals(r[25])));
+                    dbl(r[22]), Verdict.of((String) r[23]), (String) r[24], Boolean.TRUE.equals(r[25]));
         }
-        return out;
     }
 
     private static Double dbl(Object o) {
@@ -258,7 +289,7 @@ public class HistoryService {
         return s == null || s.isBlank();
     }
 
-    private static Options options(List<Entry> all) {
+    static Options options(List<Entry> all) {
         Map<Long, String> schemes = new LinkedHashMap<>();
         TreeSet<String> elements = new TreeSet<>();
         TreeSet<String> groups = new TreeSet<>();
@@ -273,11 +304,16 @@ public class HistoryService {
     // ---- series, combined scores, warnings ----------------------------------------------------------------------
 
     List<Series> series(List<Entry> entries, Filter f) {
+        return series(entries, f, settings.warningRules(), LocalDate.now(clock.withZone(ZoneOffset.UTC)));
+    }
+
+    /** Groups entries into per-measurand series with combined scores and warnings (pure; public for the benchmark). */
+    public static List<Series> series(List<Entry> entries, Filter f, EarlyWarnings.Rules warningRules, LocalDate today) {
         Map<String, List<Entry>> byKey = new LinkedHashMap<>();
         for (Entry e : entries) {
             byKey.computeIfAbsent(e.seriesKey(), k -> new ArrayList<>()).add(e);
         }
-        EarlyWarnings rules = new EarlyWarnings(settings.warningRules());
+        EarlyWarnings rules = new EarlyWarnings(warningRules);
         List<Series> out = new ArrayList<>();
         for (List<Entry> list : byKey.values()) {
             Entry first = list.get(0);
@@ -285,7 +321,7 @@ public class HistoryService {
             List<EarlyWarnings.Point> points = list.stream().map(e -> new EarlyWarnings.Point(e.roundCode(),
                     e.zLike(), e.verdict(), e.informationOnly())).toList();
             out.add(new Series(first.seriesKey(), first.schemeId(), first.schemeName(), first.element(), first.unit(),
-                    list, combined(list, f), rules.evaluate(label, points)));
+                    list, combined(list, f, today), rules.evaluate(label, points)));
         }
         out.sort(java.util.Comparator.comparing(Series::element).thenComparing(Series::schemeName));
         return out;
@@ -295,12 +331,12 @@ public class HistoryService {
      * RSZ and SSZ of the series' z-like scores (the score used per result) over the window; ζ and En never,
      * scores for information only left out. Null when the window holds no such score.
      */
-    Combined combined(List<Entry> list, Filter f) {
+    static Combined combined(List<Entry> list, Filter f, LocalDate today) {
         List<Entry> usable = list.stream().filter(e -> !e.informationOnly() && e.zLike() != null
                 && Double.isFinite(e.zLike())).toList();
         List<Entry> window;
         if (f.windowYears() != null && f.windowYears() > 0) {
-            LocalDate since = LocalDate.now(clock.withZone(ZoneOffset.UTC)).minusYears(f.windowYears());
+            LocalDate since = today.minusYears(f.windowYears());
             window = usable.stream().filter(e -> !e.reportedOn().isBefore(since)).toList();
         } else {
             int n = f.windowRounds() == null || f.windowRounds() < 1 ? DEFAULT_WINDOW_ROUNDS : f.windowRounds();

@@ -28,6 +28,9 @@ class HistoryTest {
     @Inject
     HistoryRounds rounds;
 
+    @Inject
+    org.roundtable.testing.Publications publications;
+
     private World.Browser member(long lab) {
         return world.signIn(world.user("lab-member", lab));
     }
@@ -157,5 +160,25 @@ class HistoryTest {
         String page = member(lab).request().get("/my-laboratory/history").then().statusCode(200).extract().asString();
         assertThat(page).contains("<svg", "Unsatisfactory result", "Combined scores", "/api/v1/my-rounds/");
         assertThat(page).doesNotContain("UNSATISFACTORY", "SPARK_OES");
+    }
+
+    @Test
+    void theFieldViewCountsTheVerdictsOfEachRoundFromTheSummaryFilledAtIssue() {
+        long scheme = rounds.scheme();
+        long[] labs = {world.laboratory(), world.laboratory(), world.laboratory()};
+        // z = +0.5 (satisfactory), +2.5 (questionable), +4.0 (unsatisfactory)
+        long round = rounds.evaluatedRound(scheme, labs, new String[]{"18.05", "18.25", "18.40"});
+        World.Browser coordinator = world.signIn(world.user("coordinator", null));
+        assertThat(history(coordinator, "/api/v1/schemes/" + scheme + "/field", 200).getList("measurands")).isEmpty();
+        publications.issueRoundReport(round, 1, ReportStatus.FINAL);
+        JsonPath field = history(coordinator, "/api/v1/schemes/" + scheme + "/field", 200);
+        assertThat(field.getInt("measurands[0].total.satisfactory")).isEqualTo(1);
+        assertThat(field.getInt("measurands[0].total.questionable")).isEqualTo(1);
+        assertThat(field.getInt("measurands[0].total.unsatisfactory")).isEqualTo(1);
+        assertThat(field.getList("measurands[0].rounds")).hasSize(1);
+        assertThat(field.getList("measurands[0].methodGroups")).hasSize(1);
+        assertThat(coordinator.request().get("/schemes/" + scheme + "/field").then().statusCode(200).extract().asString())
+                .contains("Spark OES", "33.3 %");
+        history(coordinator, "/api/v1/schemes/999999999/field", 404);
     }
 }
