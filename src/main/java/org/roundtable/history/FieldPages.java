@@ -10,7 +10,7 @@ import jakarta.ws.rs.Produces;
 import jakarta.ws.rs.core.MediaType;
 import org.roundtable.account.Role;
 
-/** The field view of a scheme for coordinators: page and JSON. */
+/** The field view of a scheme for coordinators (the JSON is {@link HistoryResource#field}). */
 @Path("/")
 @RolesAllowed(Role.COORDINATOR_NAME)
 public class FieldPages {
@@ -31,12 +31,5 @@ public class FieldPages {
     @Produces(MediaType.TEXT_HTML)
     public TemplateInstance page(@PathParam("schemeId") long schemeId) {
         return Templates.field(fields.of(schemeId));
-    }
-
-    @GET
-    @Path("api/v1/schemes/{schemeId}/field")
-    @Produces(MediaType.APPLICATION_JSON)
-    public FieldView.Field json(@PathParam("schemeId") long schemeId) {
-        return fields.of(schemeId);
     }
 }

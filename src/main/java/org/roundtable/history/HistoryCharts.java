@@ -31,10 +31,10 @@ public final class HistoryCharts {
 
     private static final int WIDTH = 640;
     private static final int HEIGHT = 220;
-    private static final int LEFT = 48;
+    private static final int LEFT = 64;
     private static final int RIGHT = 16;
     private static final int TOP = 16;
-    private static final int BOTTOM = 44;
+    private static final int BOTTOM = 64;
 
     private HistoryCharts() {
     }
@@ -118,8 +118,8 @@ public final class HistoryCharts {
         List<String> rounds = rounds(entries);
         xLabels(svg, rounds);
         for (double t : new double[]{lo, (lo + hi) / 2, hi}) {
-            svg.append(String.format(Locale.ROOT, "<text class=\"tick\" x=\"%d\" y=\"%.1f\" text-anchor=\"end\">%s</text>",
-                    LEFT - 4, y.at(t) + 4, esc(NumberFormats.plain(t, 4))));
+            svg.append(String.format(Locale.ROOT, "<text fill=\"#333333\" x=\"%d\" y=\"%.1f\" text-anchor=\"end\">%s</text>",
+                    LEFT - 4, y.at(t) + 4, esc(NumberFormats.plain(t, 3))));
         }
         for (HistoryService.Entry e : entries) {
             Double xpt = e.assignedValue();
@@ -128,12 +128,12 @@ public final class HistoryCharts {
             double cx = x(rounds, e.roundCode());
             if (low != null && high != null) {
                 svg.append(String.format(Locale.ROOT,
-                        "<rect class=\"band\" x=\"%.1f\" y=\"%.1f\" width=\"12\" height=\"%.1f\"/>",
+                        "<rect fill=\"#cfe3f5\" x=\"%.1f\" y=\"%.1f\" width=\"12\" height=\"%.1f\"/>",
                         cx - 6, y.at(high), Math.max(1, y.at(low) - y.at(high))));
             }
             if (xpt != null) {
                 svg.append(String.format(Locale.ROOT,
-                        "<line class=\"assigned\" x1=\"%.1f\" x2=\"%.1f\" y1=\"%.1f\" y2=\"%.1f\"/>",
+                        "<line stroke=\"#1d4f7a\" stroke-width=\"2\" x1=\"%.1f\" x2=\"%.1f\" y1=\"%.1f\" y2=\"%.1f\"/>",
                         cx - 8, cx + 8, y.at(xpt), y.at(xpt)));
             }
             if (e.value() != null) {
@@ -157,21 +157,22 @@ public final class HistoryCharts {
 
     private static StringBuilder open(String label) {
         return new StringBuilder(4096).append(String.format(Locale.ROOT,
-                "<svg xmlns=\"http://www.w3.org/2000/svg\" class=\"history-chart\" viewBox=\"0 0 %d %d\" "
-                        + "role=\"img\" aria-label=\"%s\"><title>%s</title>"
-                        + "<style>.warning{stroke:#c08a00;stroke-dasharray:4 3}.action{stroke:#b3261e}"
-                        + ".zero{stroke:#888}.tick,.round{font:11px sans-serif;fill:#333}"
-                        + ".band{fill:#cfe3f5}.assigned{stroke:#1d4f7a;stroke-width:2}"
-                        + "circle{stroke:#222;stroke-width:1}.satisfactory{fill:#2e7d32}"
-                        + ".questionable{fill:#f0b400}.unsatisfactory{fill:#b3261e}.none{fill:#fff}</style>",
-                WIDTH, HEIGHT, esc(label), esc(label)));
+                "<svg xmlns=\"http://www.w3.org/2000/svg\" class=\"history-chart\" width=\"%d\" height=\"%d\" viewBox=\"0 0 %d %d\" "
+                        + "role=\"img\" aria-label=\"%s\" font-family=\"sans-serif\" font-size=\"11\"><title>%s</title>",
+                WIDTH, HEIGHT, WIDTH, HEIGHT, esc(label), esc(label)));
     }
 
     private static void hline(StringBuilder svg, Axis y, double v, String cls, String label) {
+        // presentation attributes, not CSS: the pages' content security policy allows no inline styles
+        String stroke = switch (cls) {
+            case "warning" -> "stroke=\"#c08a00\" stroke-dasharray=\"4 3\"";
+            case "action" -> "stroke=\"#b3261e\"";
+            default -> "stroke=\"#888888\"";
+        };
         svg.append(String.format(Locale.ROOT,
-                "<line class=\"%s\" x1=\"%d\" x2=\"%d\" y1=\"%.1f\" y2=\"%.1f\"/>"
-                        + "<text class=\"tick\" x=\"%d\" y=\"%.1f\" text-anchor=\"end\">%s</text>",
-                cls, LEFT, WIDTH - RIGHT, y.at(v), y.at(v), LEFT - 4, y.at(v) + 4, esc(label)));
+                "<line %s x1=\"%d\" x2=\"%d\" y1=\"%.1f\" y2=\"%.1f\"/>"
+                        + "<text fill=\"#333333\" x=\"%d\" y=\"%.1f\" text-anchor=\"end\">%s</text>",
+                stroke, LEFT, WIDTH - RIGHT, y.at(v), y.at(v), LEFT - 4, y.at(v) + 4, esc(label)));
     }
 
     private static List<String> rounds(List<HistoryService.Entry> entries) {
@@ -187,9 +188,11 @@ public final class HistoryCharts {
     private static void xLabels(StringBuilder svg, List<String> rounds) {
         int step = Math.max(1, (int) Math.ceil(rounds.size() / 12.0));
         for (int i = 0; i < rounds.size(); i += step) {
+            double cx = x(rounds, rounds.get(i));
+            int cy = HEIGHT - BOTTOM + 14;
             svg.append(String.format(Locale.ROOT,
-                    "<text class=\"round\" x=\"%.1f\" y=\"%d\" text-anchor=\"middle\">%s</text>",
-                    x(rounds, rounds.get(i)), HEIGHT - BOTTOM + 16, esc(shortCode(rounds.get(i)))));
+                    "<text fill=\"#333333\" x=\"%.1f\" y=\"%d\" text-anchor=\"end\" transform=\"rotate(-30 %.1f %d)\">%s</text>",
+                    cx, cy, cx, cy, esc(shortCode(rounds.get(i)))));
         }
     }
 
@@ -199,8 +202,17 @@ public final class HistoryCharts {
 
     private static void point(StringBuilder svg, double cx, double cy, String href, String title, String cls) {
         svg.append(String.format(Locale.ROOT,
-                "<a href=\"%s\"><circle class=\"%s\" cx=\"%.1f\" cy=\"%.1f\" r=\"5\"><title>%s</title></circle></a>",
-                esc(href), cls, cx, cy, esc(title)));
+                "<a href=\"%s\"><circle fill=\"%s\" stroke=\"#222222\" cx=\"%.1f\" cy=\"%.1f\" r=\"5\"><title>%s</title></circle></a>",
+                esc(href), fill(cls), cx, cy, esc(title)));
+    }
+
+    private static String fill(String verdict) {
+        return switch (verdict) {
+            case "satisfactory" -> "#2e7d32";
+            case "questionable" -> "#f0b400";
+            case "unsatisfactory" -> "#b3261e";
+            default -> "#ffffff";
+        };
     }
 
     private static String fmt(double v) {

@@ -76,7 +76,7 @@ public class HistoryExports {
                 .filter(a -> h.entries().stream().anyMatch(e -> e.roundId() == a.roundId())).toList();
         LocalDate today = Timestamps.now(clock).toLocalDate();
         String stem = "HX-" + lab + "-" + DateTimeFormatter.BASIC_ISO_DATE.format(today) + "-"
-                + Secrets.randomToken(6).replaceAll("[^A-Za-z0-9]", "x").toUpperCase(Locale.ROOT);
+                + Secrets.randomToken(16).substring(0, 6).replaceAll("[^A-Za-z0-9]", "x").toUpperCase(Locale.ROOT);
         byte[] csv = csv(h).getBytes(StandardCharsets.UTF_8);
         String csvId = stem + "-CSV";
         String pdfId = stem + "-PDF";

@@ -21,10 +21,20 @@ public class HistoryResource {
 
     private final HistoryService history;
     private final CorrectiveActions actions;
+    private final FieldView fields;
 
-    public HistoryResource(HistoryService history, CorrectiveActions actions) {
+    public HistoryResource(HistoryService history, CorrectiveActions actions, FieldView fields) {
         this.history = history;
         this.actions = actions;
+        this.fields = fields;
+    }
+
+    /** The field view of a scheme (coordinators). */
+    @GET
+    @Path("field-view/{schemeId}")
+    @RolesAllowed(Role.COORDINATOR_NAME)
+    public FieldView.Field field(@PathParam("schemeId") long schemeId) {
+        return fields.of(schemeId);
     }
 
     @GET

@@ -169,9 +169,9 @@ class HistoryTest {
         // z = +0.5 (satisfactory), +2.5 (questionable), +4.0 (unsatisfactory)
         long round = rounds.evaluatedRound(scheme, labs, new String[]{"18.05", "18.25", "18.40"});
         World.Browser coordinator = world.signIn(world.user("coordinator", null));
-        assertThat(history(coordinator, "/api/v1/schemes/" + scheme + "/field", 200).getList("measurands")).isEmpty();
+        assertThat(history(coordinator, "/api/v1/field-view/" + scheme, 200).getList("measurands")).isEmpty();
         publications.issueRoundReport(round, 1, ReportStatus.FINAL);
-        JsonPath field = history(coordinator, "/api/v1/schemes/" + scheme + "/field", 200);
+        JsonPath field = history(coordinator, "/api/v1/field-view/" + scheme, 200);
         assertThat(field.getInt("measurands[0].total.satisfactory")).isEqualTo(1);
         assertThat(field.getInt("measurands[0].total.questionable")).isEqualTo(1);
         assertThat(field.getInt("measurands[0].total.unsatisfactory")).isEqualTo(1);
@@ -179,6 +179,6 @@ class HistoryTest {
         assertThat(field.getList("measurands[0].methodGroups")).hasSize(1);
         assertThat(coordinator.request().get("/schemes/" + scheme + "/field").then().statusCode(200).extract().asString())
                 .contains("Spark OES", "33.3 %");
-        history(coordinator, "/api/v1/schemes/999999999/field", 404);
+        history(coordinator, "/api/v1/field-view/999999999", 404);
     }
 }
