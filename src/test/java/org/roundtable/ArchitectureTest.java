@@ -38,6 +38,14 @@ class ArchitectureTest {
     }
 
     @Test
+    void noFeatureDependsOnTheHistory() {
+        // the history reads what the other features publish (services, report.RoundReportIssued); none reads it
+        noClasses().that().resideOutsideOfPackage("org.roundtable.history..")
+                .should().dependOnClassesThat().resideInAPackage("org.roundtable.history..")
+                .check(classes);
+    }
+
+    @Test
     void theStatisticsAndTheReportRenderingFormNoCycles() {
         slices().matching("org.roundtable.report.(*)..").should().beFreeOfCycles().check(classes);
         slices().matching("org.roundtable.statistics.(*)..").should().beFreeOfCycles().check(classes);

@@ -34,6 +34,14 @@ public class AuditorGrant {
     @Column(name = "valid_until", nullable = false)
     public OffsetDateTime validUntil;
 
+    /** First day of the data window (rounds whose final report was issued on or after it), or open. */
+    @Column(name = "data_from")
+    public java.time.LocalDate dataFrom;
+
+    /** Last day of the data window (rounds whose final report was issued on or before it), or open. */
+    @Column(name = "data_until")
+    public java.time.LocalDate dataUntil;
+
     @Column(name = "revoked_at")
     public OffsetDateTime revokedAt;
 

@@ -48,8 +48,38 @@ public class AuditorGrantService {
                                     OffsetDateTime validUntil) {
     }
 
+    /**
+     * The data window of an auditor's valid grant from a laboratory: the auditor may see rounds whose final report
+     * was first issued from {@code from} to {@code until} (UTC days, both included; null = open).
+     */
+    public record DataWindow(java.time.LocalDate from, java.time.LocalDate until) {
+        public boolean contains(java.time.LocalDate day) {
+            return (from == null || !day.isBefore(from)) && (until == null || !day.isAfter(until));
+        }
+    }
+
+    /**
+     * The data windows of the auditor's currently valid grants from the laboratory (one per grant; a round is
+     * visible when any window contains it); empty without a valid grant.
+     */
+    @Transactional
+    public List<DataWindow> activeDataWindows(long auditorId, long laboratoryId) {
+        return grants.list("auditorId = ?1 and laboratoryId = ?2 and revokedAt is null and validUntil > ?3",
+                auditorId, laboratoryId, now()).stream().map(g -> new DataWindow(g.dataFrom, g.dataUntil)).toList();
+    }
+
     @Transactional
     public GrantView grant(String auditorUsername, OffsetDateTime validUntil) {
+        return grant(auditorUsername, validUntil, null, null);
+    }
+
+    /** A grant with a data window (either end may be open); see {@link DataWindow}. */
+    @Transactional
+    public GrantView grant(String auditorUsername, OffsetDateTime validUntil, java.time.LocalDate dataFrom,
+                           java.time.LocalDate dataUntil) {
+        if (dataFrom != null && dataUntil != null && dataFrom.isAfter(dataUntil)) {
+            throw new DomainException.BadRequest("The data window starts on or before the day it ends.");
+        }
         long laboratoryId = currentUser.requireLaboratoryId();
         UserAccount auditor = users.find("username", auditorUsername == null ? "" : auditorUsername.strip().toLowerCase())
                 .firstResultOptional()
@@ -65,9 +95,12 @@ public class AuditorGrantService {
         grant.grantedBy = currentUser.requireUserId();
         grant.grantedAt = now;
         grant.validUntil = validUntil.withOffsetSameInstant(ZoneOffset.UTC);
+        grant.dataFrom = dataFrom;
+        grant.dataUntil = dataUntil;
         grants.persist(grant);
         audit.record(new AuditTrail.Event(currentUser.actor(), "auditor-grant.created", "auditor-grant",
-                grant.id.toString(), null, hash(grant), "auditor=" + auditor.username + " until=" + grant.validUntil));
+                grant.id.toString(), null, hash(grant), "auditor=" + auditor.username + " until=" + grant.validUntil
+                + (dataFrom == null && dataUntil == null ? "" : " data=" + dataFrom + ".." + dataUntil)));
         return view(grant, auditor, now);
     }
 

@@ -1,6 +1,7 @@
 package org.roundtable.report;
 
 import jakarta.enterprise.context.ApplicationScoped;
+import jakarta.enterprise.event.Event;
 import jakarta.persistence.EntityManager;
 import jakarta.transaction.Transactional;
 import org.roundtable.platform.Timestamps;
@@ -43,11 +44,14 @@ public class IssuedDocuments {
     private final EntityManager entityManager;
     private final AuditTrail audit;
     private final Clock clock;
+    private final Event<RoundReportIssued> roundReportIssued;
 
-    public IssuedDocuments(EntityManager entityManager, AuditTrail audit, Clock clock) {
+    public IssuedDocuments(EntityManager entityManager, AuditTrail audit, Clock clock,
+                           Event<RoundReportIssued> roundReportIssued) {
         this.entityManager = entityManager;
         this.audit = audit;
         this.clock = clock;
+        this.roundReportIssued = roundReportIssued;
     }
 
     /**
@@ -132,6 +136,12 @@ public class IssuedDocuments {
         audit.record(new AuditTrail.Event(actor, "report.issue", "issued_document", Long.toString(id.longValue()),
                 null, sha256, issue.kind().name() + " " + identity.status().name() + " " + identity.reportId()
                 + (identity.replacesReportId() == null ? "" : " replaces " + identity.replacesReportId())));
+        if (issue.kind() == DocumentKind.ROUND && issue.roundId() != null && issue.evaluationRunId() != null) {
+            Number version = (Number) entityManager.createNativeQuery("SELECT version FROM evaluation_run WHERE id = :id")
+                    .setParameter("id", issue.evaluationRunId()).getSingleResult();
+            roundReportIssued.fire(new RoundReportIssued(id.longValue(), identity.reportId(), identity.status().name(),
+                    issue.roundId(), issue.evaluationRunId(), version.intValue(), sha256, now, replaces));
+        }
         return byId(id.longValue()).orElseThrow();
     }
 

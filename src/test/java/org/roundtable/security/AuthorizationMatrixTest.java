@@ -319,6 +319,29 @@ class AuthorizationMatrixTest {
                 }
             }
         }
+        if (resolved.contains("{exportId}")) {
+            byte[] bytes = World.unique("export").getBytes(java.nio.charset.StandardCharsets.UTF_8);
+            long export = world.insert("INSERT INTO issued_document (report_id, kind, status, laboratory_id, content_type, "
+                    + "bytes, sha256, issued_at, issued_by) VALUES (?, 'HISTORY_EXPORT', 'FINAL', ?, 'text/csv', ?, ?, now(), "
+                    + "'matrix') RETURNING id", World.unique("HX"), labA, bytes, org.roundtable.platform.Secrets.sha256Hex(bytes));
+            resolved = resolved.replace("{exportId}", Long.toString(export));
+        }
+        if (resolved.contains("{actionId}")) {
+            // an open corrective action of laboratory A (on a round of A), with one PDF attachment
+            long round = world.round(org.roundtable.scheme.RoundState.CLOSED, labA);
+            long action = world.insert("INSERT INTO corrective_action (laboratory_id, round_id, element, item_label, "
+                    + "round_code, verdict, cause, action_taken, created_by, created_at, updated_by, updated_at) VALUES "
+                    + "(?, ?, 'Cr', 'A', 'MATRIX', 'UNSATISFACTORY', 'A cause', 'An action', 'matrix', now(), 'matrix', "
+                    + "now()) RETURNING id", labA, round);
+            resolved = resolved.replace("{actionId}", Long.toString(action));
+            if (resolved.contains("{attachmentId}")) {
+                byte[] pdf = "%PDF-1.7 matrix".getBytes(java.nio.charset.StandardCharsets.US_ASCII);
+                long attachment = world.insert("INSERT INTO corrective_action_attachment (action_id, file_name, "
+                        + "content_type, bytes, sha256, added_by, added_at) VALUES (?, 'evidence.pdf', 'application/pdf', "
+                        + "?, ?, 'matrix', now()) RETURNING id", action, pdf, org.roundtable.platform.Secrets.sha256Hex(pdf));
+                resolved = resolved.replace("{attachmentId}", Long.toString(attachment));
+            }
+        }
         if (resolved.contains("{")) {
             throw new IllegalStateException("no resolver for a placeholder in " + path + "; add one to AuthorizationMatrixTest");
         }

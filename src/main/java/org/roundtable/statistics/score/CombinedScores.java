@@ -14,7 +14,11 @@ import org.hipparchus.distribution.continuous.ChiSquaredDistribution;
  * <p>Symbols: m number of scores.
  *
  * <p>Special cases: only scores of one kind (z, z′ or ζ) may be combined; En is not normally
- * distributed and is refused. Caveat (carried in the result): the scores are assumed
+ * distributed and is refused. z and z′ may be mixed in one series: a laboratory's history uses, per
+ * result, the score its round used (z, or z′ where u(x_pt) &gt; 0.3·σpt), and both are standardised
+ * against the same kind of standard deviation for proficiency assessment (z′ only widens it by
+ * u(x_pt)); the mixed series is reported as kind z′ (note added for the history, common practice,
+ * no source). ζ is never mixed with either. Caveat (carried in the result): the scores are assumed
  * independent — scores of correlated measurands (e.g. alloy components summing to 100 %) or
  * from the same method bias overstate significance; opposite signs cancel in RSZ; one bad
  * result is diluted; always show the individual scores.
@@ -70,13 +74,18 @@ public final class CombinedScores {
         double[] values = new double[scores.size()];
         for (int i = 0; i < values.length; i++) {
             Score s = scores.get(i);
-            if (s.kind() != kind) {
+            if (s.kind() != kind && !(zLike(kind) && zLike(s.kind()))) {
                 throw new IllegalArgumentException("only scores of one kind are combined: found "
                         + kind + " and " + s.kind());
             }
             values[i] = s.value();
         }
-        return combine(kind, values);
+        boolean mixed = scores.stream().anyMatch(s -> s.kind() != kind);
+        return combine(mixed ? ScoreKind.Z_PRIME : kind, values);
+    }
+
+    private static boolean zLike(ScoreKind kind) {
+        return kind == ScoreKind.Z || kind == ScoreKind.Z_PRIME;
     }
 
     /** Combines scores of one kind given as bare numbers. */
