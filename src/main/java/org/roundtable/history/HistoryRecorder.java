@@ -95,12 +95,12 @@ public class HistoryRecorder {
     }
 
     /**
-     * Whether the published score is for information only. THE one place where that flag enters the history: the
-     * evaluation does not publish it yet (the verdicts work adds it); when it does, read it here, and combined
-     * scores and warnings leave such scores out (they filter on {@code history_score.information_only}).
+     * Whether the published score is for information only (a consensus or data-derived σpt below the plan's
+     * minimum: no classification). THE one place where that flag enters the history; combined scores and warnings
+     * leave such scores out (they filter on {@code history_score.information_only}).
      */
     static boolean informationOnly(EvaluationViews.MeasurandOutcome m, EvaluationViews.Score s) {
-        return false;
+        return m.rules() != null && m.rules().informationOnly();
     }
 
     /** 0 satisfactory, 1 questionable, 2 unsatisfactory, 3 not scored. */
