@@ -73,7 +73,7 @@ public class NoticeMails {
             plain.append(paragraph).append("\n\n");
         }
         plain.append("Open the page: ").append(url).append("\n\n");
-        plain.append("-- \nTimes are in ").append(zone.getId()).append(" (your time zone). ")
+        plain.append("-- \nTimes are in ").append(zone.getId()).append(". ")
                 .append("You receive this because of your Roundtable account. Choose which notices come by e-mail ")
                 .append("on your account page: ").append(account).append('\n');
         String html = Templates.mail(name, text.subject(), text.paragraphs(), url, zone.getId(), account).render();
