@@ -3,6 +3,8 @@
 #   PORT                  HTTP port (default 8080)
 #   ROUNDTABLE_DB_PORT    port of the embedded PostgreSQL (default 5488)
 #   ROUNDTABLE_DATA_DIR   where the database and the session key live (default: data/ in the repository)
+#   QUARKUS_HTTP_HOST     interface to listen on (default 127.0.0.1: this machine only; 0.0.0.0 for all)
+#   JAVA_HEAP             the server's heap limit (default 768m)
 # Ctrl-C stops the server and the embedded PostgreSQL.
 set -euo pipefail
 
@@ -27,6 +29,8 @@ fi
 export QUARKUS_HTTP_AUTH_SESSION_ENCRYPTION_KEY="$(cat "$key_file")"
 
 export PORT="${PORT:-8080}"
+# listen on this machine only unless told otherwise
+export QUARKUS_HTTP_HOST="${QUARKUS_HTTP_HOST:-127.0.0.1}"
 export ROUNDTABLE_DEMO=true
 # plain HTTP on localhost: cookies cannot be marked Secure
 export ROUNDTABLE_SECURE_COOKIES="${ROUNDTABLE_SECURE_COOKIES:-false}"
@@ -41,4 +45,20 @@ Roundtable demo
   The demo sign-ins are printed once the server is up. Stop with Ctrl-C.
 MSG
 
-exec java -Duser.timezone=UTC -jar "$jar"
+# The server exits with status 3 when its embedded PostgreSQL died and could not be started again in-process:
+# start both afresh. Any other exit (Ctrl-C included) ends the script with the server's status.
+java_pid=
+trap '[ -n "$java_pid" ] && kill -TERM "$java_pid" 2>/dev/null' TERM INT
+while true; do
+  java -Xmx"${JAVA_HEAP:-768m}" -XX:+ExitOnOutOfMemoryError -Duser.timezone=UTC -jar "$jar" &
+  java_pid=$!
+  set +e
+  wait "$java_pid"; status=$?
+  # a signal interrupts the first wait: wait for the server to finish stopping
+  if kill -0 "$java_pid" 2>/dev/null; then wait "$java_pid"; status=$?; fi
+  set -e
+  if [ "$status" -ne 3 ]; then
+    exit "$status"
+  fi
+  echo "Roundtable stopped because its database was lost; starting again..." >&2
+done

@@ -17,6 +17,12 @@ import java.util.Optional;
  * {@code max-failed-sign-ins} failures within {@code throttle-window}, further attempts are refused until the
  * window has passed. Unknown users, wrong passwords and disabled accounts get the same answer after the
  * same work.
+ * <p>
+ * Each attempt is <em>reserved</em> before the password (or second-step code) is checked: under a per-username
+ * advisory lock, the recent failures are counted and the attempt is inserted as a failure, in one short
+ * transaction; only a correct check then settles it as a success. Parallel guesses therefore queue on the lock
+ * and see each other's reservations, so no more than the limit are ever checked, however many arrive at once;
+ * an attempt whose server dies mid-check stays counted as a failure.
  */
 @ApplicationScoped
 public class SignInService {
@@ -64,7 +70,7 @@ public class SignInService {
             passwords.burnVerificationTime(password);
             throw new SignInRefused(GENERIC_FAILURE, 401);
         }
-        refuseWhenThrottled(name, remoteAddress);
+        long attempt = reserveAttempt(name, remoteAddress);
         Optional<UserAccount> user = QuarkusTransaction.requiringNew().call(() ->
                 users.find("username", name).firstResultOptional());
         boolean ok = user.isPresent() && user.get().enabled && user.get().passwordHash != null
@@ -72,11 +78,11 @@ public class SignInService {
         if (user.isEmpty() || user.get().passwordHash == null) {
             passwords.burnVerificationTime(password);
         }
-        record(name, ok, remoteAddress);
         if (!ok) {
             SecurityLog.event("sign-in-failed", name, user.isPresent() && !user.get().enabled ? "reason=disabled" : "");
             throw new SignInRefused(GENERIC_FAILURE, 401);
         }
+        settleAsSuccess(attempt);
         if (twoStep.status(user.get().id) == TwoStepService.Status.ON) {
             SecurityLog.event("sign-in-password-ok", name, "second step needed");
             return new SignInResult(sessions.startAwaitingSecondStep(user.get().id), true);
@@ -90,43 +96,58 @@ public class SignInService {
         Long userId = sessions.takeAwaitingSecondStep(awaitingToken)
                 .orElseThrow(() -> new SignInRefused("This sign-in has expired. Please sign in again.", 401));
         String name = QuarkusTransaction.requiringNew().call(() -> users.findById(userId).username);
-        refuseWhenThrottled(name, remoteAddress);
+        long attempt = reserveAttempt(name, remoteAddress);
         boolean ok = QuarkusTransaction.requiringNew().call(() -> twoStep.verifySecondStep(userId, code));
-        record(name, ok, remoteAddress);
         if (!ok) {
             SecurityLog.event("sign-in-second-step-failed", name, "");
             throw new SignInRefused("That code is not right.", 401);
         }
+        settleAsSuccess(attempt);
         sessions.end(Secrets.sha256Hex(awaitingToken), "second-step-done");
         SecurityLog.event("sign-in", name, "two-step");
         return sessions.start(userId);
     }
 
-    private void refuseWhenThrottled(String name, String remoteAddress) {
+    /**
+     * Reserves one attempt for {@code name}: under a transaction-scoped advisory lock on the username, counts the
+     * failures in the window and records this attempt as a failure. Returns the attempt's id, or throws
+     * {@link SignInRefused} (429) when the limit is reached — the refused attempt is recorded too, so a
+     * continuing attack keeps the username throttled.
+     */
+    private long reserveAttempt(String name, String remoteAddress) {
         OffsetDateTime now = now();
-        long recentFailures = QuarkusTransaction.requiringNew().call(() -> ((Number) entityManager.createNativeQuery("""
-                SELECT count(*) FROM login_attempt
-                 WHERE username = :name AND NOT succeeded AND attempted_at > :since
-                """)
-                .setParameter("name", name)
-                .setParameter("since", now.minus(settings.throttleWindow()))
-                .getSingleResult()).longValue());
-        if (recentFailures >= settings.maxFailedSignIns()) {
-            record(name, false, remoteAddress);
-            SecurityLog.event("sign-in-throttled", name, "failures=" + recentFailures);
+        long[] outcome = QuarkusTransaction.requiringNew().call(() -> {
+            entityManager.createNativeQuery("SELECT count(*) FROM (SELECT pg_advisory_xact_lock(hashtext(:key))) AS locked")
+                    .setParameter("key", "sign-in:" + name)
+                    .getSingleResult();
+            long recentFailures = ((Number) entityManager.createNativeQuery("""
+                    SELECT count(*) FROM login_attempt
+                     WHERE username = :name AND NOT succeeded AND attempted_at > :since
+                    """)
+                    .setParameter("name", name)
+                    .setParameter("since", now.minus(settings.throttleWindow()))
+                    .getSingleResult()).longValue();
+            long id = ((Number) entityManager.createNativeQuery("""
+                    INSERT INTO login_attempt (username, succeeded, attempted_at, remote_address)
+                    VALUES (:name, false, :at, :address) RETURNING id
+                    """)
+                    .setParameter("name", name)
+                    .setParameter("at", now)
+                    .setParameter("address", remoteAddress == null ? null : SecurityLog.safe(remoteAddress))
+                    .getSingleResult()).longValue();
+            return new long[] {id, recentFailures};
+        });
+        if (outcome[1] >= settings.maxFailedSignIns()) {
+            SecurityLog.event("sign-in-throttled", name, "failures=" + outcome[1]);
             throw new SignInRefused(THROTTLED, 429);
         }
+        return outcome[0];
     }
 
-    private void record(String name, boolean succeeded, String remoteAddress) {
-        QuarkusTransaction.requiringNew().run(() -> entityManager.createNativeQuery("""
-                INSERT INTO login_attempt (username, succeeded, attempted_at, remote_address)
-                VALUES (:name, :ok, :at, :address)
-                """)
-                .setParameter("name", name)
-                .setParameter("ok", succeeded)
-                .setParameter("at", now())
-                .setParameter("address", remoteAddress == null ? null : SecurityLog.safe(remoteAddress))
+    private void settleAsSuccess(long attempt) {
+        QuarkusTransaction.requiringNew().run(() -> entityManager.createNativeQuery(
+                        "UPDATE login_attempt SET succeeded = true WHERE id = :id")
+                .setParameter("id", attempt)
                 .executeUpdate());
     }
 

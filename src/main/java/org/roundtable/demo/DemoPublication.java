@@ -45,8 +45,8 @@ public class DemoPublication implements JobHandler {
         }
         long started = System.nanoTime();
         reports.publishWithoutJobs(Long.parseLong(m.group(1)), Integer.parseInt(m.group(2)),
-                "Five laboratories reported all ten measurands. With fewer than ten results the consensus values carry "
-                        + "a larger uncertainty; read the scores with that in mind (demo data, invented).",
+                "Five laboratories reported all ten measurands. Five results are too few for a consensus, so the "
+                        + "scores are against the lot's certified values (demo data, invented).",
                 new ReportLifecycle.Signer(COORDINATOR, "Marta Ilves"));
         long ms = (System.nanoTime() - started) / 1_000_000;
         LOG.infof("Demo round %s published (preliminary and final reports) in %d ms.", DemoSchemes.PAST_ROUND, ms);

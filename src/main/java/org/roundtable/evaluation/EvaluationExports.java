@@ -7,6 +7,7 @@ import org.roundtable.account.CurrentUser;
 import org.roundtable.account.Role;
 import org.roundtable.platform.CsvText;
 import org.roundtable.platform.DomainException;
+import org.roundtable.platform.NumberFormats;
 import org.roundtable.platform.Secrets;
 import org.roundtable.scheme.RoundAccess;
 
@@ -54,13 +55,13 @@ public class EvaluationExports {
             "assigned_value", "assigned_value_uncertainty", "sigma_pt", "sigma_pt_method", "sigma_pt_source", "median",
             "made", "niqr", "robust_mean", "robust_sd", "iterations", "converged", "score_used", "score_used_reason",
             "warnings", "participant_code", "reported", "method_group", "value", "z", "z_prime", "zeta", "en",
-            "classification", "excluded_reason");
+            "classification", "excluded_reason", "information_only", "score_decimals", "en_coverage_factor");
 
     /** Columns of a laboratory's {@code scores.csv}: one row per measurand and item it reported. */
     public static final List<String> OWN_SCORES_COLUMNS = List.of("round", "participant_code", "evaluation_version",
             "report_id", "report_status", "element", "item", "unit", "reported", "method_group", "value",
             "assigned_value", "assigned_value_uncertainty", "sigma_pt", "score_used", "z", "z_prime", "zeta", "en",
-            "classification", "excluded_reason");
+            "classification", "excluded_reason", "information_only");
 
     private static final String HIDDEN = "The round's published evaluation";
 
@@ -83,13 +84,45 @@ public class EvaluationExports {
                                   Double robustSd, Integer iterations, Boolean converged,
                                   List<EvaluationViews.Warning> warnings,
                                   List<EvaluationViews.MethodGroupStatistics> methodGroups,
-                                  List<ParticipantExport> scores) {
+                                  List<ParticipantExport> scores, int reportingDigits, int scoreDecimals,
+                                  Double enCoverageFactor, boolean informationOnly, Printed printed) {
     }
 
-    /** One participant's result as reported and its scores; {@code excludedReason} when it was left out. */
+    /**
+     * A measurand's figures as printed ({@link NumberFormats}: statistics and uncertainties at reporting digits + 1,
+     * no exponent), beside the full-precision numbers of the export.
+     */
+    public record Printed(String assignedValue, String assignedValueUncertainty, String sigmaPt, String median,
+                          String madE, String nIqr, String robustMean, String robustSd) {
+
+        static Printed of(EvaluationViews.MeasurandOutcome m, int digits) {
+            return new Printed(NumberFormats.plainStatistic(m.assignedValue(), digits),
+                    NumberFormats.plainStatistic(m.assignedValueUncertainty(), digits),
+                    NumberFormats.plainStatistic(m.sigmaPt(), digits), NumberFormats.plainStatistic(m.median(), digits),
+                    NumberFormats.plainStatistic(m.madE(), digits), NumberFormats.plainStatistic(m.nIqr(), digits),
+                    NumberFormats.plainStatistic(m.robustMean(), digits),
+                    NumberFormats.plainStatistic(m.robustSd(), digits));
+        }
+    }
+
+    /** A participant's value (reporting digits) and scores (score decimals) as printed. */
+    public record PrintedScores(String value, String z, String zPrime, String zeta, String en) {
+
+        static PrintedScores of(Double value, Double z, Double zPrime, Double zeta, Double en, int digits,
+                                int scoreDecimals) {
+            return new PrintedScores(NumberFormats.plainResult(value, digits),
+                    NumberFormats.plainScore(z, scoreDecimals), NumberFormats.plainScore(zPrime, scoreDecimals),
+                    NumberFormats.plainScore(zeta, scoreDecimals), NumberFormats.plainScore(en, scoreDecimals));
+        }
+    }
+
+    /**
+     * One participant's result as reported and its scores; {@code excludedReason} when it was left out;
+     * {@code informationOnly} when its scores are for information only (then {@code classification} is null).
+     */
     public record ParticipantExport(String participantCode, String reported, String methodGroup, Double value,
                                     Double z, Double zPrime, Double zeta, Double en, String classification,
-                                    String excludedReason) {
+                                    String excludedReason, boolean informationOnly, PrintedScores printed) {
     }
 
     /** A laboratory's own scores in the published run. */
@@ -101,7 +134,8 @@ public class EvaluationExports {
     public record OwnScore(String element, String itemLabel, String unit, String reported, String methodGroup,
                            Double value, Double assignedValue, Double assignedValueUncertainty, Double sigmaPt,
                            String scoreUsed, Double z, Double zPrime, Double zeta, Double en, String classification,
-                           String excludedReason) {
+                           String excludedReason, boolean informationOnly, int reportingDigits, int scoreDecimals,
+                           PrintedScores printed) {
     }
 
     /**
@@ -169,13 +203,19 @@ public class EvaluationExports {
         PublishedRuns.Published published = visibility.forLaboratories(roundId)
                 .orElseThrow(() -> new DomainException.NotFound(HIDDEN));
         EvaluationViews.Run run = evaluations.run(roundId, published.version());
+        Map<String, Integer> digitsOf = evaluations.reportingDigits(roundId);
         List<OwnScore> scores = new ArrayList<>();
         for (EvaluationViews.MeasurandOutcome m : run.measurands()) {
+            int digits = digitsOf.getOrDefault(m.element(), DEFAULT_DIGITS);
+            int decimals = m.rules() == null ? NumberFormats.DEFAULT_SCORE_DECIMALS : m.rules().decimalsOfScores();
+            boolean informationOnly = m.rules() != null && m.rules().informationOnly();
             for (EvaluationViews.Score s : m.scores()) {
                 if (s.laboratoryId() == laboratoryId) {
                     scores.add(new OwnScore(m.element(), m.itemLabel(), m.unit(), s.reported(), s.methodGroup(),
                             s.value(), m.assignedValue(), m.assignedValueUncertainty(), m.sigmaPt(), m.scoreUsed(),
-                            s.z(), s.zPrime(), s.zeta(), s.en(), s.classification(), s.excludedReason()));
+                            s.z(), s.zPrime(), s.zeta(), s.en(), s.classification(), s.excludedReason(),
+                            informationOnly && scored(s), digits, decimals,
+                            PrintedScores.of(s.value(), s.z(), s.zPrime(), s.zeta(), s.en(), digits, decimals)));
                 }
             }
         }
@@ -204,13 +244,23 @@ public class EvaluationExports {
 
     private ResultsExport results(long roundId, EvaluationViews.Run run, Publication publication) {
         EvaluationViews.RunSummary r = run.run();
-        List<MeasurandExport> measurands = run.measurands().stream().map(m -> new MeasurandExport(m.element(),
+        Map<String, Integer> digitsOf = evaluations.reportingDigits(roundId);
+        List<MeasurandExport> measurands = new ArrayList<>();
+        for (EvaluationViews.MeasurandOutcome m : run.measurands()) {
+            int digits = digitsOf.getOrDefault(m.element(), DEFAULT_DIGITS);
+            int decimals = m.rules() == null ? NumberFormats.DEFAULT_SCORE_DECIMALS : m.rules().decimalsOfScores();
+            boolean informationOnly = m.rules() != null && m.rules().informationOnly();
+            measurands.add(new MeasurandExport(m.element(),
                 m.itemLabel(), m.unit(), m.n(), m.censored(), m.excluded(), m.assignedValueMethod(), m.assignedValue(),
                 m.assignedValueUncertainty(), m.sigmaPt(), m.sigmaPtMethod(), m.sigmaPtSource(), m.scoreUsed(),
                 m.scoreUsedReason(), m.median(), m.madE(), m.nIqr(), m.robustMean(), m.robustSd(), m.iterations(),
                 m.converged(), m.warnings(), m.methodGroups(), m.scores().stream().map(s -> new ParticipantExport(
                         s.participantCode(), s.reported(), s.methodGroup(), s.value(), s.z(), s.zPrime(), s.zeta(),
-                        s.en(), s.classification(), s.excludedReason())).toList())).toList();
+                        s.en(), s.classification(), s.excludedReason(), informationOnly && scored(s),
+                        PrintedScores.of(s.value(), s.z(), s.zPrime(), s.zeta(), s.en(), digits, decimals))).toList(),
+                digits, decimals, m.rules() == null ? null : m.rules().scoreCoverageFactor(), informationOnly,
+                Printed.of(m, digits)));
+        }
         return new ResultsExport(roundId, rounds.window(roundId).roundCode(), r.version(), r.preview(), r.roundState(),
                 r.createdAt(), r.planVersion(), r.planSha256(), r.inputsSha256(), r.outputsSha256(), r.codeVersion(),
                 publication, arguments(run.measurands(), measurandNames(run.measurands())), measurands);
@@ -226,23 +276,27 @@ public class EvaluationExports {
                     CsvText.cell(p == null ? null : p.reportId()), CsvText.cell(p == null ? null : p.status()),
                     CsvText.cell(m.element()), CsvText.cell(m.itemLabel()), CsvText.cell(m.unit()),
                     CsvText.number(m.n()), CsvText.number(m.censored()), CsvText.number(m.excluded()),
-                    CsvText.cell(m.assignedValueMethod()), CsvText.number(m.assignedValue()),
-                    CsvText.number(m.assignedValueUncertainty()), CsvText.number(m.sigmaPt()),
-                    CsvText.cell(m.sigmaPtMethod()), CsvText.cell(m.sigmaPtSource()), CsvText.number(m.median()),
-                    CsvText.number(m.madE()), CsvText.number(m.nIqr()), CsvText.number(m.robustMean()),
-                    CsvText.number(m.robustSd()), CsvText.number(m.iterations()),
+                    CsvText.cell(m.assignedValueMethod()), m.printed().assignedValue(),
+                    m.printed().assignedValueUncertainty(), m.printed().sigmaPt(),
+                    CsvText.cell(m.sigmaPtMethod()), CsvText.cell(m.sigmaPtSource()), m.printed().median(),
+                    m.printed().madE(), m.printed().nIqr(), m.printed().robustMean(),
+                    m.printed().robustSd(), CsvText.number(m.iterations()),
                     m.converged() == null ? "" : m.converged().toString(), CsvText.cell(m.scoreUsed()),
                     CsvText.cell(m.scoreUsedReason()), CsvText.cell(String.join("; ",
                             m.warnings().stream().map(EvaluationViews.Warning::code).toList())));
+            String tail = Integer.toString(m.scoreDecimals()) + ','
+                    + (m.enCoverageFactor() == null ? "" : NumberFormats.full(m.enCoverageFactor()));
             if (m.scores().isEmpty()) {
-                csv.append(String.join(",", measurand)).append(",,,,,,,,,,\r\n");
+                csv.append(String.join(",", measurand)).append(",,,,,,,,,,,").append(m.informationOnly())
+                        .append(',').append(tail).append("\r\n");
             }
             for (ParticipantExport s : m.scores()) {
+                PrintedScores printed = s.printed();
                 csv.append(String.join(",", measurand)).append(',').append(String.join(",",
                         CsvText.cell(s.participantCode()), CsvText.cell(s.reported()), CsvText.cell(s.methodGroup()),
-                        CsvText.number(s.value()), CsvText.number(s.z()), CsvText.number(s.zPrime()),
-                        CsvText.number(s.zeta()), CsvText.number(s.en()), CsvText.cell(s.classification()),
-                        CsvText.cell(s.excludedReason()))).append("\r\n");
+                        printed.value(), printed.z(), printed.zPrime(), printed.zeta(), printed.en(),
+                        CsvText.cell(s.classification()), CsvText.cell(s.excludedReason()),
+                        Boolean.toString(s.informationOnly()), tail)).append("\r\n");
             }
         }
         return csv.toString();
@@ -256,11 +310,12 @@ public class EvaluationExports {
                     CsvText.number(own.evaluationVersion()), CsvText.cell(own.reportId()),
                     CsvText.cell(own.reportStatus()), CsvText.cell(s.element()), CsvText.cell(s.itemLabel()),
                     CsvText.cell(s.unit()), CsvText.cell(s.reported()), CsvText.cell(s.methodGroup()),
-                    CsvText.number(s.value()), CsvText.number(s.assignedValue()),
-                    CsvText.number(s.assignedValueUncertainty()), CsvText.number(s.sigmaPt()),
-                    CsvText.cell(s.scoreUsed()), CsvText.number(s.z()), CsvText.number(s.zPrime()),
-                    CsvText.number(s.zeta()), CsvText.number(s.en()), CsvText.cell(s.classification()),
-                    CsvText.cell(s.excludedReason()))).append("\r\n");
+                    s.printed().value(), NumberFormats.plainStatistic(s.assignedValue(), s.reportingDigits()),
+                    NumberFormats.plainStatistic(s.assignedValueUncertainty(), s.reportingDigits()),
+                    NumberFormats.plainStatistic(s.sigmaPt(), s.reportingDigits()),
+                    CsvText.cell(s.scoreUsed()), s.printed().z(), s.printed().zPrime(),
+                    s.printed().zeta(), s.printed().en(), CsvText.cell(s.classification()),
+                    CsvText.cell(s.excludedReason()), Boolean.toString(s.informationOnly()))).append("\r\n");
         }
         return csv.toString();
     }
@@ -383,7 +438,9 @@ public class EvaluationExports {
      * Arguments of the {@code evaluate} command that reproduce the run: {@code --sigma-pt=M=σpt} where σpt was
      * given by the plan (not the data's robust SD), {@code --assigned=M=x_pt:U} with U = 2·u(x_pt) where x_pt did
      * not come from Algorithm A over all results (a reference value, or a method group's or experts' consensus).
-     * Numbers in {@link Double#toString} form, which reads back to the identical double.
+     * Numbers in {@link NumberFormats#full} form (the shortest decimal that reads back as the identical double, no
+     * exponent). The plan's score decimals, En's k, minimums and information-only choice follow where they differ
+     * from the command's defaults.
      */
     private static List<String> arguments(List<EvaluationViews.MeasurandOutcome> measurands,
                                           Function<String[], String> name) {
@@ -391,15 +448,40 @@ public class EvaluationExports {
         for (EvaluationViews.MeasurandOutcome m : measurands) {
             String measurand = name.apply(new String[]{m.element(), m.itemLabel()});
             if ("GIVEN".equals(m.sigmaPtSource()) && m.sigmaPt() != null) {
-                arguments.add("--sigma-pt=" + measurand + "=" + m.sigmaPt());
+                arguments.add("--sigma-pt=" + measurand + "=" + NumberFormats.full(m.sigmaPt()));
             }
             if (!"CONSENSUS_ALL".equals(m.assignedValueMethod()) && m.assignedValue() != null
                     && m.assignedValueUncertainty() != null) {
-                arguments.add("--assigned=" + measurand + "=" + m.assignedValue() + ":"
-                        + (2 * m.assignedValueUncertainty()));
+                arguments.add("--assigned=" + measurand + "=" + NumberFormats.full(m.assignedValue()) + ":"
+                        + NumberFormats.full(2 * m.assignedValueUncertainty()));
+            }
+            EvaluationViews.Rules rules = m.rules();
+            if (rules != null) {
+                if (rules.scoreDecimals() != null && rules.scoreDecimals() != NumberFormats.DEFAULT_SCORE_DECIMALS) {
+                    arguments.add("--score-decimals=" + measurand + "=" + rules.scoreDecimals());
+                }
+                if (rules.scoreCoverageFactor() != null && rules.scoreCoverageFactor() != 2.0) {
+                    arguments.add("--coverage-factor=" + measurand + "=" + NumberFormats.full(rules.scoreCoverageFactor()));
+                }
+                if (rules.minimumParticipants() != null && rules.minimumParticipants() != 10) {
+                    arguments.add("--minimum-participants=" + measurand + "=" + rules.minimumParticipants());
+                }
+                if (rules.minimumForDataDerivedSigmaPt() != null && rules.minimumForDataDerivedSigmaPt() != 10) {
+                    arguments.add("--minimum-for-sigma=" + measurand + "=" + rules.minimumForDataDerivedSigmaPt());
+                }
+                if (rules.informationOnly()) {
+                    arguments.add("--information-only=" + measurand);
+                }
             }
         }
         return arguments;
+    }
+
+    /** Reporting digits of a measurand the catalogue no longer lists (as the reports assume). */
+    private static final int DEFAULT_DIGITS = 3;
+
+    private static boolean scored(EvaluationViews.Score s) {
+        return s.z() != null || s.zPrime() != null || s.zeta() != null || s.en() != null;
     }
 
     private static String key(String element, String item) {

@@ -16,6 +16,7 @@ import jakarta.ws.rs.core.Response;
 import org.roundtable.account.CurrentUser;
 import org.roundtable.account.Role;
 import org.roundtable.platform.DomainException;
+import org.roundtable.platform.NumberFormats;
 import org.roundtable.scheme.RoundAccess;
 import org.roundtable.scheme.RoundState;
 
@@ -129,9 +130,14 @@ public class EvaluationPages {
     static MeasurandRows rows(EvaluationViews.MeasurandOutcome o) {
         List<GroupRow> groups = o.methodGroups().stream().map(g -> new GroupRow(g.methodGroup(), g.n(),
                 figure(g.median()), figure(g.robustMean()), figure(g.robustSd()))).toList();
+        int decimals = o.rules() == null ? NumberFormats.DEFAULT_SCORE_DECIMALS : o.rules().decimalsOfScores();
+        boolean informationOnly = o.rules() != null && o.rules().informationOnly();
         List<ScoreRow> scores = o.scores().stream().map(s -> new ScoreRow(s.participantCode(), s.reported(),
-                s.methodGroup(), score(s.z()), score(s.zPrime()), score(s.zeta()), score(s.en()),
-                s.classification() == null ? "" : s.classification().toLowerCase(Locale.ROOT).replace('_', ' '),
+                s.methodGroup(), score(s.z(), decimals), score(s.zPrime(), decimals), score(s.zeta(), decimals),
+                score(s.en(), decimals), s.classification() != null
+                        ? s.classification().toLowerCase(Locale.ROOT).replace('_', ' ')
+                        : informationOnly && (s.z() != null || s.zeta() != null || s.en() != null)
+                        ? "for information only" : "",
                 tone(s.classification()), s.excludedReason())).toList();
         return new MeasurandRows(o, figure(o.assignedValue()), figure(o.assignedValueUncertainty()),
                 figure(o.sigmaPt()), figure(o.median()), figure(o.madE()), figure(o.nIqr()), figure(o.robustMean()),
@@ -150,12 +156,15 @@ public class EvaluationPages {
                 .toPlainString().replace('-', '−');
     }
 
-    /** Scores to two decimals, rounded half up, with the minus sign. */
-    static String score(Double value) {
+    /**
+     * Scores at the plan's score decimals by the product's number rules (half away from zero from the shortest
+     * decimal form, the figure the classification was made on), with the minus sign.
+     */
+    static String score(Double value, int decimals) {
         if (value == null) {
             return "";
         }
-        return new BigDecimal(value).setScale(2, RoundingMode.HALF_UP).toPlainString().replace('-', '−');
+        return NumberFormats.score(value, decimals);
     }
 
     private static String tone(String classification) {

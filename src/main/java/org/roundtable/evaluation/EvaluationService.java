@@ -327,6 +327,11 @@ public class EvaluationService {
 
         Double assigned = null;
         Double assignedU = null;
+        Integer subsetN = null;
+        // the decimals of a reference value's U and k and of a fixed σpt: the z/z′ choice compares them exactly
+        BigDecimal decimalU = null;
+        BigDecimal decimalK = null;
+        BigDecimal decimalSigma = null;
         switch (EvaluationPlan.AssignedValueMethod.valueOf(method)) {
             case CONSENSUS_ALL -> {
             }
@@ -336,6 +341,8 @@ public class EvaluationService {
                 Double k = number(mp.coverageFactor());
                 assignedU = bigU == null ? null
                         : k == null ? bigU : bigU / k * MeasurandEvaluation.DEFAULT_COVERAGE_FACTOR;
+                decimalU = bigU == null ? null : new BigDecimal(mp.referenceExpandedUncertainty().strip());
+                decimalK = k == null ? BigDecimal.valueOf(2) : new BigDecimal(mp.coverageFactor().strip());
             }
             case CONSENSUS_METHOD_GROUP, EXPERT_CONSENSUS -> {
                 boolean group = method.equals(EvaluationPlan.AssignedValueMethod.CONSENSUS_METHOD_GROUP.name());
@@ -349,7 +356,8 @@ public class EvaluationService {
                     }
                 }
                 MeasurandEvaluation.Result consensus = MeasurandEvaluation.evaluate(new MeasurandEvaluation.Input(
-                        mp.element(), unit, subset, null, null, null, rules));
+                        mp.element(), unit, subset, null, null, null, rules, MeasurandEvaluation.Decimals.NONE,
+                        forAssignedValueOnly(mp)));
                 if (consensus.assignedValueSource() == MeasurandEvaluation.AssignedValueSource.ALGORITHM_A) {
                     assigned = consensus.assignedValue();
                     assignedU = MeasurandEvaluation.DEFAULT_COVERAGE_FACTOR * consensus.assignedValueUncertainty();
@@ -357,11 +365,7 @@ public class EvaluationService {
                             "x_pt is the Algorithm A consensus of %d result(s) of %s, u(x_pt) = 1.25·s*/√p of that"
                             + " subset; their own zeta and En are biased towards zero", consensus.n(),
                             group ? "method group " + mp.methodGroup() : "the expert laboratories")));
-                    if (consensus.n() < MeasurandEvaluation.MINIMUM_PARTICIPANTS) {
-                        extra.add(new EvaluationViews.Warning("few-in-subset", consensus.n()
-                                + " result(s) in the subset that gives x_pt: the consensus is unreliable below "
-                                + MeasurandEvaluation.MINIMUM_PARTICIPANTS + " values (ISO Guide 35:2017, B.5.1 c)"));
-                    }
+                    subsetN = consensus.n();
                 } else {
                     extra.add(new EvaluationViews.Warning("no-subset-consensus", "The subset ("
                             + (group ? "method group " + mp.methodGroup() : "expert laboratories") + ", "
@@ -380,14 +384,17 @@ public class EvaluationService {
             Double x = assigned;
             if (x == null && !subsetFailed) {
                 x = MeasurandEvaluation.evaluate(new MeasurandEvaluation.Input(mp.element(), unit, inputs, null, null,
-                        null, rules)).assignedValue();
+                        null, rules, MeasurandEvaluation.Decimals.NONE, forAssignedValueOnly(mp))).assignedValue();
             }
             sigma = x == null || !(x > 0) ? null : sm == EvaluationPlan.SigmaPtMethod.PERCENT_OF_ASSIGNED
                     ? SigmaPt.percentOfAssigned(number(mp.sigmaPtPercent()), x)
                     : SigmaPt.thompsonHorwitz(x, massFractionUnit(unit));
         } else {
             sigma = switch (sm) {
-                case FIXED, EARLIER_ROUNDS -> number(mp.sigmaPt());
+                case FIXED, EARLIER_ROUNDS -> {
+                    decimalSigma = new BigDecimal(mp.sigmaPt().strip());
+                    yield number(mp.sigmaPt());
+                }
                 case PRECISION_DATA -> SigmaPt.fromPrecision(number(mp.reproducibilitySd()),
                         number(mp.repeatabilitySd()), Integer.parseInt(mp.replicates().strip()));
                 default -> null;
@@ -453,20 +460,17 @@ public class EvaluationService {
                         + " widened"));
             }
         }
+        // exact decimals only for numbers the plan states as they are used (not changed by a qualification decision)
+        boolean sameNumbers = components.size() == 1 && !widened;
+        MeasurandEvaluation.Decimals decimals = sameNumbers
+                ? new MeasurandEvaluation.Decimals(decimalU, decimalK, decimalSigma) : MeasurandEvaluation.Decimals.NONE;
         if (subsetFailed) {
             // no assigned value from the subset: statistics of all results, but nobody is scored
             result = MeasurandEvaluation.evaluate(new MeasurandEvaluation.Input(mp.element(), unit, inputs, null, null,
-                    sigma, rules));
+                    sigma, rules, decimals, smallRounds(mp, null)));
         } else {
             result = MeasurandEvaluation.evaluate(new MeasurandEvaluation.Input(mp.element(), unit, inputs, assigned,
-                    assignedU, sigma, rules));
-        }
-
-        int minimum = mp.minimumParticipants() == null ? MeasurandEvaluation.MINIMUM_PARTICIPANTS
-                : Integer.parseInt(mp.minimumParticipants().strip());
-        if (result.n() < minimum && minimum != MeasurandEvaluation.MINIMUM_PARTICIPANTS) {
-            extra.add(new EvaluationViews.Warning("below-plan-minimum", result.n()
-                    + " result(s) used; the plan asks for at least " + minimum));
+                    assignedU, sigma, rules, decimals, smallRounds(mp, subsetN)));
         }
         if (result.scoreUsed() == ScoreKind.Z_PRIME) {
             extra.add(new EvaluationViews.Warning("uncertainty-of-assigned-value-large",
@@ -517,7 +521,9 @@ public class EvaluationService {
         }
         EvaluationViews.Rules applied = new EvaluationViews.Rules(result.quartileRule().name(),
                 result.stoppingRule().name(), result.boundaryRule().name(), mp.exclusionRules(),
-                decision == null ? null : decision.decision(), List.copyOf(components), widened);
+                decision == null ? null : decision.decision(), List.copyOf(components), widened,
+                result.scoreDecimals(), result.coverageFactor(), result.informationOnly(),
+                smallRounds(mp, null).minimumParticipants(), smallRounds(mp, null).minimumForDataDerivedSigmaPt());
         return new EvaluationViews.MeasurandOutcome(mp.element(), item, unit, result.n(), result.censored(),
                 excluded.size() + blunders.size(), method, subsetFailed ? null : result.assignedValue(),
                 subsetFailed ? null : result.assignedValueUncertainty(), result.sigmaPt(), sigmaMethod,
@@ -528,13 +534,40 @@ public class EvaluationService {
                 scores, applied);
     }
 
-    /** The plan's quartile, stopping and boundary rules (defaults where the plan has none). */
+    /** The plan's quartile, stopping and boundary rules, score decimals and k of En (defaults where the plan has none). */
     static MeasurandEvaluation.Rules rules(EvaluationPlan.MeasurandPlan mp) {
         return new MeasurandEvaluation.Rules(
                 mp.quartileRule() == null ? QuartileRule.DEFAULT : QuartileRule.valueOf(mp.quartileRule()),
                 mp.stoppingRule() == null ? AlgorithmA.StoppingRule.FULL_CONVERGENCE
                         : AlgorithmA.StoppingRule.valueOf(mp.stoppingRule()),
-                mp.boundaryRule() == null ? BoundaryRule.DEFAULT : BoundaryRule.valueOf(mp.boundaryRule()));
+                mp.boundaryRule() == null ? BoundaryRule.DEFAULT : BoundaryRule.valueOf(mp.boundaryRule()),
+                mp.scoreDecimals() == null ? org.roundtable.platform.NumberFormats.DEFAULT_SCORE_DECIMALS
+                        : Integer.parseInt(mp.scoreDecimals().strip()),
+                mp.scoreCoverageFactor() == null ? MeasurandEvaluation.DEFAULT_COVERAGE_FACTOR
+                        : Double.parseDouble(mp.scoreCoverageFactor().strip()));
+    }
+
+    /**
+     * The small-round rules for a step that only needs a consensus x_pt (a subset's, or the one a σpt in % of x_pt
+     * is taken from): the plan's minimum for a consensus, none for the σpt that step does not use. A consensus
+     * below the minimum gives no x_pt, so nothing is scored against it.
+     */
+    static MeasurandEvaluation.SmallRounds forAssignedValueOnly(EvaluationPlan.MeasurandPlan mp) {
+        MeasurandEvaluation.SmallRounds plan = smallRounds(mp, null);
+        return new MeasurandEvaluation.SmallRounds(plan.minimumParticipants(), 1, false, null);
+    }
+
+    /**
+     * The plan's minimums for data-derived values and what happens below them; {@code subsetN} the number of
+     * results of a method group's or experts' consensus that gives x_pt (null for an independent value).
+     */
+    static MeasurandEvaluation.SmallRounds smallRounds(EvaluationPlan.MeasurandPlan mp, Integer subsetN) {
+        int minimum = mp.minimumParticipants() == null ? MeasurandEvaluation.MINIMUM_PARTICIPANTS
+                : Integer.parseInt(mp.minimumParticipants().strip());
+        int sigmaMinimum = mp.minimumForDataDerivedSigmaPt() == null ? MeasurandEvaluation.MINIMUM_PARTICIPANTS
+                : Integer.parseInt(mp.minimumForDataDerivedSigmaPt().strip());
+        boolean informationOnly = EvaluationPlan.BelowMinimum.INFORMATION_ONLY.name().equals(mp.belowMinimum());
+        return new MeasurandEvaluation.SmallRounds(minimum, sigmaMinimum, informationOnly, subsetN);
     }
 
     private static MeasurandEvaluation.ParticipantResult participant(Row r) {
@@ -593,6 +626,17 @@ public class EvaluationService {
     }
 
     // ---- reading and storing ----------------------------------------------------------------------------------
+
+    /** The reporting digits (decimals) of each measurand of the round's scheme, by element. */
+    @Transactional
+    public Map<String, Integer> reportingDigits(long roundId) {
+        @SuppressWarnings("unchecked")
+        List<Object[]> found = entityManager.createNativeQuery("SELECT m.element, m.reporting_digits FROM measurand m"
+                + " JOIN round r ON r.scheme_id = m.scheme_id WHERE r.id = :r").setParameter("r", roundId).getResultList();
+        Map<String, Integer> digits = new HashMap<>();
+        found.forEach(f -> digits.put((String) f[0], ((Number) f[1]).intValue()));
+        return digits;
+    }
 
     private Map<String, String> units(long roundId) {
         @SuppressWarnings("unchecked")

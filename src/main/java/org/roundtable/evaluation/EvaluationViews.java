@@ -43,12 +43,29 @@ public final class EvaluationViews {
      * How a measurand was evaluated, for a report's "how the evaluation was done": the plan's quartile rule (nIQR),
      * Algorithm A stopping rule and classification boundary rule, the plan's exclusion rules in words (null if it
      * states none), the measurand's qualification decision in force (null if none), the components of u(x_pt)
-     * ({@code u_char}, and {@code u_hom} when the decision adds it) and whether σpt was widened by s_s. Null for
-     * runs stored before it was recorded.
+     * ({@code u_char}, and {@code u_hom} when the decision adds it) and whether σpt was widened by s_s; the score
+     * decimals scores were printed and classified with, the coverage factor k of En, and whether the scores are
+     * for information only (no classification: a consensus or data-derived σpt below the plan's minimum), and the
+     * plan's two minimums. Null for
+     * runs stored before it was recorded; the last three null/false for runs stored before they were.
      */
     public record Rules(String quartileRule, String stoppingRule, String boundaryRule, String exclusionRules,
                         String qualificationDecision, List<String> assignedValueUncertaintyComponents,
-                        boolean sigmaPtWidened) {
+                        boolean sigmaPtWidened, Integer scoreDecimals, Double scoreCoverageFactor,
+                        boolean informationOnly, Integer minimumParticipants, Integer minimumForDataDerivedSigmaPt) {
+
+        /** Rules of a run stored before score decimals, En's k and information-only scores were recorded. */
+        public Rules(String quartileRule, String stoppingRule, String boundaryRule, String exclusionRules,
+                     String qualificationDecision, List<String> assignedValueUncertaintyComponents,
+                     boolean sigmaPtWidened) {
+            this(quartileRule, stoppingRule, boundaryRule, exclusionRules, qualificationDecision,
+                    assignedValueUncertaintyComponents, sigmaPtWidened, null, null, false, null, null);
+        }
+
+        /** Score decimals of the run (2 for runs stored before they were recorded). */
+        public int decimalsOfScores() {
+            return scoreDecimals == null ? org.roundtable.platform.NumberFormats.DEFAULT_SCORE_DECIMALS : scoreDecimals;
+        }
     }
 
     /** One participant's result and scores; {@code excludedReason} set when the result was left out. */

@@ -26,18 +26,29 @@ public class JobRunner {
     private final JobService jobService;
     private final Map<String, JobHandler> handlers;
     private final String workerId;
+    private final org.roundtable.platform.Admission admission;
 
-    public JobRunner(JobService jobService, @Any Instance<JobHandler> handlers) {
+    public JobRunner(JobService jobService, @Any Instance<JobHandler> handlers, org.roundtable.platform.Admission admission) {
         this.jobService = jobService;
+        this.admission = admission;
         this.handlers = handlers.stream().collect(Collectors.toUnmodifiableMap(JobHandler::kind, Function.identity()));
         this.workerId = ManagementFactory.getRuntimeMXBean().getName() + "/" + UUID.randomUUID().toString().substring(0, 8);
     }
 
     @Scheduled(every = "${roundtable.jobs.poll-interval}", concurrentExecution = Scheduled.ConcurrentExecution.SKIP)
     void poll() {
-        jobService.requeueAbandoned();
-        while (runNext()) {
-            // keep going while there is queued work
+        if (!admission.databaseAvailable()) {
+            return; // the outage is logged once by Admission; the poll resumes when the database answers
+        }
+        try {
+            jobService.requeueAbandoned();
+            while (runNext()) {
+                // keep going while there is queued work
+            }
+        } catch (RuntimeException e) {
+            if (!admission.isDatabaseOutage(e)) {
+                throw e;
+            }
         }
     }
 

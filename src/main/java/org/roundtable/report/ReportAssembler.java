@@ -187,7 +187,9 @@ public class ReportAssembler {
                     nan(o.assignedValue()), assignedValueWords(o.assignedValueMethod()), nan(o.assignedValueUncertainty()),
                     nan(o.sigmaPt()), sigmaPtWords(o.sigmaPtMethod(), o.sigmaPtSource()), robust, groups,
                     o.warnings().stream().map(EvaluationViews.Warning::message).toList(), kind,
-                    o.scoreUsedReason(), results));
+                    o.scoreUsedReason(), results,
+                    o.rules() == null ? org.roundtable.platform.NumberFormats.DEFAULT_SCORE_DECIMALS
+                            : o.rules().decimalsOfScores()));
         }
 
         List<ItemCheck> checks = new ArrayList<>();
@@ -235,7 +237,8 @@ public class ReportAssembler {
         for (EvaluationViews.MeasurandOutcome o : run.measurands()) {
             byMethod.computeIfAbsent("x_pt " + assignedValueWords(o.assignedValueMethod()) + "; σpt "
                     + sigmaPtWords(o.sigmaPtMethod(), o.sigmaPtSource()) + "; scored by "
-                    + scoreSymbol(scoreKind(o.scoreUsed())) + ".", k -> new LinkedHashSet<>()).add(o.element());
+                    + scoreSymbol(scoreKind(o.scoreUsed())) + scoringWords(o.rules()) + ".",
+                    k -> new LinkedHashSet<>()).add(o.element());
             EvaluationPlan.MeasurandPlan p = planned.get(o.element());
             if (p != null && p.exclusionRules() != null && !p.exclusionRules().isBlank()) {
                 byMethod.computeIfAbsent("Exclusion rules: " + p.exclusionRules().strip(), k -> new LinkedHashSet<>())
@@ -329,6 +332,23 @@ public class ReportAssembler {
         return source == null || source.isBlank() ? words : words + " (" + source.toLowerCase(Locale.ROOT) + ")";
     }
 
+    /**
+     * How scores were printed and judged: the score decimals they are classified at (as printed), the coverage
+     * factor k at which En takes both expanded uncertainties, and scores for information only. Empty for runs
+     * stored before these were recorded.
+     */
+    static String scoringWords(EvaluationViews.Rules rules) {
+        if (rules == null || rules.scoreDecimals() == null) {
+            return "";
+        }
+        String words = "; scores printed to " + rules.scoreDecimals() + " decimal" + (rules.scoreDecimals() == 1 ? "" : "s")
+                + " and classified as printed; En with the participant's and the assigned value's expanded"
+                + " uncertainties both at k = " + org.roundtable.platform.NumberFormats.full(rules.scoreCoverageFactor())
+                + " (a U stated at another k converted through u = U/k)";
+        return rules.informationOnly() ? words + "; scores for information only, without a verdict (fewer results"
+                + " than the plan's minimum)" : words;
+    }
+
     static String stoppingWords(String rule) {
         return rule == null || rule.equals("FULL_CONVERGENCE")
                 ? "Algorithm A iterated until x* and s* converge (the plan's full-convergence rule)"
@@ -337,8 +357,9 @@ public class ReportAssembler {
 
     static String boundaryWords(String rule) {
         return rule == null || rule.equals("SATISFACTORY_TO_2_UNSATISFACTORY_FROM_3")
-                ? "|z| ≤ 2 satisfactory, 2 < |z| < 3 questionable, |z| ≥ 3 unsatisfactory (a score on a limit takes the better class)"
-                : "|z| < 2 satisfactory, 2 ≤ |z| ≤ 3 questionable, |z| > 3 unsatisfactory";
+                ? "|z| ≤ 2 satisfactory, 2 < |z| < 3 questionable, |z| ≥ 3 unsatisfactory, judged on the score as printed"
+                        + " (a printed score on a limit takes the better class)"
+                : "|z| < 2 satisfactory, 2 ≤ |z| ≤ 3 questionable, |z| > 3 unsatisfactory, judged on the score as printed";
     }
 
     static String quartileWords(String rule) {

@@ -46,6 +46,21 @@ public class DemoSchemes {
             new DemoMeasurand("Cu", "%", 3, "0.006", "0.5", List.of("SPARK_OES", "ICP_OES"), "0.008"),
             new DemoMeasurand("Mo", "%", 3, "0.007", "1.3", List.of("SPARK_OES", "XRF", "ICP_OES"), "0.010"));
 
+    /**
+     * Certified values and their expanded uncertainties U (k = 2) of the demo's disc lots, C to Mo in the order of
+     * {@link #MEASURANDS} (invented). With five laboratories a consensus would rest on fewer results than the
+     * plan's minimum of 10, so nobody would be scored against it; the demo's rounds are scored against the lot's
+     * certified values instead, U ≤ 0.6·σpt so that u(x_pt) ≤ 0.3·σpt and z is used. In the earlier round the fifth
+     * laboratory's Mn (0.838 against 0.795, σpt 0.020: z = 2.15) is questionable, so the demo shows more than one
+     * verdict.
+     */
+    static final String[] PAST_LOT_VALUES = {"0.386", "80", "0.233", "0.0142", "0.0091", "0.987", "0.795", "0.152",
+        "0.184", "0.241"};
+    static final String[] CURRENT_LOT_VALUES = {"0.411", "87", "0.253", "0.0121", "0.0084", "1.054", "0.748", "0.201",
+        "0.162", "0.215"};
+    static final String[] LOT_UNCERTAINTIES = {"0.005", "4", "0.004", "0.0006", "0.0005", "0.010", "0.008", "0.006",
+        "0.003", "0.004"};
+
     static final String INSTRUCTIONS = """
             Treat the disc as a routine sample. Grind a fresh surface before analysis and burn at least two spots away \
             from the edge; report the mean of your routine number of burns, not of extra ones. Report each element in \
@@ -110,16 +125,16 @@ public class DemoSchemes {
         // an earlier round: open for results now, so that the demo laboratories report in time; closePastRound then
         // closes it and places it about four months back (the report feature publishes it afterwards)
         walk(scheme.id(), PAST_ROUND, "Low-alloy steel disc, 38 mm, lot 26-014", today.minusDays(2),
-                today.plusDays(1), labs, RoundAction.OPEN_FOR_RESULTS);
+                today.plusDays(1), labs, RoundAction.OPEN_FOR_RESULTS, PAST_LOT_VALUES);
 
         // the current round, open for results
         walk(scheme.id(), "NLS-2026-2", "Low-alloy steel disc, 38 mm, lot 26-031", today.minusDays(5), today.plusDays(23),
-                labs, RoundAction.OPEN_FOR_RESULTS);
+                labs, RoundAction.OPEN_FOR_RESULTS, CURRENT_LOT_VALUES);
 
         // next year's round, still a draft
         RoundService.RoundView draft = rounds.create(details(scheme.id(), "NLS-2027-1",
                 "Low-alloy steel disc, 38 mm, lot to be chosen", today.plusDays(60), today.plusDays(88)));
-        rounds.saveDraftPlan(draft.id(), plan());
+        rounds.saveDraftPlan(draft.id(), plan(null));
     }
 
     /**
@@ -140,9 +155,9 @@ public class DemoSchemes {
     }
 
     private long walk(long schemeId, String code, String items, LocalDate dispatch, LocalDate deadline, List<Number> labs,
-                      RoundAction until) {
+                      RoundAction until, String[] certified) {
         RoundService.RoundView round = rounds.create(details(schemeId, code, items, dispatch, deadline));
-        rounds.saveDraftPlan(round.id(), plan());
+        rounds.saveDraftPlan(round.id(), plan(certified));
         rounds.transition(round.id(), RoundAction.FREEZE_PLAN.name());
         rounds.transition(round.id(), RoundAction.OPEN_ENROLMENT.name());
         for (Number lab : labs) {
@@ -188,10 +203,14 @@ public class DemoSchemes {
                 Round.LatePolicy.ACCEPT_FLAGGED_UNSCORED.name(), Round.CodeScope.ROUND.name());
     }
 
-    private static EvaluationPlan plan() {
+    /** The demo plan: the lot's certified values where known (null: a consensus, for the draft round). */
+    private static EvaluationPlan plan(String[] certified) {
         List<EvaluationPlan.MeasurandPlan> entries = new ArrayList<>();
-        for (DemoMeasurand m : MEASURANDS) {
-            entries.add(new EvaluationPlan.MeasurandPlan(m.element(), "CONSENSUS_ALL", null, null, null, null, null,
+        for (int i = 0; i < MEASURANDS.size(); i++) {
+            DemoMeasurand m = MEASURANDS.get(i);
+            entries.add(new EvaluationPlan.MeasurandPlan(m.element(), certified == null ? "CONSENSUS_ALL"
+                    : "CERTIFIED_REFERENCE", null, certified == null ? null : certified[i],
+                    certified == null ? null : LOT_UNCERTAINTIES[i], certified == null ? null : "2", null,
                     "FIXED", m.sigmaPt(), null, null, null, null, null, List.of("Z_OR_Z_PRIME"), "10",
                     m.element().equals("C") || m.element().equals("S") ? "0.010" : null,
                     "Results reported as \"<\" are not used for the assigned value; obvious blunders are confirmed with the laboratory.",

@@ -45,6 +45,17 @@ public record EvaluationPlan(List<MeasurandPlan> measurands) {
         Z_OR_Z_PRIME, ZETA, EN
     }
 
+    /**
+     * What happens to a measurand whose consensus x_pt, or data-derived σpt, rests on fewer results than the
+     * plan's minimum.
+     */
+    public enum BelowMinimum {
+        /** Nobody is scored against it; the run says why (the default). */
+        NOT_SCORED,
+        /** Scores are computed for information only: no classification anywhere. */
+        INFORMATION_ONLY
+    }
+
     /** Classification boundaries of z-like scores. */
     public enum BoundaryRule {
         /** |z| ≤ 2 satisfactory, 2 &lt; |z| &lt; 3 questionable, |z| ≥ 3 unsatisfactory (ISO/IEC 17043 Annex B). */
@@ -78,6 +89,10 @@ public record EvaluationPlan(List<MeasurandPlan> measurands) {
      * @param quartileRule                 quartile definition (default HYNDMAN_FAN_7)
      * @param stoppingRule                 Algorithm A stopping rule (default FULL_CONVERGENCE)
      * @param boundaryRule                 {@link BoundaryRule} name (default SATISFACTORY_TO_2_UNSATISFACTORY_FROM_3)
+     * @param scoreDecimals                decimals scores are printed with and classified as printed (default 2)
+     * @param scoreCoverageFactor          k at which En takes both expanded uncertainties (default 2)
+     * @param minimumForDataDerivedSigmaPt fewest results for σpt = the round's robust SD (default 10)
+     * @param belowMinimum                 {@link BelowMinimum} name: what happens below a minimum (default NOT_SCORED)
      */
     public record MeasurandPlan(String element, String assignedValueMethod, String methodGroup, String referenceValue,
                                 String referenceExpandedUncertainty, String coverageFactor,
@@ -86,6 +101,23 @@ public record EvaluationPlan(List<MeasurandPlan> measurands) {
                                 String replicates, String provisionalSigmaPt, List<String> scores,
                                 String minimumParticipants, String allowedMethodGroupDifference,
                                 String exclusionRules, String quartileRule, String stoppingRule,
-                                String boundaryRule) {
+                                String boundaryRule, String scoreDecimals, String scoreCoverageFactor,
+                                String minimumForDataDerivedSigmaPt, String belowMinimum) {
+
+        /** A plan entry with the defaults for score decimals, En's k and the small-round rules. */
+        public MeasurandPlan(String element, String assignedValueMethod, String methodGroup, String referenceValue,
+                             String referenceExpandedUncertainty, String coverageFactor,
+                             List<String> expertLaboratories, String sigmaPtMethod, String sigmaPt,
+                             String sigmaPtPercent, String reproducibilitySd, String repeatabilitySd,
+                             String replicates, String provisionalSigmaPt, List<String> scores,
+                             String minimumParticipants, String allowedMethodGroupDifference,
+                             String exclusionRules, String quartileRule, String stoppingRule,
+                             String boundaryRule) {
+            this(element, assignedValueMethod, methodGroup, referenceValue, referenceExpandedUncertainty,
+                    coverageFactor, expertLaboratories, sigmaPtMethod, sigmaPt, sigmaPtPercent, reproducibilitySd,
+                    repeatabilitySd, replicates, provisionalSigmaPt, scores, minimumParticipants,
+                    allowedMethodGroupDifference, exclusionRules, quartileRule, stoppingRule, boundaryRule, null,
+                    null, null, null);
+        }
     }
 }

@@ -26,8 +26,9 @@ import java.util.TreeSet;
  * <p>Canonical form: a JSON object with keys sorted by code point at every level, no insignificant
  * whitespace, absent values left out (never {@code null}), numbers kept as the decimal strings that were
  * entered, measurands in order of atomic number, score lists in the order of {@link EvaluationPlan.Score}.
- * Defaults are written out (minimum participants 10, quartile rule, stopping rule, boundary rule, coverage
- * factor 2, scores z/z′), so the document states every choice. The document also carries what the round
+ * Defaults are written out (minimum participants 10, minimum for a data-derived σpt 10, not scored below them,
+ * quartile rule, stopping rule, boundary rule, coverage factor 2, score decimals 2, En at k = 2, scores z/z′), so
+ * the document states every choice. The document also carries what the round
  * fixes for evaluation: its code, the late-result policy and the participant-code scope, and each
  * measurand's unit and reporting digits from the catalogue. The SHA-256 of the UTF-8 bytes of this text is
  * the plan's hash.
@@ -37,6 +38,10 @@ public final class PlanDocument {
     /** Identifies the layout of the canonical document. */
     public static final String FORMAT = "roundtable-evaluation-plan-1";
     public static final int DEFAULT_MINIMUM_PARTICIPANTS = 10;
+    /** Fewest results for σpt = the round's robust SD when the plan states none (common practice, no source). */
+    public static final int DEFAULT_MINIMUM_FOR_DATA_DERIVED_SIGMA_PT = 10;
+    /** Score decimals when the plan states none. */
+    public static final int DEFAULT_SCORE_DECIMALS = org.roundtable.platform.NumberFormats.DEFAULT_SCORE_DECIMALS;
 
     private PlanDocument() {
     }
@@ -189,6 +194,22 @@ public final class PlanDocument {
 
         e.put("minimumParticipants", p.minimumParticipants() == null || p.minimumParticipants().isBlank()
                 ? Integer.toString(DEFAULT_MINIMUM_PARTICIPANTS) : integer(p.minimumParticipants(), where, "minimum participants"));
+        e.put("minimumForDataDerivedSigmaPt", blank(p.minimumForDataDerivedSigmaPt())
+                ? Integer.toString(DEFAULT_MINIMUM_FOR_DATA_DERIVED_SIGMA_PT)
+                : integer(p.minimumForDataDerivedSigmaPt(), where, "minimum participants for a data-derived σpt"));
+        e.put("belowMinimum", blank(p.belowMinimum()) ? EvaluationPlan.BelowMinimum.NOT_SCORED.name()
+                : choice(EvaluationPlan.BelowMinimum.class, p.belowMinimum(), where, "rule below the minimum").name());
+        if (blank(p.scoreDecimals())) {
+            e.put("scoreDecimals", Integer.toString(DEFAULT_SCORE_DECIMALS));
+        } else {
+            String decimals = p.scoreDecimals().strip();
+            if (!decimals.matches("[0-6]")) {
+                throw new DomainException.BadRequest(where + ": the score decimals are a whole number from 0 to 6.");
+            }
+            e.put("scoreDecimals", decimals);
+        }
+        e.put("scoreCoverageFactor", blank(p.scoreCoverageFactor()) ? "2"
+                : positive(p.scoreCoverageFactor(), where, "coverage factor k of En"));
         if (p.allowedMethodGroupDifference() != null && !p.allowedMethodGroupDifference().isBlank()) {
             e.put("allowedMethodGroupDifference", positive(p.allowedMethodGroupDifference(), where,
                     "allowed difference between method groups"));
@@ -300,6 +321,10 @@ public final class PlanDocument {
             throw new DomainException.BadRequest(where + ": the " + what + " is required, as a positive decimal number.");
         }
         return clean;
+    }
+
+    private static boolean blank(String value) {
+        return value == null || value.isBlank();
     }
 
     private static String integer(String value, String where, String what) {

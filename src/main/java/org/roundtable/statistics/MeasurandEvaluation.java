@@ -1,9 +1,11 @@
 package org.roundtable.statistics;
 
+import java.math.BigDecimal;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;
 import java.util.Objects;
+import org.roundtable.statistics.density.CriticalBandwidth;
 import org.roundtable.statistics.density.KernelDensity;
 import org.roundtable.statistics.robust.AlgorithmA;
 import org.roundtable.statistics.robust.Median;
@@ -37,19 +39,31 @@ import org.roundtable.statistics.score.Scores;
  * {@code u(x_pt) = 1.25·s* / sqrt(p)}.</li>
  * <li>σ_pt: the given value, else s* (data-derived, warned).</li>
  * <li>z or z′ is chosen by {@code u(x_pt) ≤ 0.3·σ_pt} ({@link ScoreSelection}); both are
- * reported, the chosen one classifies with the rules' {@link BoundaryRule}. ζ uses {@code u(x_i) = U_i/k_i} (k = 2 when absent) and
- * u(x_pt); En uses U_i as reported and {@code U(x_pt) = 2·u(x_pt)}.</li>
+ * reported, the chosen one classifies with the rules' {@link BoundaryRule} <b>as printed</b> (rounded half away
+ * from zero to the rules' score decimals first). The choice is exact in decimal where U(x_pt), its k and σ_pt
+ * were given as decimals ({@link Decimals}), else on doubles with a relative tolerance of 1e-12. ζ uses
+ * {@code u(x_i) = U_i/k_i} (k = 2 when absent) and u(x_pt); En takes both at the rules' coverage factor k
+ * (default 2): {@code En = (x − x_pt)/sqrt((k·u(x_i))² + (k·u(x_pt))²)}, so the same standard uncertainty
+ * gives the same En whatever k a laboratory stated it at.</li>
+ * <li>Small rounds ({@link SmallRounds}): a consensus x_pt of fewer results than the plan's minimum, or a
+ * data-derived σ_pt of fewer than its minimum, scores nobody ({@code below-minimum}, naming the alternatives)
+ * unless the plan asks for scores for information only ({@code information-only}: scores computed, no
+ * classification).</li>
  * </ol>
  *
  * <p>Special cases and policy (computes what it can, warns, never refuses valid input):
- * fewer than 10 values ({@code few-participants}); p &lt; 2 (no Algorithm A, no consensus);
- * MADe = 0 ({@code zero-spread}: no robust SD, no consensus value, no data-derived σ_pt, so no
- * scores unless both x_pt and σ_pt are given); more than one density mode ({@code multimodal});
+ * fewer values than the plan's minimum ({@code few-participants}); p &lt; 2 (no Algorithm A, no
+ * consensus); MADe = 0 ({@code zero-spread}: no robust SD; with a σ_pt given independently of the
+ * data the median is the assigned value, {@code scored-against-median}; with a data-derived σ_pt
+ * nothing is scored and {@code no-sigma-pt} names the alternatives); more than one population ({@code multimodal}: the plain kernel density shows more
+ * than one mode and Silverman's bootstrap-calibrated critical-bandwidth test rejects one mode at
+ * α = 0.05, {@link CriticalBandwidth});
  * more than 20 % censored ({@code censored-share}); a consensus x_pt with ζ/En
  * ({@code zeta-en-biased}). Undefined numbers are {@code null}.
  *
  * <p>References: ISO 13528:2015 clauses 7 (assigned value, 7.7 consensus), 8 (σ_pt), 9
- * (scores), Annex C (robust statistics); ISO Guide 35:2017 B.5.1 c) (at least 10 values).
+ * (scores), Annex C (robust statistics); Silverman B.W. (1981) J. R. Stat. Soc. B 43:97–99 (the
+ * multimodality test). The minimum of 10 results is common practice, no source.
  */
 public final class MeasurandEvaluation {
 
@@ -100,14 +114,16 @@ public final class MeasurandEvaluation {
     /**
      * How the statistics are computed and scores classified, as a plan fixes it.
      *
-     * @param quartileRule quartiles of nIQR
-     * @param stoppingRule stopping rule of Algorithm A
-     * @param boundaryRule classification bands of z and z′
+     * @param quartileRule   quartiles of nIQR
+     * @param stoppingRule   stopping rule of Algorithm A
+     * @param boundaryRule   classification bands of z and z′
+     * @param scoreDecimals  decimals scores are printed and classified with (default 2)
+     * @param coverageFactor k at which En takes both expanded uncertainties (default 2)
      */
     public record Rules(QuartileRule quartileRule, AlgorithmA.StoppingRule stoppingRule,
-            BoundaryRule boundaryRule) {
+            BoundaryRule boundaryRule, int scoreDecimals, double coverageFactor) {
 
-        /** Hyndman–Fan type 7, full convergence, |z| ≤ 2 satisfactory and |z| ≥ 3 unsatisfactory. */
+        /** Hyndman–Fan type 7, full convergence, |z| ≤ 2 satisfactory and |z| ≥ 3 unsatisfactory, 2 decimals, k = 2. */
         public static final Rules DEFAULT = new Rules(QuartileRule.DEFAULT,
                 AlgorithmA.StoppingRule.FULL_CONVERGENCE, BoundaryRule.DEFAULT);
 
@@ -115,12 +131,57 @@ public final class MeasurandEvaluation {
             Objects.requireNonNull(quartileRule, "quartileRule");
             Objects.requireNonNull(stoppingRule, "stoppingRule");
             Objects.requireNonNull(boundaryRule, "boundaryRule");
+            if (scoreDecimals < 0 || scoreDecimals > 10) {
+                throw new IllegalArgumentException("score decimals must be 0 to 10, got " + scoreDecimals);
+            }
+            Checks.requirePositive(coverageFactor, "coverage factor of En");
+        }
+
+        /** The rules with 2 score decimals and En at k = 2. */
+        public Rules(QuartileRule quartileRule, AlgorithmA.StoppingRule stoppingRule, BoundaryRule boundaryRule) {
+            this(quartileRule, stoppingRule, boundaryRule, Scores.DEFAULT_SCORE_DECIMALS, DEFAULT_COVERAGE_FACTOR);
         }
 
         /** Algorithm A configured with this stopping rule. */
         public AlgorithmA algorithmA() {
             return stoppingRule == AlgorithmA.StoppingRule.FULL_CONVERGENCE
                     ? AlgorithmA.fullConvergence() : AlgorithmA.thirdSignificantFigure();
+        }
+    }
+
+    /**
+     * The decimals a given x_pt's U(x_pt), its k and a given σ_pt were stated with, so that the z/z′ choice
+     * compares them exactly ({@link ScoreSelection#chooseExact}). Any may be null (then the doubles are compared
+     * with the documented tolerance).
+     */
+    public record Decimals(BigDecimal assignedExpandedUncertainty, BigDecimal coverageFactor, BigDecimal sigmaPt) {
+
+        /** No decimals known. */
+        public static final Decimals NONE = new Decimals(null, null, null);
+    }
+
+    /**
+     * When a round is too small for data-derived values: the fewest results for a consensus x_pt and for a
+     * data-derived σ_pt, and what happens below them.
+     *
+     * @param minimumParticipants            fewest results for a consensus x_pt (default 10)
+     * @param minimumForDataDerivedSigmaPt   fewest results for σ_pt = robust SD of the round (default 10)
+     * @param informationOnly                below a minimum: score for information only (no classification)
+     *                                       instead of not scoring (the default)
+     * @param givenAssignedValueFromN        when the given x_pt is itself a consensus of a subset (a method
+     *                                       group, experts), the number of results it came from; else null
+     */
+    public record SmallRounds(int minimumParticipants, int minimumForDataDerivedSigmaPt, boolean informationOnly,
+            Integer givenAssignedValueFromN) {
+
+        /** 10 and 10, not scored below them (common practice, no source; see docs/methods.md). */
+        public static final SmallRounds DEFAULT = new SmallRounds(MINIMUM_PARTICIPANTS, MINIMUM_PARTICIPANTS,
+                false, null);
+
+        public SmallRounds {
+            if (minimumParticipants < 1 || minimumForDataDerivedSigmaPt < 1) {
+                throw new IllegalArgumentException("minimums must be at least 1");
+            }
         }
     }
 
@@ -133,10 +194,13 @@ public final class MeasurandEvaluation {
      * @param assignedValue               x_pt if set by the plan, else null (consensus)
      * @param assignedExpandedUncertainty U(x_pt) at k = 2 for a given x_pt, else null (0)
      * @param sigmaPt                     σ_pt if set by the plan, else null (robust SD)
-     * @param rules                       quartile, stopping and boundary rules
+     * @param rules                       quartile, stopping and boundary rules, score decimals, k of En
+     * @param decimals                    the decimals U(x_pt), k and σ_pt were given as (exact z/z′ choice)
+     * @param smallRounds                 minimums for data-derived values and what happens below them
      */
     public record Input(String measurand, String unit, List<ParticipantResult> results,
-            Double assignedValue, Double assignedExpandedUncertainty, Double sigmaPt, Rules rules) {
+            Double assignedValue, Double assignedExpandedUncertainty, Double sigmaPt, Rules rules,
+            Decimals decimals, SmallRounds smallRounds) {
 
         /** An input evaluated with {@link Rules#DEFAULT}. */
         public Input(String measurand, String unit, List<ParticipantResult> results,
@@ -145,9 +209,18 @@ public final class MeasurandEvaluation {
                     Rules.DEFAULT);
         }
 
+        /** An input without decimals and with the default small-round policy. */
+        public Input(String measurand, String unit, List<ParticipantResult> results,
+                Double assignedValue, Double assignedExpandedUncertainty, Double sigmaPt, Rules rules) {
+            this(measurand, unit, results, assignedValue, assignedExpandedUncertainty, sigmaPt, rules,
+                    Decimals.NONE, SmallRounds.DEFAULT);
+        }
+
         public Input {
             Objects.requireNonNull(measurand, "measurand");
             Objects.requireNonNull(rules, "rules");
+            Objects.requireNonNull(decimals, "decimals");
+            Objects.requireNonNull(smallRounds, "smallRounds");
             results = List.copyOf(results);
             if (assignedValue != null) {
                 Checks.requireFinite(assignedValue, "assigned value");
@@ -163,7 +236,7 @@ public final class MeasurandEvaluation {
     }
 
     /** Where x_pt came from. */
-    public enum AssignedValueSource { GIVEN, ALGORITHM_A }
+    public enum AssignedValueSource { GIVEN, ALGORITHM_A, MEDIAN }
 
     /** Where σ_pt came from. */
     public enum SigmaPtSource { GIVEN, ROBUST_SD }
@@ -181,7 +254,9 @@ public final class MeasurandEvaluation {
     /**
      * Outcome for one measurand; null marks a number that could not be computed. n and censored
      * count only the results that take part in the statistics; excludedFromStatistics counts the
-     * others (scored all the same, in {@code scores}).
+     * others (scored all the same, in {@code scores}). {@code scoreDecimals} and {@code coverageFactor} are the
+     * rules' (classification as printed, k of En); {@code informationOnly} marks scores computed below a minimum
+     * for information only: they carry no classification.
      */
     public record Result(String measurand, String unit, int n, int censored,
             int excludedFromStatistics, Double median,
@@ -191,7 +266,7 @@ public final class MeasurandEvaluation {
             ScoreKind scoreUsed, String scoreUsedReason, QuartileRule quartileRule,
             AlgorithmA.StoppingRule stoppingRule, BoundaryRule boundaryRule,
             List<StatisticsWarning> warnings,
-            List<ParticipantScore> scores) {
+            List<ParticipantScore> scores, int scoreDecimals, double coverageFactor, boolean informationOnly) {
 
         public Result {
             warnings = List.copyOf(warnings);
@@ -214,10 +289,11 @@ public final class MeasurandEvaluation {
         int censored = retained.size() - p;
         double[] sorted = SortedCopy.of(values);
 
-        if (p < MINIMUM_PARTICIPANTS) {
-            warnings.add(new StatisticsWarning("few-participants", p + " results used: robust"
-                    + " statistics are unreliable below " + MINIMUM_PARTICIPANTS
-                    + " values (ISO Guide 35:2017, B.5.1 c); prefer an independent assigned value"));
+        SmallRounds small = input.smallRounds();
+        if (p < small.minimumParticipants()) {
+            warnings.add(new StatisticsWarning("few-participants", p + " results used, fewer than the "
+                    + small.minimumParticipants() + " the plan asks for a consensus: robust statistics of so few"
+                    + " values are unreliable (common practice, no source); prefer an independent assigned value"));
         }
         if (!retained.isEmpty() && (double) censored / retained.size() > LARGE_CENSORED_SHARE) {
             warnings.add(new StatisticsWarning("censored-share", String.format(Locale.ROOT,
@@ -262,6 +338,16 @@ public final class MeasurandEvaluation {
             xpt = a.robustMean();
             uxpt = a.assignedValueUncertainty();
             xptSource = AssignedValueSource.ALGORITHM_A;
+        } else if (p >= 1 && madE == 0 && input.sigmaPt() != null) {
+            // more than half of the values identical: no robust SD, but with a σ_pt given independently of the
+            // data the median is a usable consensus (its u(x_pt) = 1.25·MADe/√p is 0)
+            xpt = median;
+            uxpt = 0.0;
+            xptSource = AssignedValueSource.MEDIAN;
+            warnings.add(new StatisticsWarning("scored-against-median", "More than half of the results are"
+                    + " identical (MADe = 0): Algorithm A has no spread to work with, so the assigned value is the"
+                    + " median with u(x_pt) = 1.25·MADe/√p = 0, and sigma_pt is the given one (ISO 13528:2015,"
+                    + " C.2 median and MADe; common practice, no source for this fallback)"));
         } else {
             warnings.add(new StatisticsWarning("no-assigned-value", "No assigned value: none was"
                     + " given and no robust mean with a usable spread could be computed; not scored"));
@@ -279,26 +365,71 @@ public final class MeasurandEvaluation {
                     + " SD of this round's results (data-derived): z-scores only rank participants"
                     + " against each other, they do not judge fitness for purpose"));
         } else {
-            warnings.add(new StatisticsWarning("no-sigma-pt", "No sigma_pt: none was given and no"
-                    + " robust SD could be computed; z and z' not scored"));
+            String why = p >= 1 && madE != null && madE == 0
+                    ? "more than half of the results are identical (MADe = 0), so the round's data give no spread;"
+                    + " give sigma_pt independently of the data (fixed, Horwitz, precision data), a reference value"
+                    + " with a fixed sigma_pt, or score for information only"
+                    : "none was given and no robust SD could be computed";
+            warnings.add(new StatisticsWarning("no-sigma-pt", "No sigma_pt: " + why + "; z and z' not scored"));
+        }
+
+        // a consensus or a data-derived σ_pt of too few results: nobody is scored against it (or, if the plan says
+        // so, scored for information only, without a classification)
+        int assignedFrom = xptSource == AssignedValueSource.GIVEN
+                ? (small.givenAssignedValueFromN() == null ? Integer.MAX_VALUE : small.givenAssignedValueFromN()) : p;
+        boolean fewForAssigned = xpt != null && xptSource != null && assignedFrom < small.minimumParticipants();
+        boolean fewForSigma = sigmaSource == SigmaPtSource.ROBUST_SD && p < small.minimumForDataDerivedSigmaPt();
+        boolean informationOnly = false;
+        if (fewForAssigned || fewForSigma) {
+            String what = (fewForAssigned ? "the assigned value is a consensus of " + assignedFrom
+                    + " result(s) (the plan asks for at least " + small.minimumParticipants() + ")" : "")
+                    + (fewForAssigned && fewForSigma ? " and " : "")
+                    + (fewForSigma ? "sigma_pt is the robust SD of " + p + " result(s) (the plan asks for at least "
+                    + small.minimumForDataDerivedSigmaPt() + ")" : "");
+            if (small.informationOnly()) {
+                informationOnly = true;
+                warnings.add(new StatisticsWarning("information-only", "Scores for information only, without a"
+                        + " verdict: " + what + "."));
+            } else {
+                warnings.add(new StatisticsWarning("below-minimum", "Not scored: " + what + ". Alternatives the"
+                        + " coordinator can choose in the plan: a reference or certified value, a fixed sigma_pt,"
+                        + " or scores for information only."));
+                xpt = null;
+                uxpt = null;
+                xptSource = null;
+                sigma = null;
+                sigmaSource = null;
+            }
         }
 
         ScoreKind used = null;
         String usedReason = null;
         if (sigma != null && uxpt != null) {
-            ScoreSelection.Choice choice = ScoreSelection.choose(uxpt, sigma);
+            Decimals d = input.decimals();
+            boolean exact = xptSource == AssignedValueSource.GIVEN && sigmaSource == SigmaPtSource.GIVEN
+                    && d.sigmaPt() != null && d.coverageFactor() != null
+                    && (d.assignedExpandedUncertainty() != null || input.assignedExpandedUncertainty() == null);
+            ScoreSelection.Choice choice = exact
+                    ? ScoreSelection.chooseExact(d.assignedExpandedUncertainty() == null ? BigDecimal.ZERO
+                            : d.assignedExpandedUncertainty(), d.coverageFactor(), d.sigmaPt())
+                    : ScoreSelection.choose(uxpt, sigma);
             used = choice.kind();
             usedReason = choice.reason();
         }
 
         if (p >= 3 && scale) {
+            // the costly calibrated test only where the plain density shows more than one mode
             int modes = KernelDensity.of(values).modes().size();
             if (modes > 1) {
-                warnings.add(new StatisticsWarning("multimodal", String.format(Locale.ROOT,
-                        "The kernel density of the results has %d modes (Gaussian kernel, Silverman"
-                        + " bandwidth, modes above %.0f %% of the highest): results may come from"
-                        + " more than one population (e.g. methods); investigate before relying on"
-                        + " the consensus", modes, 100 * KernelDensity.DEFAULT_RELATIVE_HEIGHT)));
+                CriticalBandwidth.Result test = CriticalBandwidth.test(values);
+                if (test.moreThanOneMode()) {
+                    warnings.add(new StatisticsWarning("multimodal", String.format(Locale.ROOT,
+                            "The results look like more than one population (e.g. methods): Silverman's"
+                            + " critical-bandwidth test rejects one mode, bootstrap p = %.3f < %.2f (%d seeded"
+                            + " smoothed bootstrap samples; Silverman 1981, J. R. Stat. Soc. B 43); investigate"
+                            + " before relying on the consensus", test.pValue(), CriticalBandwidth.DEFAULT_ALPHA,
+                            test.bootstrapSamples())));
+                }
             }
         }
 
@@ -306,7 +437,8 @@ public final class MeasurandEvaluation {
         boolean anyUncertaintyScore = false;
         for (ParticipantResult r : results) {
             if (r.lessThan()) {
-                String cls = xpt == null ? null : CensoredResult.classifyLessThan(r.value(), xpt).word();
+                String cls = xpt == null || informationOnly ? null
+                        : CensoredResult.classifyLessThan(r.value(), xpt).word();
                 scores.add(new ParticipantScore(r.participant(), r.reported(), null, null, null, null, null, cls));
                 continue;
             }
@@ -322,14 +454,18 @@ public final class MeasurandEvaluation {
                 }
                 if (r.expandedUncertainty() != null) {
                     double k = r.coverageFactor() == null ? DEFAULT_COVERAGE_FACTOR : r.coverageFactor();
-                    zeta = box(Scores.zeta(x, xpt, r.expandedUncertainty() / k, uxpt));
-                    en = box(Scores.en(x, xpt, r.expandedUncertainty(), DEFAULT_COVERAGE_FACTOR * uxpt));
+                    double u = r.expandedUncertainty() / k;
+                    zeta = box(Scores.zeta(x, xpt, u, uxpt));
+                    // both uncertainties at the plan's coverage: U = k_plan·u, whatever k the laboratory stated
+                    double kPlan = rules.coverageFactor();
+                    en = box(Scores.en(x, xpt, kPlan * u, kPlan * uxpt));
                     // ζ/En of a result outside the consensus are not biased by it
                     anyUncertaintyScore |= !r.excludedFromStatistics() && (zeta != null || en != null);
                 }
             }
             Double chosen = used == ScoreKind.Z ? z : used == ScoreKind.Z_PRIME ? zPrime : null;
-            String cls = chosen == null ? null : rules.boundaryRule().classify(chosen).word();
+            String cls = chosen == null || informationOnly ? null
+                    : rules.boundaryRule().classifyAsPrinted(chosen, rules.scoreDecimals()).word();
             scores.add(new ParticipantScore(r.participant(), r.reported(), x, z, zPrime, zeta, en, cls));
         }
         if (anyUncertaintyScore && xptSource == AssignedValueSource.ALGORITHM_A) {
@@ -341,7 +477,7 @@ public final class MeasurandEvaluation {
                 median, madE, nIqr, robustMean, robustSd, a == null ? null : a.iterations(),
                 a == null ? null : a.converged(), xpt, uxpt, xptSource, sigma, sigmaSource, used,
                 usedReason, rules.quartileRule(), rules.stoppingRule(), rules.boundaryRule(), warnings,
-                scores);
+                scores, rules.scoreDecimals(), rules.coverageFactor(), informationOnly);
     }
 
     private static Double box(java.util.OptionalDouble value) {

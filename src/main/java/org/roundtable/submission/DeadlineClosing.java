@@ -25,8 +25,11 @@ public class DeadlineClosing {
     private final RoundAccess rounds;
     private final RoundService roundService;
     private final Clock clock;
+    private final org.roundtable.platform.Admission admission;
 
-    public DeadlineClosing(RoundAccess rounds, RoundService roundService, Clock clock) {
+    public DeadlineClosing(RoundAccess rounds, RoundService roundService, Clock clock,
+                           org.roundtable.platform.Admission admission) {
+        this.admission = admission;
         this.rounds = rounds;
         this.roundService = roundService;
         this.clock = clock;
@@ -35,7 +38,16 @@ public class DeadlineClosing {
     @Scheduled(every = "${roundtable.jobs.poll-interval}", concurrentExecution = Scheduled.ConcurrentExecution.SKIP)
     @ActivateRequestContext
     void closeDueRounds() {
-        closeDue();
+        if (!admission.databaseAvailable()) {
+            return; // logged once by Admission; due rounds are closed when the database answers again
+        }
+        try {
+            closeDue();
+        } catch (RuntimeException e) {
+            if (!admission.isDatabaseOutage(e)) {
+                throw e;
+            }
+        }
     }
 
     /** Closes every due round; returns how many this call closed. */

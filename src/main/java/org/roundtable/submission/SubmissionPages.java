@@ -20,6 +20,7 @@ import jakarta.ws.rs.core.Response;
 import org.jboss.resteasy.reactive.RestForm;
 import org.jboss.resteasy.reactive.multipart.FileUpload;
 import org.roundtable.account.Role;
+import org.roundtable.platform.Admission;
 import org.roundtable.platform.DomainException;
 import org.roundtable.scheme.RoundAccess;
 import org.roundtable.submission.intake.UploadFormat;
@@ -71,8 +72,11 @@ public class SubmissionPages {
     private final ObjectMapper mapper;
     private final HttpServerRequest request;
 
+    private final Admission admission;
+
     public SubmissionPages(SubmissionService submissions, SubmissionQueries queries, SubmissionMessages messages,
-                           RoundAccess rounds, ObjectMapper mapper, HttpServerRequest request) {
+                           RoundAccess rounds, ObjectMapper mapper, HttpServerRequest request, Admission admission) {
+        this.admission = admission;
         this.submissions = submissions;
         this.queries = queries;
         this.messages = messages;
@@ -113,15 +117,17 @@ public class SubmissionPages {
             });
         }
         UploadFormat format = UploadFormat.fromFileName(file.fileName()).filter(f -> f != UploadFormat.JSON).orElse(null);
-        byte[] content = read(file);
         boolean confirm = "on".equals(confirmWarnings) || "true".equals(confirmWarnings);
         return attempt(roundId, () -> {
             if (format == null) {
                 throw new DomainException.BadRequest("Upload a .csv or .xlsx file.");
             }
-            return submissions.submit(roundId, new SubmissionService.Upload(
-                    format == UploadFormat.XLSX ? SubmissionService.Channel.XLSX : SubmissionService.Channel.CSV, format,
-                    content, file.fileName(), file.contentType()), confirm, null, clientAddress());
+            // the file waits on disk (multipart parts are spooled) until an upload slot is free
+            try (Admission.Slot ignored = admission.uploadSlot()) {
+                return submissions.submit(roundId, new SubmissionService.Upload(
+                        format == UploadFormat.XLSX ? SubmissionService.Channel.XLSX : SubmissionService.Channel.CSV, format,
+                        read(file), file.fileName(), file.contentType()), confirm, null, clientAddress());
+            }
         });
     }
 
@@ -168,8 +174,8 @@ public class SubmissionPages {
         try {
             SubmissionViews.Receipt receipt = action.get();
             return Response.ok(page(roundId, receipt == null ? null : new Outcome(receipt, null, List.of(), false), null)).build();
-        } catch (DomainException.NotFound | DomainException.Forbidden e) {
-            throw e;
+        } catch (DomainException.NotFound | DomainException.Forbidden | Admission.Unavailable e) {
+            throw e; // answered by the error mapper (503 with Retry-After for Unavailable)
         } catch (DomainException e) {
             boolean warnings = !e.details().isEmpty() && e.details().stream().allMatch(d -> d.key().startsWith("warning."));
             return Response.status(e.status())

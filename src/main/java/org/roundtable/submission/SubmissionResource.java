@@ -14,8 +14,11 @@ import jakarta.ws.rs.QueryParam;
 import jakarta.ws.rs.core.MediaType;
 import jakarta.ws.rs.core.Response;
 import org.roundtable.account.Role;
+import org.roundtable.platform.Admission;
+import org.roundtable.submission.intake.Limits;
 import org.roundtable.submission.intake.UploadFormat;
 
+import java.io.InputStream;
 import java.util.List;
 
 /**
@@ -33,9 +36,11 @@ public class SubmissionResource {
     private final SubmissionMessages messages;
     private final ObjectMapper mapper;
     private final HttpServerRequest request;
+    private final Admission admission;
 
     public SubmissionResource(SubmissionService submissions, SubmissionQueries queries, SubmissionMessages messages,
-                              ObjectMapper mapper, HttpServerRequest request) {
+                              ObjectMapper mapper, HttpServerRequest request, Admission admission) {
+        this.admission = admission;
         this.submissions = submissions;
         this.queries = queries;
         this.messages = messages;
@@ -57,12 +62,13 @@ public class SubmissionResource {
     @Path("{roundId}/submission")
     @Consumes(MediaType.APPLICATION_JSON)
     @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
-    public Response submitJson(@PathParam("roundId") long roundId, byte[] body,
+    public Response submitJson(@PathParam("roundId") long roundId, InputStream body,
                                @QueryParam("confirmWarnings") boolean confirmWarnings,
                                @HeaderParam("Idempotency-Key") String idempotencyKey) {
-        SubmissionViews.Receipt receipt = submissions.submit(roundId, new SubmissionService.Upload(
-                SubmissionService.Channel.JSON, UploadFormat.JSON, body == null ? new byte[0] : body, null,
-                MediaType.APPLICATION_JSON), confirmWarnings, idempotencyKey, clientAddress());
+        // the body is read only once an upload slot is free: a waiting upload holds no memory
+        SubmissionViews.Receipt receipt = admission.withUpload(body, Limits.defaults().maxFileBytes(), content ->
+                submissions.submit(roundId, new SubmissionService.Upload(SubmissionService.Channel.JSON, UploadFormat.JSON,
+                        content, null, MediaType.APPLICATION_JSON), confirmWarnings, idempotencyKey, clientAddress()));
         return Response.status(201).entity(receipt).build();
     }
 
@@ -71,15 +77,17 @@ public class SubmissionResource {
     @Path("{roundId}/submission/file")
     @Consumes({"text/csv", XLSX_TYPE})
     @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
-    public Response submitFile(@PathParam("roundId") long roundId, byte[] body,
+    public Response submitFile(@PathParam("roundId") long roundId, InputStream body,
                                @HeaderParam("Content-Type") String contentType,
                                @QueryParam("confirmWarnings") boolean confirmWarnings,
                                @HeaderParam("Idempotency-Key") String idempotencyKey) {
         boolean xlsx = contentType != null && contentType.startsWith(XLSX_TYPE);
-        SubmissionViews.Receipt receipt = submissions.submit(roundId, new SubmissionService.Upload(
-                xlsx ? SubmissionService.Channel.XLSX : SubmissionService.Channel.CSV,
-                xlsx ? UploadFormat.XLSX : UploadFormat.CSV, body == null ? new byte[0] : body,
-                xlsx ? "api-upload.xlsx" : "api-upload.csv", contentType), confirmWarnings, idempotencyKey, clientAddress());
+        SubmissionViews.Receipt receipt = admission.withUpload(body, Limits.defaults().maxFileBytes(), content ->
+                submissions.submit(roundId, new SubmissionService.Upload(
+                        xlsx ? SubmissionService.Channel.XLSX : SubmissionService.Channel.CSV,
+                        xlsx ? UploadFormat.XLSX : UploadFormat.CSV, content,
+                        xlsx ? "api-upload.xlsx" : "api-upload.csv", contentType), confirmWarnings, idempotencyKey,
+                        clientAddress()));
         return Response.status(201).entity(receipt).build();
     }
 

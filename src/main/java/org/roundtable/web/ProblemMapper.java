@@ -35,10 +35,13 @@ public class ProblemMapper {
 
     private final Template error;
     private final RoutingContext routing;
+    private final org.roundtable.platform.Admission admission;
 
-    public ProblemMapper(@Location("web/error.html") Template error, RoutingContext routing) {
+    public ProblemMapper(@Location("web/error.html") Template error, RoutingContext routing,
+                         org.roundtable.platform.Admission admission) {
         this.error = error;
         this.routing = routing;
+        this.admission = admission;
     }
 
     /** The caller's name without blocking: the identity already established for this request, if any. */
@@ -79,7 +82,11 @@ public class ProblemMapper {
         }
         List<Problem.FieldError> details = e.details().stream()
                 .map(d -> new Problem.FieldError(d.row(), d.column(), d.value(), d.key(), d.message())).toList();
-        return answer(e.status(), e.title(), e.detail(), details, headers);
+        Response answer = answer(e.status(), e.title(), e.detail(), details, headers);
+        if (e instanceof org.roundtable.platform.Admission.Unavailable unavailable) {
+            return Response.fromResponse(answer).header("Retry-After", unavailable.retryAfterSeconds()).build();
+        }
+        return answer;
     }
 
     @ServerExceptionMapper
@@ -91,9 +98,41 @@ public class ProblemMapper {
         return answer(400, "Invalid request", "Some fields are not valid.", errors, headers);
     }
 
+    /**
+     * A JSON body that cannot be read (malformed, a wrong type, or a string {@link org.roundtable.platform.TextInput}
+     * refuses): 400 naming the field, never the Java type it was meant for.
+     */
     @ServerExceptionMapper
-    public Response web(WebApplicationException e, HttpHeaders headers) {
+    public Response json(com.fasterxml.jackson.core.JsonProcessingException e, HttpHeaders headers, UriInfo uri,
+                         Request request) {
+        for (Throwable cause = e.getCause(); cause != null; cause = cause.getCause()) {
+            if (cause instanceof DomainException domain) {
+                return domain(domain, headers, uri, request);
+            }
+        }
+        String field = null;
+        if (e instanceof com.fasterxml.jackson.databind.JsonMappingException mapping && !mapping.getPath().isEmpty()) {
+            var last = mapping.getPath().get(mapping.getPath().size() - 1);
+            field = last.getFieldName() != null ? last.getFieldName() : "[" + last.getIndex() + "]";
+        }
+        List<Problem.FieldError> errors = field == null ? List.of()
+                : List.of(new Problem.FieldError(null, field, null, "invalid", "This value cannot be read."));
+        return answer(400, "Invalid request", field == null ? "The JSON body cannot be read."
+                : "The JSON body cannot be read at '" + field + "'.", errors, headers);
+    }
+
+    @ServerExceptionMapper
+    public Response web(WebApplicationException e, HttpHeaders headers, UriInfo uri, Request request) {
         int status = e.getResponse().getStatus();
+        // a body reader's failure (e.g. JSON that cannot be read) arrives wrapped: answer it as itself
+        for (Throwable cause = e.getCause(); cause != null && status == 400; cause = cause.getCause()) {
+            if (cause instanceof DomainException domain) {
+                return domain(domain, headers, uri, request);
+            }
+            if (cause instanceof com.fasterxml.jackson.core.JsonProcessingException json) {
+                return json(json, headers, uri, request);
+            }
+        }
         if (status >= 500) {
             LOG.errorf(e, "request %s failed", RequestIds.current());
             return answer(status, "Server error", "Something went wrong on our side.", List.of(), headers);
@@ -119,7 +158,11 @@ public class ProblemMapper {
     }
 
     @ServerExceptionMapper(priority = 10_000)
-    public Response unexpected(Throwable e, HttpHeaders headers) {
+    public Response unexpected(Throwable e, HttpHeaders headers, UriInfo uri, Request request) {
+        if (admission.isDatabaseOutage(e)) {
+            // logged once per outage by Admission, not once per request
+            return domain(admission.databaseUnavailable(), headers, uri, request);
+        }
         LOG.errorf(e, "request %s failed", RequestIds.current());
         return answer(500, "Server error", "Something went wrong on our side.", List.of(), headers);
     }

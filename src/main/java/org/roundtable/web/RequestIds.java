@@ -29,9 +29,12 @@ public class RequestIds {
 
     @ServerRequestFilter(preMatching = true)
     public void assign(HttpServerRequest request) {
-        String given = request.getHeader(HEADER);
-        String id = given != null && ACCEPTABLE.matcher(given).matches() ? given : newId();
-        MDC.put(MDC_KEY, id);
+        MDC.put(MDC_KEY, idFor(request.getHeader(HEADER)));
+    }
+
+    /** The id of a request: the given {@code X-Request-Id} when well-formed, else a new one. */
+    static String idFor(String given) {
+        return given != null && ACCEPTABLE.matcher(given).matches() ? given : newId();
     }
 
     @ServerResponseFilter

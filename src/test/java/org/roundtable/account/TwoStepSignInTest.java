@@ -8,6 +8,9 @@ import org.roundtable.testing.World;
 
 import java.io.ByteArrayOutputStream;
 import java.time.Instant;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.concurrent.Callable;
 import java.util.regex.Matcher;
 import java.util.regex.Pattern;
 
@@ -88,6 +91,21 @@ class TwoStepSignInTest {
         enable(world.signIn(user));
         secondStep(passwordStep(user), "000000").then().statusCode(401).body(containsString("not right"));
         assertThat(world.insert("SELECT count(*) FROM login_attempt WHERE username = ? AND NOT succeeded", user)).isEqualTo(1);
+    }
+
+    @Test
+    void parallelWrongCodesGetAtMostTenChecks() throws Exception {
+        String user = world.user("auditor", null);
+        enable(world.signIn(user));
+        List<Callable<Integer>> guesses = new ArrayList<>();
+        for (int i = 0; i < 16; i++) {
+            String awaiting = passwordStep(user);
+            String guess = String.format("%06d", i);
+            guesses.add(() -> secondStep(awaiting, guess).statusCode());
+        }
+        List<Integer> statuses = SignInThrottleRaceTest.inParallel(guesses);
+        assertThat(statuses.stream().filter(s -> s == 401).count()).isLessThanOrEqualTo(10);
+        assertThat(statuses).containsOnly(401, 429);
     }
 
     @Test

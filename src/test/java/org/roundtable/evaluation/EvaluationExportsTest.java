@@ -63,7 +63,7 @@ class EvaluationExportsTest {
     private static EvaluationPlan.MeasurandPlan plan(String element, String assignedMethod, String reference,
                                                      String referenceU, String sigmaPt) {
         return new EvaluationPlan.MeasurandPlan(element, assignedMethod, null, reference, referenceU,
-                reference == null ? null : "2", null, "FIXED", sigmaPt, null, null, null, null, null, null, null,
+                reference == null ? null : "2", null, "FIXED", sigmaPt, null, null, null, null, null, null, "3",
                 null, null, null, null, null);
     }
 
@@ -219,7 +219,8 @@ class EvaluationExportsTest {
         assertThat(export.path("inputsSha256").asText()).isEqualTo(run.run().inputsSha256());
         assertThat(export.path("outputsSha256").asText()).isEqualTo(run.run().outputsSha256());
         assertThat(export.path("publication").isNull()).isTrue();
-        assertThat(export.path("evaluateArguments")).extracting(JsonNode::asText).containsExactly("--sigma-pt=Mn=0.01");
+        assertThat(export.path("evaluateArguments")).extracting(JsonNode::asText).containsExactly("--sigma-pt=Mn=0.01",
+                "--minimum-participants=Mn=3");
         JsonNode mn = export.path("measurands").get(0);
         EvaluationViews.MeasurandOutcome stored = run.measurands().get(0);
         for (String field : List.of("element", "itemLabel", "unit", "n", "censored", "excluded", "assignedValueMethod",
@@ -234,8 +235,17 @@ class EvaluationExportsTest {
         assertThat(mn.path("scores")).hasSize(MN.length);
         JsonNode score = mn.path("scores").get(0);
         assertThat(score.fieldNames()).toIterable().containsExactly("participantCode", "reported", "methodGroup",
-                "value", "z", "zPrime", "zeta", "en", "classification", "excludedReason");
+                "value", "z", "zPrime", "zeta", "en", "classification", "excludedReason", "informationOnly", "printed");
         assertThat(score.path("zeta").isNumber()).isTrue();
+        // beside the full-precision number, the printed string: scores at the plan's 2 decimals, results at the
+        // measurand's 3 reporting digits, statistics at 4
+        EvaluationViews.Score first = stored.scores().get(0);
+        assertThat(score.path("printed").path("z").asText())
+                .isEqualTo(org.roundtable.platform.NumberFormats.plainScore(first.z(), 2));
+        assertThat(score.path("printed").path("value").asText()).isEqualTo(score.path("reported").asText());
+        assertThat(mn.path("printed").path("robustSd").asText()).matches("0\\.\\d{4}");
+        assertThat(mn.path("scoreDecimals").asInt()).isEqualTo(2);
+        assertThat(mn.path("informationOnly").asBoolean()).isFalse();
     }
 
     @Test
@@ -314,7 +324,8 @@ class EvaluationExportsTest {
         List<String> arguments = Arrays.asList(response.header("Evaluate-Arguments").split(" "));
         assertThat(input).startsWith(EvaluationExports.EVALUATE_HEADER + "\r\n").doesNotContain("0.790")
                 .doesNotContain("0.760");
-        assertThat(arguments).containsExactly("--sigma-pt=Cr=0.1", "--assigned=Cr=18.1:0.08", "--sigma-pt=Mn=0.01");
+        assertThat(arguments).containsExactly("--sigma-pt=Cr=0.1", "--assigned=Cr=18.1:0.08", "--minimum-participants=Cr=3",
+                "--sigma-pt=Mn=0.01", "--minimum-participants=Mn=3");
         assertSameNumbers(offline(input, arguments), first);
 
         // the second run's input has the correction and gives the second run's numbers

@@ -303,7 +303,7 @@ class EvaluationRulesTest {
         assertThat(mn.robustSd()).isCloseTo(0.0062832, within(1e-7));
         assertThat(mn.rules()).isEqualTo(new EvaluationViews.Rules("HYNDMAN_FAN_6", "THIRD_SIGNIFICANT_FIGURE",
                 "SATISFACTORY_TO_2_UNSATISFACTORY_FROM_3", "Results reported in the wrong unit are blunders.", "ACCEPT",
-                List.of("u_char"), false));
+                List.of("u_char"), false, 2, 2.0, false, 10, 10));
         assertThat(evaluations.run(round, run.run().version()).measurands().get(0).rules()).isEqualTo(mn.rules());
     }
 

@@ -57,7 +57,7 @@ class EvaluationServiceTest {
                                                      String reference, String referenceU, String sigmaPt,
                                                      String allowedGroupDifference) {
         return new EvaluationPlan.MeasurandPlan(element, assignedMethod, methodGroup, reference, referenceU,
-                reference == null ? null : "2", null, "FIXED", sigmaPt, null, null, null, null, null, null, null,
+                reference == null ? null : "2", null, "FIXED", sigmaPt, null, null, null, null, null, null, "3",
                 allowedGroupDifference, null, null, null, null);
     }
 
@@ -215,7 +215,7 @@ class EvaluationServiceTest {
         List<String> experts = List.of(Long.toString(labs[0]), Long.toString(labs[1]), Long.toString(labs[2]));
         long round = world.round(RoundState.CLOSED, new EvaluationPlan(List.of(new EvaluationPlan.MeasurandPlan("Mn",
                 "EXPERT_CONSENSUS", null, null, null, null, experts, "PERCENT_OF_ASSIGNED", null, "5", null, null,
-                null, "0.5", null, null, null, null, null, null, null))), Round.LatePolicy.REFUSE, labs);
+                null, "0.5", null, "3", null, null, null, null, null))), Round.LatePolicy.REFUSE, labs);
         String[] values = {"10.1", "10.2", "10.6", "11.0"};
         for (int i = 0; i < labs.length; i++) {
             world.reportResult(round, labs[i], "Mn", values[i], null, "spark-oes", false);

@@ -23,7 +23,14 @@ import java.util.regex.Pattern;
 import org.apache.commons.csv.CSVFormat;
 import org.apache.commons.csv.CSVParser;
 import org.apache.commons.csv.CSVRecord;
+import java.math.BigDecimal;
+import org.roundtable.platform.NumberFormats;
 import org.roundtable.statistics.MeasurandEvaluation;
+import org.roundtable.submission.intake.ChemicalElements;
+import org.roundtable.submission.intake.ResultRanges;
+import org.roundtable.statistics.robust.AlgorithmA;
+import org.roundtable.statistics.robust.QuartileRule;
+import org.roundtable.statistics.score.BoundaryRule;
 import org.roundtable.statistics.StatisticsWarning;
 
 /**
@@ -31,10 +38,21 @@ import org.roundtable.statistics.StatisticsWarning;
  * {@link MeasurandEvaluation} and prints JSON on stdout. No database, no Quarkus, no CDI.
  *
  * <pre>
- * evaluate [--sigma-pt MEASURAND=VALUE]... [--assigned MEASURAND=VALUE:EXPANDED_U]... FILE.csv
+ * evaluate [--sigma-pt MEASURAND=VALUE]... [--assigned MEASURAND=VALUE[:EXPANDED_U[:K]]]...
+ *          [--score-decimals MEASURAND=N]... [--coverage-factor MEASURAND=K]...
+ *          [--minimum-participants MEASURAND=N]... [--minimum-for-sigma MEASURAND=N]...
+ *          [--information-only MEASURAND]... [--digits MEASURAND=N]... FILE.csv
  * </pre>
  *
- * <p>Input: RFC 4180 CSV, UTF-8 (a byte order mark is tolerated), '.' as decimal point, a header
+ * <p>The options are a plan's choices for one measurand, with the plan's defaults: score decimals 2 (scores are
+ * classified as printed), En with both expanded uncertainties at k = 2, at least 10 results for a consensus x_pt
+ * and for a data-derived σ_pt (below them nobody is scored, or, with {@code --information-only}, scores carry no
+ * classification). {@code --assigned} values and {@code --sigma-pt} are kept as the decimals written, so the z/z′
+ * choice compares u(x_pt) = U/k with 0.3·σ_pt exactly. {@code --digits} sets the measurand's reporting digits for
+ * the printed numbers (default: the most decimals among its reported values).
+ *
+ * <p>Input: RFC 4180 CSV, UTF-8 (a byte order mark is tolerated), LF or CRLF line ends, '.' as decimal point —
+ * or, as in the server's upload, ';' as delimiter with a decimal comma —, element symbols in any case, a header
  * with exactly the columns {@code participant,measurand,unit,value,expanded_uncertainty,
  * coverage_factor,method} (any order). {@code value} is a number or {@code <number}; the last
  * three columns may be empty (k defaults to 2). One unit per measurand, one row per participant
@@ -42,7 +60,9 @@ import org.roundtable.statistics.StatisticsWarning;
  * uncertainty is at k = 2.
  *
  * <p>Exit codes: 0 done; 2 bad input (message on stderr naming row — the header is row 1 —,
- * column and reason).
+ * column and reason), also a file with a header and no rows. The range rules are the server's
+ * ({@code submission.intake.ResultRanges}): k between 1 and 4, a mass fraction in % or mg/kg at most 100 %, no
+ * negative values.
  */
 public final class EvaluateCommand {
 
@@ -55,7 +75,12 @@ public final class EvaluateCommand {
             "expanded_uncertainty", "coverage_factor", "method");
 
     private static final String USAGE = "usage: evaluate [--sigma-pt MEASURAND=VALUE]..."
-            + " [--assigned MEASURAND=VALUE:EXPANDED_U]... FILE.csv";
+            + " [--assigned MEASURAND=VALUE:EXPANDED_U[:K]]... [--score-decimals MEASURAND=N]..."
+            + " [--coverage-factor MEASURAND=K]... [--minimum-participants MEASURAND=N]..."
+            + " [--minimum-for-sigma MEASURAND=N]... [--information-only MEASURAND]... [--digits MEASURAND=N]..."
+            + " FILE.csv";
+    private static final List<String> VALUED = List.of("--sigma-pt", "--assigned", "--score-decimals",
+            "--coverage-factor", "--minimum-participants", "--minimum-for-sigma", "--digits");
     private static final Pattern NUMBER = Pattern.compile("[+-]?(\\d+(\\.\\d*)?|\\.\\d+)([eE][+-]?\\d+)?");
 
     private EvaluateCommand() {
@@ -70,7 +95,18 @@ public final class EvaluateCommand {
         }
     }
 
-    private record Assigned(double value, double expandedUncertainty) {
+    private record Assigned(double value, double expandedUncertainty, BigDecimal decimalU, BigDecimal decimalK) {
+    }
+
+    /** One measurand's options besides x_pt and σ_pt. */
+    private static final class Choices {
+        Integer scoreDecimals;
+        BigDecimal coverageFactor;
+        Integer minimumParticipants;
+        Integer minimumForSigma;
+        boolean informationOnly;
+        Integer digits;
+        BigDecimal sigmaDecimal;
     }
 
     /**
@@ -85,7 +121,8 @@ public final class EvaluateCommand {
         try {
             Map<String, Double> sigmas = new LinkedHashMap<>();
             Map<String, Assigned> assigned = new LinkedHashMap<>();
-            String file = parseArguments(args, sigmas, assigned);
+            Map<String, Choices> choices = new LinkedHashMap<>();
+            String file = parseArguments(args, sigmas, assigned, choices);
             Map<String, List<MeasurandEvaluation.ParticipantResult>> byMeasurand = new LinkedHashMap<>();
             Map<String, String> units = new HashMap<>();
             readCsv(Path.of(file), byMeasurand, units);
@@ -99,16 +136,37 @@ public final class EvaluateCommand {
                     throw new BadInput("option --assigned: measurand '" + m + "' is not in " + file);
                 }
             }
+            for (String m : choices.keySet()) {
+                if (!byMeasurand.containsKey(m)) {
+                    throw new BadInput("option for measurand '" + m + "': it is not in " + file);
+                }
+            }
             ObjectMapper mapper = new ObjectMapper().enable(SerializationFeature.INDENT_OUTPUT);
             ObjectNode root = mapper.createObjectNode();
             ArrayNode measurands = root.putArray("measurands");
             for (Map.Entry<String, List<MeasurandEvaluation.ParticipantResult>> e : byMeasurand.entrySet()) {
                 String m = e.getKey();
                 Assigned a = assigned.get(m);
+                Choices c = choices.getOrDefault(m, new Choices());
+                MeasurandEvaluation.Rules rules = new MeasurandEvaluation.Rules(QuartileRule.DEFAULT,
+                        AlgorithmA.StoppingRule.FULL_CONVERGENCE, BoundaryRule.DEFAULT,
+                        c.scoreDecimals == null ? NumberFormats.DEFAULT_SCORE_DECIMALS : c.scoreDecimals,
+                        c.coverageFactor == null ? MeasurandEvaluation.DEFAULT_COVERAGE_FACTOR
+                                : c.coverageFactor.doubleValue());
+                MeasurandEvaluation.SmallRounds small = new MeasurandEvaluation.SmallRounds(
+                        c.minimumParticipants == null ? MeasurandEvaluation.MINIMUM_PARTICIPANTS : c.minimumParticipants,
+                        c.minimumForSigma == null ? MeasurandEvaluation.MINIMUM_PARTICIPANTS : c.minimumForSigma,
+                        c.informationOnly, null);
+                MeasurandEvaluation.Decimals decimals = new MeasurandEvaluation.Decimals(
+                        a == null ? null : a.decimalU(), a == null ? null : a.decimalK(), c.sigmaDecimal);
+                // U(x_pt) at k = 2 for the statistics core (u = U/k)
+                Double bigU = a == null ? null : a.expandedUncertainty() / a.decimalK().doubleValue()
+                        * MeasurandEvaluation.DEFAULT_COVERAGE_FACTOR;
                 MeasurandEvaluation.Result r = MeasurandEvaluation.evaluate(new MeasurandEvaluation.Input(
-                        m, units.get(m), e.getValue(), a == null ? null : a.value(),
-                        a == null ? null : a.expandedUncertainty(), sigmas.get(m)));
-                measurands.add(toJson(mapper, r));
+                        m, units.get(m), e.getValue(), a == null ? null : a.value(), bigU, sigmas.get(m), rules,
+                        decimals, small));
+                int digits = c.digits != null ? c.digits : decimalsOf(e.getValue());
+                measurands.add(toJson(mapper, r, digits));
                 for (StatisticsWarning w : r.warnings()) {
                     err.println("warning: " + m + ": " + w.code() + ": " + w.message());
                 }
@@ -126,7 +184,7 @@ public final class EvaluateCommand {
     }
 
     private static String parseArguments(String[] args, Map<String, Double> sigmas,
-            Map<String, Assigned> assigned) throws BadInput {
+            Map<String, Assigned> assigned, Map<String, Choices> choices) throws BadInput {
         String file = null;
         for (int i = 0; i < args.length; i++) {
             String arg = args[i];
@@ -137,60 +195,114 @@ public final class EvaluateCommand {
                 option = arg.substring(0, eq);
                 value = arg.substring(eq + 1);
             }
+            if (option.equals("--information-only")) {
+                if (value == null) {
+                    if (i + 1 >= args.length) {
+                        throw new BadInput("option --information-only needs a measurand. " + USAGE);
+                    }
+                    value = args[++i];
+                }
+                choices.computeIfAbsent(measurandName(value.trim()), m -> new Choices()).informationOnly = true;
+                continue;
+            }
+            if (!VALUED.contains(option)) {
+                if (arg.startsWith("-") && !arg.equals("-")) {
+                    throw new BadInput("unknown option '" + arg + "'. " + USAGE);
+                }
+                if (file != null) {
+                    throw new BadInput("more than one input file ('" + file + "', '" + arg + "'). " + USAGE);
+                }
+                file = arg;
+                continue;
+            }
+            if (value == null) {
+                if (i + 1 >= args.length) {
+                    throw new BadInput("option " + option + " needs a value. " + USAGE);
+                }
+                value = args[++i];
+            }
+            int sep = value.lastIndexOf('=');
+            if (sep <= 0) {
+                throw new BadInput("option " + option + " '" + value + "': expected MEASURAND="
+                        + (option.equals("--assigned") ? "VALUE:EXPANDED_U" : "VALUE"));
+            }
+            String measurand = measurandName(value.substring(0, sep).trim());
+            String number = value.substring(sep + 1).trim();
+            Choices c = option.equals("--sigma-pt") || option.equals("--assigned") ? null
+                    : choices.computeIfAbsent(measurand, m -> new Choices());
             switch (option) {
-                case "--sigma-pt", "--assigned" -> {
-                    if (value == null) {
-                        if (i + 1 >= args.length) {
-                            throw new BadInput("option " + option + " needs a value. " + USAGE);
-                        }
-                        value = args[++i];
+                case "--sigma-pt" -> {
+                    double s = parseOptionNumber(option, measurand, number);
+                    if (!(s > 0)) {
+                        throw new BadInput("option --sigma-pt " + measurand + ": sigma_pt must be > 0, got " + number);
                     }
-                    int sep = value.lastIndexOf('=');
-                    if (sep <= 0) {
-                        throw new BadInput("option " + option + " '" + value + "': expected MEASURAND="
-                                + (option.equals("--assigned") ? "VALUE:EXPANDED_U" : "VALUE"));
+                    if (sigmas.put(measurand, s) != null) {
+                        throw new BadInput("option --sigma-pt given twice for measurand '" + measurand + "'");
                     }
-                    String measurand = value.substring(0, sep).trim();
-                    String number = value.substring(sep + 1).trim();
-                    if (option.equals("--sigma-pt")) {
-                        double s = parseOptionNumber(option, measurand, number);
-                        if (!(s > 0)) {
-                            throw new BadInput("option --sigma-pt " + measurand + ": sigma_pt must be > 0, got " + number);
+                    choices.computeIfAbsent(measurand, m -> new Choices()).sigmaDecimal = new BigDecimal(number);
+                }
+                case "--assigned" -> {
+                    String[] parts = number.split(":", -1);
+                    if (parts.length < 2 || parts.length > 3) {
+                        throw new BadInput("option --assigned " + measurand + ": expected VALUE:EXPANDED_U[:K], got '"
+                                + number + "'");
+                    }
+                    double x = parseOptionNumber(option, measurand, parts[0].trim());
+                    double u = parseOptionNumber(option, measurand, parts[1].trim());
+                    if (u < 0) {
+                        throw new BadInput("option --assigned " + measurand + ": expanded uncertainty must be >= 0");
+                    }
+                    BigDecimal k = BigDecimal.valueOf(2);
+                    if (parts.length == 3) {
+                        double kk = parseOptionNumber(option, measurand, parts[2].trim());
+                        if (!(kk > 0)) {
+                            throw new BadInput("option --assigned " + measurand + ": the coverage factor must be > 0");
                         }
-                        if (sigmas.put(measurand, s) != null) {
-                            throw new BadInput("option --sigma-pt given twice for measurand '" + measurand + "'");
-                        }
-                    } else {
-                        int colon = number.indexOf(':');
-                        if (colon < 0) {
-                            throw new BadInput("option --assigned " + measurand + ": expected VALUE:EXPANDED_U, got '"
-                                    + number + "'");
-                        }
-                        double x = parseOptionNumber(option, measurand, number.substring(0, colon).trim());
-                        double u = parseOptionNumber(option, measurand, number.substring(colon + 1).trim());
-                        if (u < 0) {
-                            throw new BadInput("option --assigned " + measurand + ": expanded uncertainty must be >= 0");
-                        }
-                        if (assigned.put(measurand, new Assigned(x, u)) != null) {
-                            throw new BadInput("option --assigned given twice for measurand '" + measurand + "'");
-                        }
+                        k = new BigDecimal(parts[2].trim());
+                    }
+                    if (assigned.put(measurand, new Assigned(x, u, new BigDecimal(parts[1].trim()), k)) != null) {
+                        throw new BadInput("option --assigned given twice for measurand '" + measurand + "'");
                     }
                 }
-                default -> {
-                    if (arg.startsWith("-") && !arg.equals("-")) {
-                        throw new BadInput("unknown option '" + arg + "'. " + USAGE);
+                case "--coverage-factor" -> {
+                    double k = parseOptionNumber(option, measurand, number);
+                    if (!(k > 0)) {
+                        throw new BadInput("option --coverage-factor " + measurand + ": k must be > 0, got " + number);
                     }
-                    if (file != null) {
-                        throw new BadInput("more than one input file ('" + file + "', '" + arg + "'). " + USAGE);
-                    }
-                    file = arg;
+                    c.coverageFactor = new BigDecimal(number);
                 }
+                case "--score-decimals" -> c.scoreDecimals = wholeNumber(option, measurand, number, 0, 6);
+                case "--minimum-participants" -> c.minimumParticipants = wholeNumber(option, measurand, number, 1, 999999);
+                case "--minimum-for-sigma" -> c.minimumForSigma = wholeNumber(option, measurand, number, 1, 999999);
+                case "--digits" -> c.digits = wholeNumber(option, measurand, number, 0, 12);
+                default -> throw new IllegalStateException(option);
             }
         }
         if (file == null) {
             throw new BadInput("no input file. " + USAGE);
         }
         return file;
+    }
+
+    private static int wholeNumber(String option, String measurand, String text, int low, int high) throws BadInput {
+        if (!text.matches("[0-9]{1,6}") || Integer.parseInt(text) < low || Integer.parseInt(text) > high) {
+            throw new BadInput("option " + option + " " + measurand + ": '" + text + "' is not a whole number from "
+                    + low + " to " + high);
+        }
+        return Integer.parseInt(text);
+    }
+
+    /** Reporting digits when none are given: the most decimals among the measurand's reported values. */
+    private static int decimalsOf(List<MeasurandEvaluation.ParticipantResult> results) {
+        int most = 0;
+        for (MeasurandEvaluation.ParticipantResult r : results) {
+            String text = r.reported().startsWith("<") ? r.reported().substring(1).trim() : r.reported();
+            int dot = text.indexOf('.');
+            if (dot >= 0 && !text.contains("e") && !text.contains("E")) {
+                most = Math.max(most, text.length() - dot - 1);
+            }
+        }
+        return most;
     }
 
     private static double parseOptionNumber(String option, String measurand, String text) throws BadInput {
@@ -222,7 +334,12 @@ public final class EvaluateCommand {
         if (text.startsWith("\uFEFF")) {
             text = text.substring(1);
         }
-        CSVFormat format = CSVFormat.RFC4180.builder().setIgnoreSurroundingSpaces(false).get();
+        // the delimiter as the server's upload detects it: ';' when the header has ';' and no ',' — then a decimal
+        // comma is accepted in the number columns
+        String headerLine = text.lines().filter(l -> !l.isBlank()).findFirst().orElse("");
+        boolean semicolon = headerLine.indexOf(';') >= 0 && headerLine.indexOf(',') < 0;
+        CSVFormat format = CSVFormat.RFC4180.builder().setIgnoreSurroundingSpaces(false)
+                .setDelimiter(semicolon ? ';' : ',').get();
         Map<String, Integer> rowOf = new HashMap<>();
         Map<String, Integer> unitRow = new HashMap<>();
         try (Reader reader = new java.io.StringReader(text); CSVParser parser = CSVParser.parse(reader, format)) {
@@ -241,11 +358,11 @@ public final class EvaluateCommand {
                             + COLUMNS.size());
                 }
                 String participant = field(record, index, "participant");
-                String measurand = field(record, index, "measurand");
+                String measurand = measurandName(field(record, index, "measurand"));
                 String unit = field(record, index, "unit");
-                String reported = field(record, index, "value");
-                String uText = field(record, index, "expanded_uncertainty");
-                String kText = field(record, index, "coverage_factor");
+                String reported = decimalPoint(field(record, index, "value"), semicolon);
+                String uText = decimalPoint(field(record, index, "expanded_uncertainty"), semicolon);
+                String kText = decimalPoint(field(record, index, "coverage_factor"), semicolon);
                 String method = field(record, index, "method");
                 requireNonEmpty(row, "participant", participant);
                 requireNonEmpty(row, "measurand", measurand);
@@ -262,11 +379,24 @@ public final class EvaluateCommand {
                         throw new BadInput("row " + row + ", column expanded_uncertainty: must be >= 0, got '" + uText + "'");
                     }
                 }
+                // the server's range rules (submission.intake.ResultRanges): the same numbers are refused alike
+                if (numberText.startsWith("-")) {
+                    throw new BadInput("row " + row + ", column value: '" + reported + "': "
+                            + ResultRanges.negativeMessage());
+                }
+                java.util.Optional<String> above = ResultRanges.aboveHundredPercent(new BigDecimal(numberText), unit);
+                if (above.isPresent()) {
+                    throw new BadInput("row " + row + ", column value: '" + reported + "': " + above.get());
+                }
                 Double k = null;
                 if (!kText.isEmpty()) {
                     k = parseNumber(row, "coverage_factor", kText, "expected a number");
                     if (!(k > 0)) {
                         throw new BadInput("row " + row + ", column coverage_factor: must be > 0, got '" + kText + "'");
+                    }
+                    if (!ResultRanges.coverageFactorInRange(new BigDecimal(kText))) {
+                        throw new BadInput("row " + row + ", column coverage_factor: '" + kText + "': "
+                                + ResultRanges.coverageFactorMessage());
                     }
                     if (u == null) {
                         throw new BadInput("row " + row + ", column coverage_factor: given without an expanded_uncertainty");
@@ -292,11 +422,30 @@ public final class EvaluateCommand {
             if (index == null) {
                 throw new BadInput("row 1: the file is empty; expected the header " + String.join(",", COLUMNS));
             }
+            if (byMeasurand.isEmpty()) {
+                throw new BadInput("the file has a header and no results");
+            }
         } catch (java.io.UncheckedIOException | IllegalStateException e) {
             throw new BadInput(file + ": not valid CSV (" + e.getMessage() + ")");
         } catch (IOException e) {
             throw new BadInput(file + ": not valid CSV (" + e.getMessage() + ")");
         }
+    }
+
+    /**
+     * A measurand name with the server's case rule for element symbols: {@code mn} and {@code MN} are Mn, also
+     * before an item label ({@code mn-1} is Mn-1); any other name is kept as written.
+     */
+    static String measurandName(String text) {
+        int dash = text.indexOf('-');
+        String head = dash < 0 ? text : text.substring(0, dash);
+        return ChemicalElements.symbolIgnoringCase(head).map(symbol -> dash < 0 ? symbol : symbol + text.substring(dash))
+                .orElse(text);
+    }
+
+    /** In a semicolon-separated file a decimal comma is a decimal point (as in the server's upload). */
+    private static String decimalPoint(String text, boolean semicolon) {
+        return semicolon && text.indexOf(',') >= 0 && text.indexOf('.') < 0 ? text.replace(',', '.') : text;
     }
 
     private static Map<String, Integer> header(CSVRecord record) throws BadInput {
@@ -341,7 +490,7 @@ public final class EvaluateCommand {
         return v;
     }
 
-    private static ObjectNode toJson(ObjectMapper mapper, MeasurandEvaluation.Result r) {
+    private static ObjectNode toJson(ObjectMapper mapper, MeasurandEvaluation.Result r, int digits) {
         ObjectNode n = mapper.createObjectNode();
         n.put("measurand", r.measurand());
         n.put("unit", r.unit());
@@ -361,6 +510,20 @@ public final class EvaluateCommand {
                 : r.sigmaPtSource() == MeasurandEvaluation.SigmaPtSource.GIVEN ? "given" : "robustSd");
         n.put("scoreUsed", r.scoreUsed() == null ? null : r.scoreUsed().jsonName());
         n.put("scoreUsedReason", r.scoreUsedReason());
+        n.put("reportingDigits", digits);
+        n.put("scoreDecimals", r.scoreDecimals());
+        n.put("coverageFactor", NumberFormats.full(r.coverageFactor()));
+        n.put("informationOnly", r.informationOnly());
+        // the numbers as printed (platform.NumberFormats), beside the full-precision JSON numbers
+        ObjectNode printed = n.putObject("printed");
+        printed.put("median", NumberFormats.plainStatistic(r.median(), digits));
+        printed.put("madE", NumberFormats.plainStatistic(r.madE(), digits));
+        printed.put("nIqr", NumberFormats.plainStatistic(r.nIqr(), digits));
+        printed.put("robustMean", NumberFormats.plainStatistic(r.robustMean(), digits));
+        printed.put("robustSd", NumberFormats.plainStatistic(r.robustSd(), digits));
+        printed.put("assignedValue", NumberFormats.plainStatistic(r.assignedValue(), digits));
+        printed.put("assignedValueUncertainty", NumberFormats.plainStatistic(r.assignedValueUncertainty(), digits));
+        printed.put("sigmaPt", NumberFormats.plainStatistic(r.sigmaPt(), digits));
         ArrayNode warnings = n.putArray("warnings");
         for (StatisticsWarning w : r.warnings()) {
             warnings.addObject().put("code", w.code()).put("message", w.message());
@@ -376,6 +539,14 @@ public final class EvaluateCommand {
             o.put("zeta", s.zeta());
             o.put("en", s.en());
             o.put("classification", s.classification());
+            o.put("informationOnly", r.informationOnly() && s.value() != null
+                    && (s.z() != null || s.zPrime() != null || s.zeta() != null || s.en() != null));
+            ObjectNode p = o.putObject("printed");
+            p.put("value", NumberFormats.plainResult(s.value(), digits));
+            p.put("z", NumberFormats.plainScore(s.z(), r.scoreDecimals()));
+            p.put("zPrime", NumberFormats.plainScore(s.zPrime(), r.scoreDecimals()));
+            p.put("zeta", NumberFormats.plainScore(s.zeta(), r.scoreDecimals()));
+            p.put("en", NumberFormats.plainScore(s.en(), r.scoreDecimals()));
         }
         return n;
     }

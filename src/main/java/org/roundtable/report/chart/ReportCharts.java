@@ -216,7 +216,7 @@ public final class ReportCharts {
             plot.addDomainMarker(band, Layer.BACKGROUND);
             double s = d.scores[ownColumn];
             CategoryTextAnnotation label = new CategoryTextAnnotation(
-                    own.participantCode() + " " + ReportFormat.signedScore(s), own.participantCode(), s >= 0 ? -0.25 : 0.25);
+                    own.participantCode() + " " + ReportFormat.signedScore(s, m.scoreDecimals()), own.participantCode(), s >= 0 ? -0.25 : 0.25);
             label.setFont(HIGHLIGHT_FONT);
             label.setPaint(ReportColours.COPPER);
             label.setTextAnchor(ownLabelAnchor(s, ownColumn < scored.size() / 2));
@@ -287,7 +287,7 @@ public final class ReportCharts {
             plot.addAnnotation(new XYShapeAnnotation(new Rectangle2D.Double(ownIndex - 0.5, Math.min(0, s), 1,
                     Math.max(Math.abs(s), 0.02)), null, null, ReportColours.of(scored.get(ownIndex).classification())), false);
             XYTextAnnotation label = new XYTextAnnotation(
-                    scored.get(ownIndex).participantCode() + " " + ReportFormat.signedScore(s), ownIndex,
+                    scored.get(ownIndex).participantCode() + " " + ReportFormat.signedScore(s, m.scoreDecimals()), ownIndex,
                     s >= 0 ? -0.25 : 0.25);
             label.setFont(HIGHLIGHT_FONT);
             label.setPaint(ReportColours.COPPER);

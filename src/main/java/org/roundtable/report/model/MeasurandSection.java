@@ -24,11 +24,23 @@ import org.roundtable.statistics.score.ScoreKind;
  * @param scoreKind the score used to classify performance
  * @param scoreChoiceReason why that score was used
  * @param results the participants' results, in any order
+ * @param scoreDecimals decimals scores are printed with (the plan's; they were classified as printed)
  */
 public record MeasurandSection(String id, String name, String itemLabel, String unit, int reportingDigits, int n,
         double assignedValue, String assignedValueMethod, double assignedValueUncertainty,
         double sigmaPt, String sigmaPtMethod, RobustStatistics robust, List<MethodGroupStatistics> methodGroups,
-        List<String> warnings, ScoreKind scoreKind, String scoreChoiceReason, List<ParticipantResult> results) {
+        List<String> warnings, ScoreKind scoreKind, String scoreChoiceReason, List<ParticipantResult> results,
+        int scoreDecimals) {
+
+    /** A section whose scores print with the default two decimals. */
+    public MeasurandSection(String id, String name, String itemLabel, String unit, int reportingDigits, int n,
+            double assignedValue, String assignedValueMethod, double assignedValueUncertainty,
+            double sigmaPt, String sigmaPtMethod, RobustStatistics robust, List<MethodGroupStatistics> methodGroups,
+            List<String> warnings, ScoreKind scoreKind, String scoreChoiceReason, List<ParticipantResult> results) {
+        this(id, name, itemLabel, unit, reportingDigits, n, assignedValue, assignedValueMethod, assignedValueUncertainty,
+                sigmaPt, sigmaPtMethod, robust, methodGroups, warnings, scoreKind, scoreChoiceReason, results,
+                org.roundtable.platform.NumberFormats.DEFAULT_SCORE_DECIMALS);
+    }
 
     public MeasurandSection {
         Objects.requireNonNull(id, "id");
@@ -36,6 +48,9 @@ public record MeasurandSection(String id, String name, String itemLabel, String 
         Objects.requireNonNull(unit, "unit");
         Objects.requireNonNull(robust, "robust");
         Objects.requireNonNull(scoreKind, "scoreKind");
+        if (scoreDecimals < 0 || scoreDecimals > 6) {
+            throw new IllegalArgumentException("scoreDecimals out of range: " + scoreDecimals);
+        }
         if (reportingDigits < 0 || reportingDigits > 8) {
             throw new IllegalArgumentException("reportingDigits out of range: " + reportingDigits);
         }

@@ -21,7 +21,7 @@ import org.roundtable.statistics.score.Classification;
  * @param zPrime z′ score, or {@code null}
  * @param zeta ζ score, or {@code null}
  * @param en E_n number, or {@code null}
- * @param classification the classification of the score the round uses, made on the unrounded score; {@code null} if not scored
+ * @param classification the classification of the score the round uses, made on the score as printed; {@code null} if not scored or scored for information only
  * @param lessThan whether the result was reported as "&lt; limit"
  * @param lessThanCheck the verdict on a censored result, e.g. "consistent with x_pt"; empty otherwise
  * @param excluded whether the result was excluded from the statistics

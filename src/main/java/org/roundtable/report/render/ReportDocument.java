@@ -261,9 +261,11 @@ final class ReportDocument {
 
     private void writeOwnSummary() {
         heading("Your results at a glance", "own-summary");
-        out.append("<p>Every measurand of the round, with your result as reported. Scores are computed on the "
-                + "unrounded values and printed to two decimals; the assessment uses the score named in "
-                + "\u201cscore used\u201d.</p>\n");
+        out.append("<p>Every measurand of the round, with your result as reported. Scores are computed from the "
+                + "unrounded values, printed to the plan's score decimals (stated in \u201cHow the results were "
+                + "evaluated\u201d) and classified <b>as printed</b>, so a printed score and its verdict always agree; "
+                + "the assessment uses the score named in \u201cscore used\u201d. Scores for information only carry "
+                + "no verdict.</p>\n");
         out.append("<h4>Your results</h4>\n<table class=\"results\">\n<thead><tr><th style=\"width: 22%\">Measurand</th>"
                 + "<th class=\"num\" style=\"width: 13%\">Your result</th><th class=\"num\" style=\"width: 9%\">U</th>"
                 + "<th class=\"num\" style=\"width: 10%\">x<sub>pt</sub></th>"
@@ -298,10 +300,10 @@ final class ReportDocument {
                         + "<td class=\"num\"></td><td class=\"unscored\">no result</td></tr>\n");
                 continue;
             }
-            out.append("</td><td class=\"num\">").append(ReportFormat.score(r.z()))
-                    .append("</td><td class=\"num\">").append(ReportFormat.score(r.zPrime()))
-                    .append("</td><td class=\"num\">").append(ReportFormat.score(r.zeta()))
-                    .append("</td><td class=\"num\">").append(ReportFormat.score(r.en()))
+            out.append("</td><td class=\"num\">").append(ReportFormat.score(r.z(), m.scoreDecimals()))
+                    .append("</td><td class=\"num\">").append(ReportFormat.score(r.zPrime(), m.scoreDecimals()))
+                    .append("</td><td class=\"num\">").append(ReportFormat.score(r.zeta(), m.scoreDecimals()))
+                    .append("</td><td class=\"num\">").append(ReportFormat.score(r.en(), m.scoreDecimals()))
                     .append("</td>").append(assessmentCell(r)).append("</tr>\n");
         }
         out.append("</tbody></table>\n");
@@ -364,11 +366,12 @@ final class ReportDocument {
         } else {
             Double score = ReportCharts.primaryScore(m, r);
             String u = r.expandedUncertainty() == null ? ""
-                    : " \u00b1 " + ReportFormat.decimal(r.expandedUncertainty(), dd) + " (U)";
+                    : " \u00b1 " + ReportFormat.decimal(r.expandedUncertainty(), dd) + " (U, k = "
+                    + ReportFormat.decimal(r.coverageFactor() == null ? 2.0 : r.coverageFactor(), 1) + ")";
             out.append("<tr class=\"own\"><th>Your result</th><td class=\"num\">")
                     .append(esc(ReportFormat.minusSigns(r.reportedValue()))).append(unit).append(u)
                     .append("</td><td>").append(ReportCharts.scoreSymbol(m.scoreKind())).append(" = ")
-                    .append(ReportFormat.score(score)).append(", ").append(assessment(r));
+                    .append(ReportFormat.score(score, m.scoreDecimals())).append(", ").append(assessment(r));
             String notes = notes(r);
             if (!notes.isEmpty()) {
                 out.append("; ").append(notes);
@@ -603,10 +606,10 @@ final class ReportDocument {
                     .append("</td><td class=\"num\">").append(ReportFormat.decimal(r.expandedUncertainty(), dd))
                     .append("</td><td class=\"num\">").append(ReportFormat.decimal(r.coverageFactor(), 1))
                     .append("</td><td>").append(esc(r.methodGroup()))
-                    .append("</td><td class=\"num\">").append(ReportFormat.score(r.z()))
-                    .append("</td><td class=\"num\">").append(ReportFormat.score(r.zPrime()))
-                    .append("</td><td class=\"num\">").append(ReportFormat.score(r.zeta()))
-                    .append("</td><td class=\"num\">").append(ReportFormat.score(r.en()))
+                    .append("</td><td class=\"num\">").append(ReportFormat.score(r.z(), m.scoreDecimals()))
+                    .append("</td><td class=\"num\">").append(ReportFormat.score(r.zPrime(), m.scoreDecimals()))
+                    .append("</td><td class=\"num\">").append(ReportFormat.score(r.zeta(), m.scoreDecimals()))
+                    .append("</td><td class=\"num\">").append(ReportFormat.score(r.en(), m.scoreDecimals()))
                     .append("</td>").append(assessmentCell(r)).append("<td>").append(notes(r)).append("</td></tr>\n");
         }
         out.append("</tbody></table>\n");
@@ -615,13 +618,22 @@ final class ReportDocument {
     /** The assessment as a table cell whose class carries the colour (one element less per row than a span). */
     private static String assessmentCell(ParticipantResult r) {
         Classification c = r.classification();
-        return c == null ? "<td class=\"unscored\">not scored</td>" : "<td class=\"" + c.word() + "\">" + c.word() + "</td>";
+        return c == null ? "<td class=\"unscored\">" + unscoredWords(r) + "</td>"
+                : "<td class=\"" + c.word() + "\">" + c.word() + "</td>";
+    }
+
+    /**
+     * A result without a verdict: a z or z′ without a classification is a score for information only (a consensus
+     * or data-derived σpt below the plan's minimum); otherwise it was not scored.
+     */
+    private static String unscoredWords(ParticipantResult r) {
+        return !r.lessThan() && (r.z() != null || r.zPrime() != null) ? "for information only" : "not scored";
     }
 
     private static String assessment(ParticipantResult r) {
         Classification c = r.classification();
         if (c == null) {
-            return "<span class=\"unscored\">not scored</span>";
+            return "<span class=\"unscored\">" + unscoredWords(r) + "</span>";
         }
         return "<span class=\"" + c.word() + "\">" + c.word() + "</span>";
     }

@@ -26,6 +26,16 @@ public final class ReportFormat {
         return NumberFormats.score(score, NumberFormats.DEFAULT_SCORE_DECIMALS);
     }
 
+    /** A score with the plan's score decimals. */
+    public static String score(Double score, int scoreDecimals) {
+        return NumberFormats.score(score, scoreDecimals);
+    }
+
+    /** A score with an explicit sign at the plan's score decimals. */
+    public static String signedScore(Double score, int scoreDecimals) {
+        return NumberFormats.signedScore(score, scoreDecimals);
+    }
+
     /** A score with an explicit sign: {@code +1.25}, {@code −0.40}, {@code 0.00}. */
     public static String signedScore(Double score) {
         return NumberFormats.signedScore(score, NumberFormats.DEFAULT_SCORE_DECIMALS);

@@ -141,6 +141,17 @@ public final class KernelDensity {
             kernel[d] = norm * Math.exp(-0.5 * u * u);
         }
         double[] f = new double[gridPoints];
+        convolve(weights, kernel, f);
+        return f;
+    }
+
+    /**
+     * Adds the binned weights convolved with a symmetric kernel ({@code kernel[d]} at distance d grid steps) into
+     * {@code f}; empty bins are skipped, so sparse data cost little.
+     */
+    static void convolve(double[] weights, double[] kernel, double[] f) {
+        int gridPoints = weights.length;
+        int reach = kernel.length - 1;
         for (int j = 0; j < gridPoints; j++) {
             double w = weights[j];
             if (w == 0) {
@@ -152,7 +163,6 @@ public final class KernelDensity {
                 f[i] += w * kernel[Math.abs(i - j)];
             }
         }
-        return f;
     }
 
     /** Modes with the default grid and relative height. */

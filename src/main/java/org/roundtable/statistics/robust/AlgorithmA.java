@@ -33,8 +33,8 @@ import org.roundtable.statistics.StatisticsWarning;
  * <ul>
  * <li>p = 1: no standard deviation; throws.</li>
  * <li>p = 2: no clipping can happen; x* is the mean and s* = 1.134·SD. Defined, meaningless;
- * the result carries a {@code too-few-values} warning below 10 values (ISO Guide 35:2017
- * B.5.1 c).</li>
+ * the result carries a {@code too-few-values} warning below 10 values (common practice, no
+ * source; the earlier citation of ISO Guide 35:2017 B.5.1 c was not checked and is dropped).</li>
  * <li>MADe = 0 at the start (more than half of the values identical): no scale. The result
  * has {@code scaleEstimable() == false}, x* = median, s* = 0, 0 iterations, not converged, and
  * a {@code zero-spread} warning; no scores may be computed from it. The bare-number methods
@@ -48,7 +48,7 @@ import org.roundtable.statistics.StatisticsWarning;
  * <p>References: ISO 13528:2015, Statistical methods for use in proficiency testing by
  * interlaboratory comparison, Annex C.3 (Algorithm A), 7.7.3 (u(x_pt)); ISO 5725-5:1998,
  * clause 6.2; ISO 13528:2005, Annex C.1 (stopping rule wording); Huber P.J. (1981) Robust
- * Statistics, Wiley; ISO Guide 35:2017, B.5.1 c).
+ * Statistics, Wiley.
  */
 public final class AlgorithmA {
 
@@ -193,7 +193,7 @@ public final class AlgorithmA {
         if (p < RECOMMENDED_MINIMUM) {
             warnings.add(new StatisticsWarning("too-few-values", "Algorithm A on " + p
                     + " values: robust statistics are unreliable below " + RECOMMENDED_MINIMUM
-                    + " values (ISO Guide 35:2017, B.5.1 c)"));
+                    + " values (common practice, no source)"));
         }
         double x = Median.ofSorted(sorted);
         double s = ScaledMad.MADE_FACTOR * ScaledMad.madOfSorted(sorted, x);

@@ -4,7 +4,9 @@ package org.roundtable.statistics.score;
  * Where the classification bands of a z-like score (z, z′, ζ) end: the two conventions differ only at exactly
  * |s| = 2 and |s| = 3.
  *
- * <p>Definition (scores unrounded):
+ * <p>Definition (applied to the score as printed: {@link #classifyAsPrinted} rounds it half away from zero to the
+ * plan's score decimals first, so a printed "2.00" is always on the boundary and its verdict never disagrees with
+ * the printed number):
  * <ul>
  * <li>{@link #SATISFACTORY_TO_2_UNSATISFACTORY_FROM_3}: {@code |s| ≤ 2} satisfactory, {@code 2 < |s| < 3}
  * questionable, {@code |s| ≥ 3} unsatisfactory — the bands of ISO/IEC 17043:2010 Annex B (B.4.1.1) and
@@ -31,7 +33,18 @@ public enum BoundaryRule {
     public static final BoundaryRule DEFAULT = SATISFACTORY_TO_2_UNSATISFACTORY_FROM_3;
 
     /**
-     * Classifies an unrounded z, z′ or ζ score under this rule.
+     * Classifies a z, z′ or ζ score as printed: the score rounded half away from zero to {@code decimals} decimals
+     * (starting from the shortest decimal form of the double, as {@link Scores#asPrinted} does), then compared with
+     * the band limits exactly in decimal.
+     *
+     * @throws IllegalArgumentException if the score is not finite or decimals is negative
+     */
+    public Classification classifyAsPrinted(double score, int decimals) {
+        return classify(Scores.asPrinted(score, decimals).doubleValue());
+    }
+
+    /**
+     * Classifies an unrounded z, z′ or ζ score under this rule (exact comparison of the double with 2 and 3).
      *
      * @throws IllegalArgumentException if the score is not finite
      */

@@ -21,10 +21,15 @@ import java.util.OptionalDouble;
  * zero, is "not scored": {@link OptionalDouble#empty()}, never NaN or ±∞. Negative uncertainties
  * or σ_pt are not scored either. Positive scores mean the result is high.
  *
- * <p>Classification (our boundary rule): scores are classified unrounded. z, z′, ζ:
- * {@code |s| ≤ 2} satisfactory, {@code 2 < |s| < 3} questionable, {@code |s| ≥ 3}
- * unsatisfactory. En: {@code |En| ≤ 1} satisfactory, otherwise unsatisfactory. A printed
- * "2.00" can therefore be questionable when the unrounded value is 2.004; reports state this.
+ * <p>Classification (our rule, stated in every plan and report): scores are classified <b>as
+ * printed</b> — rounded half away from zero to the plan's score decimals (default 2,
+ * {@link #DEFAULT_SCORE_DECIMALS}), then compared exactly: z, z′, ζ {@code |s| ≤ 2} satisfactory,
+ * {@code 2 < |s| < 3} questionable, {@code |s| ≥ 3} unsatisfactory (or the other
+ * {@link BoundaryRule}); En {@code |En| ≤ 1} satisfactory, otherwise unsatisfactory. A printed
+ * score and its verdict therefore never disagree, and binary noise (2.0000000000000018 from
+ * (0.160 − 0.150)/0.005) cannot move a verdict. The bare {@link #classifyZ(double)} and
+ * {@link #classifyEn(double)} compare the unrounded double and remain for callers that have
+ * already rounded.
  *
  * <p>ζ and En are biased towards zero when x_pt is a consensus that includes the participant's
  * own result (the correlation is ignored); the caller warns (see
@@ -41,6 +46,8 @@ public final class Scores {
     public static final double Z_UNSATISFACTORY_LIMIT = 3.0;
     /** |En| at or below this is satisfactory. */
     public static final double EN_SATISFACTORY_LIMIT = 1.0;
+    /** Score decimals when a plan sets none (the printed form scores are classified by). */
+    public static final int DEFAULT_SCORE_DECIMALS = 2;
 
     private Scores() {
     }
@@ -117,6 +124,31 @@ public final class Scores {
             throw new IllegalArgumentException("En must be finite, got " + en);
         }
         return Math.abs(en) <= EN_SATISFACTORY_LIMIT ? Classification.SATISFACTORY : Classification.UNSATISFACTORY;
+    }
+
+    /**
+     * A score as printed: the shortest decimal form of the double ({@link java.math.BigDecimal#valueOf(double)})
+     * rounded half away from zero to {@code decimals} decimals — the same rule as the product's number formats.
+     *
+     * @throws IllegalArgumentException if the score is not finite or decimals is negative
+     */
+    public static java.math.BigDecimal asPrinted(double score, int decimals) {
+        if (!Double.isFinite(score)) {
+            throw new IllegalArgumentException("score must be finite, got " + score);
+        }
+        if (decimals < 0) {
+            throw new IllegalArgumentException("decimals must be >= 0, got " + decimals);
+        }
+        return java.math.BigDecimal.valueOf(score).setScale(decimals, java.math.RoundingMode.HALF_UP);
+    }
+
+    /**
+     * Classification of an En number as printed: rounded to {@code decimals} decimals, then |En| ≤ 1.
+     *
+     * @throws IllegalArgumentException if the score is not finite or decimals is negative
+     */
+    public static Classification classifyEnAsPrinted(double en, int decimals) {
+        return classifyEn(asPrinted(en, decimals).doubleValue());
     }
 
     /** Classification of a score of the given kind. */

@@ -51,8 +51,6 @@ final class ResultValidator {
     private static final Pattern NOT_FINITE = Pattern.compile("[+-]?(?:nan|inf|infinity|∞|1\\.#inf|1\\.#ind)",
             Pattern.CASE_INSENSITIVE);
     private static final Pattern WHOLE_NUMBER = Pattern.compile("[0-9]{1,9}");
-    private static final BigDecimal COVERAGE_FACTOR_MIN = BigDecimal.ONE;
-    private static final BigDecimal COVERAGE_FACTOR_MAX = new BigDecimal("4");
 
     private final UploadRules rules;
     private final Limits limits;
@@ -182,10 +180,9 @@ final class ResultValidator {
         String coverageText = cellText(row, UploadColumn.COVERAGE_FACTOR, cells, false, true);
         if (coverageText != null) {
             ReportedNumber k = number(row, UploadColumn.COVERAGE_FACTOR, coverageText);
-            if (k != null && (k.value().compareTo(COVERAGE_FACTOR_MIN) < 0
-                    || k.value().compareTo(COVERAGE_FACTOR_MAX) > 0)) {
+            if (k != null && !ResultRanges.coverageFactorInRange(k.value())) {
                 problems.add(problem(row, UploadColumn.COVERAGE_FACTOR, coverageText,
-                        IntakeKey.COVERAGE_FACTOR_OUT_OF_RANGE, "The coverage factor k must lie between 1 and 4."));
+                        IntakeKey.COVERAGE_FACTOR_OUT_OF_RANGE, ResultRanges.coverageFactorMessage()));
             } else if (k != null) {
                 coverageFactor = k;
                 coverageFactorReported = true;

@@ -1,6 +1,7 @@
 package org.roundtable.evaluation.offline;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import com.fasterxml.jackson.databind.JsonNode;
@@ -139,6 +140,9 @@ class EvaluateCommandTest {
         "HEADERA,Mn,%,1,-0.1,,| row 2, column expanded_uncertainty| a negative uncertainty",
         "HEADERA,Mn,%,1,0.1,0,| row 2, column coverage_factor| a zero coverage factor",
         "HEADERA,,%,1,,,| row 2, column measurand: must not be empty| an empty measurand",
+        "HEADERA,Mn,%,1,0.1,5,| row 2, column coverage_factor: '5': The coverage factor k must lie between 1 and 4.| k above 4 (the server's rule)",
+        "HEADERA,Mn,%,-0.002,,,| row 2, column value: '-0.002': A mass fraction cannot be negative.| a negative value (the server's rule)",
+        "HEADERA,Mn,%,100.5,,,| row 2, column value: '100.5': A mass fraction cannot exceed 100 %| above 100 % (the server's rule)",
         "| row 1: the file is empty| an empty file"})
     void badInputExitsWithTwoAndNamesRowColumnAndReason(String csv, String expected, String what)
             throws IOException {
@@ -174,5 +178,110 @@ class EvaluateCommandTest {
         Run r = runArgs(file.toString());
         assertEquals(2, r.exitCode());
         assertTrue(r.err().contains("UTF-8"), r.err());
+    }
+
+    // ---- verdicts an assessor can re-check by hand -------------------------------------------------------------
+
+    @Test
+    void resultsExactlyOnTwoAndThreeSigmaAreClassifiedAsPrinted() throws IOException {
+        // (0.160 − 0.150)/0.005 = 2.0000000000000018 and (0.135 − 0.150)/0.005 = −2.999999999999997 in binary
+        // (python3); exactly 2 and −3 in decimal: satisfactory and unsatisfactory (ISO/IEC 17043:2010 Annex B)
+        Run r = run(HEADER + "A,Cu,%,0.160,,,\nB,Cu,%,0.135,,,\n", "--assigned", "Cu=0.150:0", "--sigma-pt",
+                "Cu=0.005");
+        assertEquals(0, r.exitCode(), r.err());
+        JsonNode scores = r.json().get("measurands").get(0).get("scores");
+        assertEquals("satisfactory", scores.get(0).get("classification").asText());
+        assertEquals("2.00", scores.get(0).get("printed").get("z").asText());
+        assertEquals("unsatisfactory", scores.get(1).get("classification").asText());
+        assertEquals("-3.00", scores.get(1).get("printed").get("z").asText());
+        assertEquals("0.160", scores.get(0).get("printed").get("value").asText());
+    }
+
+    @Test
+    void uOfTheAssignedValueExactlyThreeTenthsOfSigmaPtUsesZ() throws IOException {
+        // U = 0.0108 at k = 2: u = 0.0054 = 0.3·0.018 exactly (hand arithmetic; ISO 13528:2015 9.2.1: equality → z)
+        Run r = run(HEADER + "A,Mn,%,0.81,,,\n", "--assigned", "Mn=0.80:0.0108", "--sigma-pt", "Mn=0.018");
+        assertEquals(0, r.exitCode(), r.err());
+        assertEquals("z", r.json().get("measurands").get(0).get("scoreUsed").asText());
+        // the same u stated at k = 3 (U = 0.0162)
+        Run k3 = run(HEADER + "A,Mn,%,0.81,,,\n", "--assigned", "Mn=0.80:0.0162:3", "--sigma-pt", "Mn=0.018");
+        assertEquals("z", k3.json().get("measurands").get(0).get("scoreUsed").asText());
+    }
+
+    @Test
+    void enTakesBothUncertaintiesAtThePlansCoverageFactor() throws IOException {
+        // u = 0.004 stated at k = 1, 2 and 3; x_pt 0.150 with U 0.006 (k = 2): En = 0.010/sqrt(0.008² + 0.006²) = 1
+        // at k = 2 (hand arithmetic), printed 1.00
+        String csv = HEADER + "A,Cu,%,0.160,0.004,1,\nB,Cu,%,0.160,0.008,2,\nC,Cu,%,0.160,0.012,3,\n";
+        Run r = run(csv, "--assigned", "Cu=0.150:0.006", "--sigma-pt", "Cu=0.005");
+        assertEquals(0, r.exitCode(), r.err());
+        JsonNode m = r.json().get("measurands").get(0);
+        for (JsonNode s : m.get("scores")) {
+            assertEquals(1.0, s.get("en").asDouble(), 1e-12);
+            assertEquals("1.00", s.get("printed").get("en").asText());
+        }
+        assertEquals("2", m.get("coverageFactor").asText());
+        Run three = run(csv, "--assigned", "Cu=0.150:0.006", "--sigma-pt", "Cu=0.005", "--coverage-factor", "Cu=3");
+        // at k = 3: 0.010/sqrt(0.012² + 0.009²) = 0.6667 (hand arithmetic)
+        assertEquals(0.010 / 0.015, three.json().get("measurands").get(0).get("scores").get(0).get("en").asDouble(),
+                1e-12);
+    }
+
+    @Test
+    void twoResultsAreNotScoredAgainstTheirConsensusUnlessForInformationOnly() throws IOException {
+        String csv = HEADER + "A,Mn,%,0.75,,,\nB,Mn,%,7.5,,,\n";
+        Run r = run(csv);
+        assertEquals(0, r.exitCode(), r.err());
+        JsonNode m = r.json().get("measurands").get(0);
+        assertTrue(m.get("warnings").toString().contains("below-minimum"));
+        assertTrue(m.get("scores").get(0).get("z").isNull());
+        assertTrue(r.err().contains("below-minimum"));
+
+        Run info = run(HEADER + "A,Mn,%,0.75,,,\nB,Mn,%,0.76,,,\nC,Mn,%,0.74,,,\n", "--information-only", "Mn",
+                "--sigma-pt", "Mn=0.01");
+        JsonNode mi = info.json().get("measurands").get(0);
+        assertTrue(mi.get("informationOnly").asBoolean());
+        for (JsonNode s : mi.get("scores")) {
+            assertTrue(s.get("classification").isNull());
+            assertTrue(s.get("informationOnly").asBoolean());
+            assertTrue(s.get("z").isNumber());
+        }
+        Run lower = run(HEADER + "A,Mn,%,0.75,,,\nB,Mn,%,0.76,,,\nC,Mn,%,0.74,,,\n", "--minimum-participants",
+                "Mn=3", "--sigma-pt", "Mn=0.01");
+        assertEquals("satisfactory", lower.json().get("measurands").get(0).get("scores").get(0).get("classification")
+                .asText());
+    }
+
+    @Test
+    void readsWhatTheServersUploadReadsSemicolonsWithADecimalCommaBomAndCrlf() throws IOException {
+        String csv = "\uFEFFparticipant;measurand;unit;value;expanded_uncertainty;coverage_factor;method\r\n"
+                + "A;mn;%;0,760;0,004;2;OES\r\nB;MN;%;0,735;;;OES\r\n";
+        Run r = run(csv, "--assigned", "Mn=0.750:0.001", "--sigma-pt", "mn=0.005");
+        assertEquals(0, r.exitCode(), r.err());
+        JsonNode m = r.json().get("measurands").get(0);
+        assertEquals("Mn", m.get("measurand").asText());
+        assertEquals(0.760, m.get("scores").get(0).get("value").asDouble(), 0.0);
+        assertEquals("satisfactory", m.get("scores").get(0).get("classification").asText());
+        assertEquals("unsatisfactory", m.get("scores").get(1).get("classification").asText());
+        assertEquals(3, m.get("reportingDigits").asInt());
+    }
+
+    @Test
+    void aFileWithAHeaderAndNoRowsExitsWithTwo() throws IOException {
+        Run r = run(HEADER);
+        assertEquals(2, r.exitCode());
+        assertTrue(r.err().contains("no results"), r.err());
+        assertEquals(2, run(HEADER + "\r\n").exitCode());
+    }
+
+    @Test
+    void printedNumbersNeverUseAnExponent() throws IOException {
+        Run r = run(HEADER + "A,Pb,mg/kg,0.00031,,,\nB,Pb,mg/kg,0.00029,,,\n", "--assigned", "Pb=0.0003:0.00002",
+                "--sigma-pt", "Pb=0.00002");
+        assertEquals(0, r.exitCode(), r.err());
+        JsonNode m = r.json().get("measurands").get(0);
+        assertEquals("0.000300", m.get("printed").get("assignedValue").asText());
+        m.get("printed").forEach(v -> assertFalse(v.asText().matches(".*[eE].*"), v.asText()));
+        m.get("scores").forEach(s -> s.get("printed").forEach(v -> assertFalse(v.asText().matches(".*[eE].*"))));
     }
 }

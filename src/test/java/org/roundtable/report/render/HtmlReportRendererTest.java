@@ -94,4 +94,29 @@ class HtmlReportRendererTest {
         factory.setNamespaceAware(true);
         return factory.newDocumentBuilder().parse(new ByteArrayInputStream(xhtml.getBytes(StandardCharsets.UTF_8)));
     }
+
+    @Test
+    void scoresPrintAtThePlansDecimalsAndInformationOnlyScoresCarryNoVerdict() {
+        RoundReport sample = SampleRoundBuilder.lowAlloySteel().build();
+        org.roundtable.report.model.MeasurandSection first = sample.measurands().get(0);
+        java.util.List<org.roundtable.report.model.ParticipantResult> unjudged = first.results().stream()
+                .map(r -> new org.roundtable.report.model.ParticipantResult(r.participantCode(), r.itemLabel(),
+                        r.reportedValue(), r.value(), r.unit(), r.expandedUncertainty(), r.coverageFactor(),
+                        r.methodGroup(), r.z() == null ? null : 1.23456, r.zPrime(), r.zeta(), r.en(), null,
+                        r.lessThan(), r.lessThanCheck(), r.excluded(), r.exclusionReason(), r.late()))
+                .toList();
+        org.roundtable.report.model.MeasurandSection informationOnly = new org.roundtable.report.model.MeasurandSection(
+                first.id(), first.name(), first.itemLabel(), first.unit(), first.reportingDigits(), first.n(),
+                first.assignedValue(), first.assignedValueMethod(), first.assignedValueUncertainty(), first.sigmaPt(),
+                first.sigmaPtMethod(), first.robust(), first.methodGroups(), first.warnings(), first.scoreKind(),
+                first.scoreChoiceReason(), unjudged, 3);
+        java.util.List<org.roundtable.report.model.MeasurandSection> sections = new java.util.ArrayList<>(sample.measurands());
+        sections.set(0, informationOnly);
+        RoundReport report = new RoundReport(sample.identity(), sample.scheme(), sample.round(), sample.item(), sections,
+                sample.pairs(), sample.evaluation(), sample.coordinatorComments(), sample.signatures(),
+                sample.confidentialityStatement(), sample.advice());
+        String page = new HtmlReportRenderer().render(report);
+        // three score decimals, half away from zero: 1.23456 prints 1.235 (hand arithmetic)
+        assertThat(page).contains(">1.235<").contains("for information only");
+    }
 }

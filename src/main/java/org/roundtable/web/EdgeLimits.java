@@ -1,0 +1,120 @@
+package org.roundtable.web;
+
+import io.quarkus.runtime.configuration.MemorySize;
+import io.vertx.core.MultiMap;
+import io.vertx.core.http.HttpHeaders;
+import io.vertx.core.http.HttpServerRequest;
+import io.vertx.core.http.HttpServerResponse;
+import io.vertx.core.json.JsonObject;
+import io.vertx.ext.web.Router;
+import io.vertx.ext.web.RoutingContext;
+import jakarta.enterprise.context.ApplicationScoped;
+import jakarta.enterprise.event.Observes;
+import org.eclipse.microprofile.config.inject.ConfigProperty;
+import org.roundtable.platform.Admission;
+
+import java.util.Map;
+
+/**
+ * The limits that are enforced before a request reaches an endpoint, answered with the same problem body as every
+ * other error (status, title, detail, request id): a body larger than {@code quarkus.http.limits.max-body-size}
+ * (413) and headers larger than {@code roundtable.http.max-header-size} (431). The HTTP codec's own header limit
+ * ({@code quarkus.http.limits.max-header-size}) is set well above ours, so that requests reach this check; only a
+ * request beyond the codec's limit still gets the codec's bare answer.
+ * <p>
+ * A failure handler gives the same body to an API token refused during authentication (401), which Quarkus would
+ * otherwise answer with an empty challenge.
+ */
+@ApplicationScoped
+public class EdgeLimits {
+
+    private final long maxBodyBytes;
+    private final long maxHeaderBytes;
+    private final Admission admission;
+
+    public EdgeLimits(@ConfigProperty(name = "quarkus.http.limits.max-body-size") MemorySize maxBody,
+                      @ConfigProperty(name = "roundtable.http.max-header-size", defaultValue = "20K") MemorySize maxHeader,
+                      Admission admission) {
+        this.admission = admission;
+        this.maxBodyBytes = maxBody.asLongValue();
+        this.maxHeaderBytes = maxHeader.asLongValue();
+    }
+
+    void install(@Observes Router router) {
+        router.route().order(Integer.MIN_VALUE + 10).handler(this::check);
+        router.route().order(Integer.MIN_VALUE + 10).failureHandler(this::failed);
+    }
+
+    private void check(RoutingContext context) {
+        HttpServerRequest request = context.request();
+        long headerBytes = request.uri().length() + 16L;
+        for (Map.Entry<String, String> header : request.headers()) {
+            headerBytes += header.getKey().length() + header.getValue().length() + 4L;
+        }
+        if (headerBytes > maxHeaderBytes) {
+            problem(context, 431, "Headers too large", "The request's headers are larger than allowed.");
+            return;
+        }
+        if (!admission.databaseAvailable() && !request.path().startsWith("/q/") && !request.path().startsWith("/assets/")) {
+            context.response().headers().set("Retry-After", "5");
+            Admission.Unavailable refused = admission.databaseUnavailable();
+            problem(context, 503, refused.title(), refused.detail());
+            return;
+        }
+        String length = request.getHeader(HttpHeaders.CONTENT_LENGTH);
+        if (length != null) {
+            try {
+                if (Long.parseLong(length.strip()) > maxBodyBytes) {
+                    problem(context, 413, "Too large", "The request body is larger than allowed.");
+                    return;
+                }
+            } catch (NumberFormatException e) {
+                problem(context, 400, "Invalid request", "The Content-Length header is not a number.");
+                return;
+            }
+        }
+        context.next();
+    }
+
+    private void failed(RoutingContext context) {
+        if (context.failure() != null && admission.isDatabaseOutage(context.failure()) && !context.response().headWritten()) {
+            // e.g. the session lookup during authentication found the database gone
+            context.response().headers().set("Retry-After", "5");
+            Admission.Unavailable refused = admission.databaseUnavailable();
+            problem(context, 503, refused.title(), refused.detail());
+            return;
+        }
+        if (context.failure() instanceof io.quarkus.security.AuthenticationFailedException
+                && !context.response().headWritten()) {
+            // an unknown or revoked API token: the same 401 problem body the endpoints give
+            org.roundtable.account.SecurityLog.denied("anonymous", context.request().method().name(),
+                    context.request().path(), 401);
+            context.response().headers().set("WWW-Authenticate", "Bearer realm=\"roundtable\"");
+            problem(context, 401, "Sign-in required", "The API token is not valid. Please sign in or use a valid token.");
+            return;
+        }
+        int status = context.statusCode();
+        if ((status == 413 || status == 431) && !context.response().headWritten()) {
+            problem(context, status, status == 413 ? "Too large" : "Headers too large",
+                    status == 413 ? "The request body is larger than allowed." : "The request's headers are larger than allowed.");
+            return;
+        }
+        context.next();
+    }
+
+    /** Ends the exchange with a problem body carrying the request id (taken from the request or new). */
+    static void problem(RoutingContext context, int status, String title, String detail) {
+        HttpServerRequest request = context.request();
+        String id = RequestIds.idFor(request.getHeader(RequestIds.HEADER));
+        HttpServerResponse response = context.response();
+        MultiMap headers = response.headers();
+        headers.set(HttpHeaders.CONTENT_TYPE, "application/json");
+        headers.set(RequestIds.HEADER, id);
+        if (status == 413 || status == 431) {
+            headers.set(HttpHeaders.CONNECTION, "close");
+        }
+        String body = new JsonObject().put("status", status).put("title", title).put("detail", detail)
+                .put("requestId", id).put("errors", new io.vertx.core.json.JsonArray()).encode();
+        response.setStatusCode(status).end(body);
+    }
+}
