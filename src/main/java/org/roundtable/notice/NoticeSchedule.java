@@ -6,6 +6,7 @@ import jakarta.enterprise.context.ApplicationScoped;
 import jakarta.enterprise.context.control.ActivateRequestContext;
 import jakarta.persistence.EntityManager;
 import org.jboss.logging.Logger;
+import org.roundtable.platform.Admission;
 import org.roundtable.platform.Timestamps;
 
 import java.time.Clock;
@@ -36,8 +37,10 @@ public class NoticeSchedule {
     private final NoticeService notices;
     private final EntityManager entityManager;
     private final Clock clock;
+    private final Admission admission;
 
-    public NoticeSchedule(NoticeService notices, EntityManager entityManager, Clock clock) {
+    public NoticeSchedule(NoticeService notices, EntityManager entityManager, Clock clock, Admission admission) {
+        this.admission = admission;
         this.notices = notices;
         this.entityManager = entityManager;
         this.clock = clock;
@@ -47,10 +50,15 @@ public class NoticeSchedule {
             concurrentExecution = Scheduled.ConcurrentExecution.SKIP)
     @ActivateRequestContext
     void scheduled() {
+        if (!admission.databaseAvailable()) {
+            return; // logged once by Admission; the checks run again when the database answers
+        }
         try {
             runChecks();
         } catch (RuntimeException e) {
-            LOG.error("notice checks failed; they run again at the next interval", e);
+            if (!admission.isDatabaseOutage(e)) {
+                LOG.error("notice checks failed; they run again at the next interval", e);
+            }
         }
     }
 

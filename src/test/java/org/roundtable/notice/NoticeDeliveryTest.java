@@ -57,6 +57,9 @@ class NoticeDeliveryTest {
     @Inject
     NoticeSchedule schedule;
 
+    @Inject
+    org.roundtable.platform.Admission admission;
+
     @ConfigProperty(name = "quarkus.mailer.port")
     int smtpPort;
 
@@ -283,8 +286,8 @@ class NoticeDeliveryTest {
                 QuarkusTransaction.requiringNew().run(() -> notices.notify(NoticeKind.REMINDER, "test:many:" + n + ":" + user,
                         user, Map.of("round", "R-" + n, "message", "Reminder number " + n)));
             }
-            JobRunner first = new JobRunner(jobService, handlers);
-            JobRunner second = new JobRunner(jobService, handlers);
+            JobRunner first = new JobRunner(jobService, handlers, admission);
+            JobRunner second = new JobRunner(jobService, handlers, admission);
             Callable<Integer> drainFirst = () -> drain(first);
             Callable<Integer> drainSecond = () -> drain(second);
             int ran = 0;
