@@ -4,6 +4,8 @@ import jakarta.enterprise.context.ApplicationScoped;
 import jakarta.transaction.Transactional;
 import org.roundtable.audit.AuditTrail;
 import org.roundtable.audit.ObjectHash;
+import org.roundtable.notice.NoticeKind;
+import org.roundtable.notice.NoticeService;
 import org.roundtable.platform.DomainException;
 
 import java.time.Clock;
@@ -27,16 +29,18 @@ public class AuditorGrantService {
     private final AuditTrail audit;
     private final CurrentUser currentUser;
     private final Clock clock;
+    private final NoticeService notices;
 
     public AuditorGrantService(AuditorGrantRepository grants, UserAccountRepository users,
                                LaboratoryRepository laboratories, AuditTrail audit, CurrentUser currentUser,
-                               Clock clock) {
+                               Clock clock, NoticeService notices) {
         this.grants = grants;
         this.users = users;
         this.laboratories = laboratories;
         this.audit = audit;
         this.currentUser = currentUser;
         this.clock = clock;
+        this.notices = notices;
     }
 
     public record GrantView(long id, long laboratoryId, String auditorUsername, String auditorName,
@@ -101,6 +105,8 @@ public class AuditorGrantService {
         audit.record(new AuditTrail.Event(currentUser.actor(), "auditor-grant.created", "auditor-grant",
                 grant.id.toString(), null, hash(grant), "auditor=" + auditor.username + " until=" + grant.validUntil
                 + (dataFrom == null && dataUntil == null ? "" : " data=" + dataFrom + ".." + dataUntil)));
+        notices.notify(NoticeKind.GRANT_GIVEN, "grant:" + grant.id, auditor.id,
+                Map.of("laboratory", laboratories.findById(laboratoryId).name, "until", grant.validUntil));
         return view(grant, auditor, now);
     }
 

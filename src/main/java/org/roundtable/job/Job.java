@@ -56,6 +56,10 @@ public class Job {
 
     public String error;
 
+    /** Makes a job unique: a second enqueue with the same key adds nothing ({@link JobService#enqueueOnce}). */
+    @Column(name = "dedup_key")
+    public String dedupKey;
+
     @Column(name = "created_by")
     public String createdBy;
 

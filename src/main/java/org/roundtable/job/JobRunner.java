@@ -54,7 +54,12 @@ public class JobRunner {
 
     /** Claims and runs one job; false when nothing was due. */
     public boolean runNext() {
-        Optional<Long> claimed = jobService.claimNext(workerId);
+        return runNext(null);
+    }
+
+    /** Claims and runs one job of {@code kind} (any kind when null); false when nothing was due. */
+    public boolean runNext(String kind) {
+        Optional<Long> claimed = jobService.claimNext(workerId, kind);
         if (claimed.isEmpty()) {
             return false;
         }

@@ -45,6 +45,29 @@ public class JobService {
         return job;
     }
 
+    /**
+     * Queues a job unless one with {@code dedupKey} exists already (of any status), in the caller's transaction.
+     * The key's UNIQUE index decides, so two instances or a retried request queue it once.
+     *
+     * @return whether this call queued it
+     */
+    @Transactional
+    public boolean enqueueOnce(String kind, String dedupKey, String payload, int maxAttempts, String createdBy) {
+        OffsetDateTime now = now();
+        return entityManager.createNativeQuery("""
+                INSERT INTO job (kind, dedup_key, payload, max_attempts, created_by, created_at, not_before)
+                VALUES (:kind, :key, :payload, :max, :by, :now, :now)
+                ON CONFLICT (dedup_key) WHERE dedup_key IS NOT NULL DO NOTHING
+                """)
+                .setParameter("kind", kind)
+                .setParameter("key", dedupKey)
+                .setParameter("payload", payload == null ? "{}" : payload)
+                .setParameter("max", Math.max(1, maxAttempts))
+                .setParameter("by", createdBy)
+                .setParameter("now", now)
+                .executeUpdate() == 1;
+    }
+
     @Transactional
     public Optional<Job> find(long id) {
         return jobs.findByIdOptional(id);
@@ -56,12 +79,19 @@ public class JobService {
      */
     @Transactional(Transactional.TxType.REQUIRES_NEW)
     public Optional<Long> claimNext(String worker) {
+        return claimNext(worker, null);
+    }
+
+    /** As {@link #claimNext(String)}, only jobs of {@code kind} (all kinds when null). */
+    @Transactional(Transactional.TxType.REQUIRES_NEW)
+    public Optional<Long> claimNext(String worker, String kind) {
         @SuppressWarnings("unchecked")
         List<Number> claimed = entityManager.createNativeQuery("""
                 UPDATE job SET status = 'RUNNING', claimed_by = :worker, claimed_at = :now,
                                heartbeat_at = :now, attempts = attempts + 1, version = version + 1
                  WHERE id = (SELECT id FROM job
                               WHERE status = 'QUEUED' AND not_before <= :now
+                                AND (CAST(:kind AS varchar) IS NULL OR kind = CAST(:kind AS varchar))
                               ORDER BY not_before, id
                               LIMIT 1
                               FOR UPDATE SKIP LOCKED)
@@ -69,6 +99,7 @@ public class JobService {
                 """)
                 .setParameter("worker", worker)
                 .setParameter("now", now())
+                .setParameter("kind", kind)
                 .getResultList();
         return claimed.stream().findFirst().map(Number::longValue);
     }
@@ -113,7 +144,10 @@ public class JobService {
         }
     }
 
-    /** Records a failure: back to the queue with a growing delay, or FAILED when attempts are used up. */
+    /**
+     * Records a failure: back to the queue with a doubling delay (10 s, 20 s, 40 s, … at most an hour), or FAILED
+     * when attempts are used up.
+     */
     @Transactional(Transactional.TxType.REQUIRES_NEW)
     public void fail(long id, String error) {
         Job job = jobs.findById(id);
@@ -124,7 +158,7 @@ public class JobService {
             job.finishedAt = now();
         } else {
             job.status = JobStatus.QUEUED.name();
-            job.notBefore = now().plusSeconds(10L * job.attempts);
+            job.notBefore = now().plus(retryDelay(job.attempts));
         }
     }
 
@@ -150,6 +184,12 @@ public class JobService {
                 """)
                 .setParameter("limit", now().minus(ABANDONED_AFTER))
                 .executeUpdate();
+    }
+
+    /** The delay before attempt {@code attempts + 1}: 10 s doubled per attempt made, capped at one hour. */
+    static Duration retryDelay(int attempts) {
+        int doublings = Math.min(Math.max(attempts, 1) - 1, 9);
+        return Duration.ofSeconds(Math.min(10L << doublings, 3600L));
     }
 
     private OffsetDateTime now() {

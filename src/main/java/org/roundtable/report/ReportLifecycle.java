@@ -12,6 +12,8 @@ import org.roundtable.audit.AuditTrail;
 import org.roundtable.job.Job;
 import org.roundtable.job.JobProgress;
 import org.roundtable.job.JobService;
+import org.roundtable.notice.NoticeKind;
+import org.roundtable.notice.NoticeService;
 import org.roundtable.platform.DomainException;
 import org.roundtable.platform.Secrets;
 import org.roundtable.platform.Timestamps;
@@ -82,11 +84,12 @@ public class ReportLifecycle {
     private final AuditTrail audit;
     private final CurrentUser currentUser;
     private final Clock clock;
+    private final NoticeService notices;
 
     public ReportLifecycle(EntityManager entityManager, ReportAssembler assembler, IssuedDocuments documents,
                            ReportVisibility visibility, RoundService rounds, RoundAccess roundAccess,
                            SchemeService schemes, JobService jobs, AuditorGrantService grants, AuditTrail audit,
-                           CurrentUser currentUser, Clock clock) {
+                           CurrentUser currentUser, Clock clock, NoticeService notices) {
         this.entityManager = entityManager;
         this.assembler = assembler;
         this.documents = documents;
@@ -99,6 +102,7 @@ public class ReportLifecycle {
         this.audit = audit;
         this.currentUser = currentUser;
         this.clock = clock;
+        this.notices = notices;
     }
 
     // ---- views and requests ------------------------------------------------------------------------------
@@ -231,6 +235,11 @@ public class ReportLifecycle {
                 """, Map.of("c", commentId, "body", body, "by", currentUser.actor().name(), "at", now()));
         audit.record(new AuditTrail.Event(currentUser.actor(), "report.comment-answered", "report_comment_answer",
                 Long.toString(id), null, Secrets.sha256Hex(body), "comment=" + commentId + " round=" + roundId));
+        long laboratory = ((Number) entityManager.createNativeQuery(
+                "SELECT laboratory_id FROM report_comment WHERE id = :c").setParameter("c", commentId).getSingleResult())
+                .longValue();
+        notices.notifyLaboratory(NoticeKind.COMMENT_ANSWERED, "answer:" + id, laboratory,
+                Map.of("round", rounds.get(roundId).code(), "roundId", roundId));
         return comments(roundId, null).stream().filter(c -> c.id() == commentId).findFirst().orElseThrow();
     }
 
@@ -283,7 +292,26 @@ public class ReportLifecycle {
                 "name", signer.displayName(), "at", at));
         audit.record(new AuditTrail.Event(signer.actor(), "report.sign-off", "report_sign_off", Long.toString(id),
                 null, null, "round=" + roundId + " sequence=" + sequence + " run=" + request.version() + " role=" + role));
+        notifySignOff(roundId, state, sequence, request.version(), second && current.isEmpty(), signer);
         return new SignOffView(sequence, request.version(), role, username, signer.displayName(), at);
+    }
+
+    /**
+     * Notices of a sign-off: the other coordinators when a second reviewer is needed; the laboratories of the round
+     * when the first sign-off of the final report ends the comment period in practice.
+     */
+    private void notifySignOff(long roundId, RoundState state, int sequence, int version, boolean secondNeeded,
+                               Signer signer) {
+        String code = rounds.get(roundId).code();
+        if (secondNeeded) {
+            notices.notifyCoordinators(NoticeKind.SIGN_OFF_WAITING, "sign-off:" + roundId + ":" + sequence,
+                    signer.actor().name(), Map.of("round", code, "roundId", roundId, "version", version,
+                            "signer", signer.displayName()));
+        }
+        if (state == RoundState.COMMENT_PERIOD && sequence == 0) {
+            notices.notifyLaboratoriesOfRound(NoticeKind.COMMENT_PERIOD_ENDING, "comment-period:" + roundId, roundId,
+                    false, Map.of("round", code, "roundId", roundId));
+        }
     }
 
     /** Records a request to issue the final reports from the signed-off run and queues the job. */
@@ -465,6 +493,7 @@ public class ReportLifecycle {
         Map<Long, IssuedDocument> previous = row.status() == ReportStatus.AMENDED ? latestLaboratoryDocuments(row.roundId())
                 : Map.of();
         int issuedLabs = 0;
+        Map<Long, String> laboratoryReports = new LinkedHashMap<>();
         for (int i = 0; i < codes.size(); i++) {
             String code = codes.get(i);
             long laboratory = assembled.laboratories().get(code);
@@ -475,6 +504,7 @@ public class ReportLifecycle {
                     throw new IllegalStateException("report " + reportId + " was issued from another evaluation run");
                 }
                 issuedLabs++;
+                laboratoryReports.put(laboratory, reportId);
             } else {
                 String labReplaces = null;
                 if (row.status() == ReportStatus.AMENDED) {
@@ -494,6 +524,7 @@ public class ReportLifecycle {
                 documents.issue(new IssuedDocuments.Issue(labIdentity, DocumentKind.LABORATORY, row.roundId(),
                         laboratory, PDF, bytes, assembled.evaluationRunId()), actor);
                 issuedLabs++;
+                laboratoryReports.put(laboratory, reportId);
             }
             progress.report(i + 1, total);
         }
@@ -514,9 +545,27 @@ public class ReportLifecycle {
             }
             documents.issue(new IssuedDocuments.Issue(identity, DocumentKind.ROUND, row.roundId(), null, PDF, roundPdf,
                     assembled.evaluationRunId()), actor);
+            notifyIssued(row, laboratoryReports);
         });
         progress.report(total, total);
         return row.roundReportId() + " and " + labs + " laboratory report(s)";
+    }
+
+    /**
+     * Notices of an issue, in the issuing transaction: each laboratory with a report of this issue is told its own
+     * report's number and the round report's (nothing of other laboratories); for final and amended reports, the
+     * auditors holding a grant from one of those laboratories are told the round report's number.
+     */
+    private void notifyIssued(IssueRow row, Map<Long, String> laboratoryReports) {
+        String status = row.status().name().toLowerCase(java.util.Locale.ROOT);
+        laboratoryReports.forEach((laboratory, reportId) -> notices.notifyLaboratory(NoticeKind.REPORT_ISSUED,
+                "report:" + reportId, laboratory, Map.of("round", row.roundCode(), "roundId", row.roundId(),
+                        "status", status, "roundReport", row.roundReportId(), "report", reportId)));
+        if (FOR_AUDITORS.contains(row.status())) {
+            notices.notifyAuditorsGrantedBy(NoticeKind.REPORT_ISSUED, "report:" + row.roundReportId(),
+                    laboratoryReports.keySet(), Map.of("round", row.roundCode(), "status", status,
+                            "roundReport", row.roundReportId(), "link", "/auditor/reports"));
+        }
     }
 
     /** The issue request a job carries out. */

@@ -9,6 +9,8 @@ import org.roundtable.account.CurrentUser;
 import org.roundtable.audit.Actor;
 import org.roundtable.audit.AuditTrail;
 import org.roundtable.audit.ObjectHash;
+import org.roundtable.notice.NoticeKind;
+import org.roundtable.notice.NoticeService;
 import org.roundtable.platform.DomainException;
 import org.roundtable.scheme.qualification.QualificationService;
 
@@ -60,10 +62,12 @@ public class RoundService {
     private final EntityManager entityManager;
     private final ObjectMapper mapper;
     private final Clock clock;
+    private final NoticeService notices;
 
     public RoundService(RoundRepository rounds, SchemeService schemes, RoundGate gate, PlanStore plans,
                         EnrolmentService enrolments, QualificationService qualification, AuditTrail audit,
-                        CurrentUser currentUser, EntityManager entityManager, ObjectMapper mapper, Clock clock) {
+                        CurrentUser currentUser, EntityManager entityManager, ObjectMapper mapper, Clock clock,
+                        NoticeService notices) {
         this.rounds = rounds;
         this.schemes = schemes;
         this.gate = gate;
@@ -75,6 +79,7 @@ public class RoundService {
         this.entityManager = entityManager;
         this.mapper = mapper;
         this.clock = clock;
+        this.notices = notices;
     }
 
     /**
@@ -267,6 +272,10 @@ public class RoundService {
         audit.record(new AuditTrail.Event(currentUser.actor(), "round." + action.name().toLowerCase(Locale.ROOT)
                 .replace('_', '-'), "round", round.id.toString(), before, hash(round),
                 "from=" + from + " to=" + next + (detail == null ? "" : " " + detail)));
+        if (action == RoundAction.OPEN_FOR_RESULTS) {
+            notices.notifyLaboratoriesOfRound(NoticeKind.ROUND_OPENED, "round:" + round.id, round.id, false,
+                    java.util.Map.of("round", round.code, "roundId", round.id, "deadline", round.resultDeadline));
+        }
         return view(round);
     }
 

@@ -262,6 +262,12 @@ class AuthorizationMatrixTest {
         if (resolved.contains("{grantId}")) {
             resolved = resolved.replace("{grantId}", Long.toString(world.grant(labA, world.user("auditor", null))));
         }
+        if (resolved.contains("{noticeId}")) {
+            long owner = world.userId(world.user("lab-member", labA));
+            resolved = resolved.replace("{noticeId}", Long.toString(world.insert("INSERT INTO notice (kind, object_key, "
+                    + "recipient_id, params, link, created_at) VALUES ('reminder', ?, ?, '{}', '/my-rounds', now()) RETURNING id",
+                    World.unique("matrix"), owner)));
+        }
         if (resolved.contains("{schemeId}")) {
             resolved = resolved.replace("{schemeId}", Long.toString(world.scheme()));
         }
