@@ -6,6 +6,8 @@ import jakarta.persistence.EntityManager;
 import jakarta.transaction.Transactional;
 import org.roundtable.evaluation.EvaluationService;
 import org.roundtable.evaluation.EvaluationViews;
+import org.roundtable.notice.NoticeKind;
+import org.roundtable.notice.NoticeService;
 import org.roundtable.report.RoundReportIssued;
 import org.roundtable.scheme.RoundService;
 
@@ -26,11 +28,16 @@ public class HistoryRecorder {
     private final EntityManager entityManager;
     private final EvaluationService evaluations;
     private final RoundService rounds;
+    private final HistoryService history;
+    private final NoticeService notices;
 
-    public HistoryRecorder(EntityManager entityManager, EvaluationService evaluations, RoundService rounds) {
+    public HistoryRecorder(EntityManager entityManager, EvaluationService evaluations, RoundService rounds,
+                           HistoryService history, NoticeService notices) {
         this.entityManager = entityManager;
         this.evaluations = evaluations;
         this.rounds = rounds;
+        this.history = history;
+        this.notices = notices;
     }
 
     @Transactional(Transactional.TxType.MANDATORY)
@@ -70,6 +77,31 @@ public class HistoryRecorder {
                     .setParameter("group", key[1]).setParameter("s", c[0]).setParameter("q", c[1])
                     .setParameter("u", c[2]).setParameter("n", c[3])
                     .executeUpdate();
+        }
+        tellEarlyWarnings(round.code(), run);
+    }
+
+    /**
+     * Tells each scored laboratory of the early warnings this round's results fired in its history, through the
+     * notices service (once per laboratory, round, rule and measurand: the notice key makes a later final or amended
+     * report of the same round tell nobody twice). Only the laboratory's own results are named.
+     */
+    private void tellEarlyWarnings(String roundCode, EvaluationViews.Run run) {
+        java.util.Set<Long> laboratories = new java.util.TreeSet<>();
+        for (EvaluationViews.MeasurandOutcome m : run.measurands()) {
+            for (EvaluationViews.Score s : m.scores()) {
+                laboratories.add(s.laboratoryId());
+            }
+        }
+        for (long laboratoryId : laboratories) {
+            for (EarlyWarnings.Warning w : history.earlyWarnings(laboratoryId)) {
+                if (!roundCode.equals(w.roundCode())) {
+                    continue;
+                }
+                notices.notifyLaboratory(NoticeKind.PERFORMANCE_WARNING,
+                        "history:" + laboratoryId + ":" + roundCode + ":" + w.kind().name() + ":" + w.measurand(),
+                        laboratoryId, Map.of("summary", w.message(), "link", "/my-laboratory/history"));
+            }
         }
     }
 

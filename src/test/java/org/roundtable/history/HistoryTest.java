@@ -96,6 +96,20 @@ class HistoryTest {
     }
 
     @Test
+    void aWarningFiredByAPublishedRoundReachesTheLaboratoryAsANoticeOnce() {
+        long lab = world.laboratory();
+        long scheme = rounds.scheme();
+        World.Browser member = member(lab);
+        rounds.published(scheme, lab, "18.25", ReportStatus.FINAL); // z = +2.5: questionable, no warning yet
+        assertThat(history(member, "/api/v1/notices", 200).getList("notices.kind")).doesNotContain("performance-warning");
+        rounds.published(scheme, lab, "17.75", ReportStatus.FINAL); // z = −2.5: the second questionable in a row
+        JsonPath notices = history(member, "/api/v1/notices", 200);
+        assertThat(notices.getList("notices.kind")).containsOnlyOnce("performance-warning");
+        assertThat(notices.getString("notices.find { it.kind == 'performance-warning' }.link"))
+                .isEqualTo("/my-laboratory/history");
+    }
+
+    @Test
     void filtersByMeasurandMethodAndPeriod() {
         long lab = world.laboratory();
         long scheme = rounds.scheme();
