@@ -42,6 +42,7 @@ public class PrecisionExperimentService {
     private static final Set<RoundState> OPEN_TO_DECISIONS = Set.of(RoundState.CLOSED, RoundState.EVALUATING);
 
     private final RoundService roundService;
+    private final org.roundtable.account.CurrentUser currentUser;
     private final RoundAccess rounds;
     private final SubmissionQueries submissions;
     private final EntityManager entityManager;
@@ -50,8 +51,10 @@ public class PrecisionExperimentService {
     private final Clock clock;
 
     public PrecisionExperimentService(RoundService roundService, RoundAccess rounds, SubmissionQueries submissions,
-                                      EntityManager entityManager, AuditTrail audit, ObjectMapper mapper, Clock clock) {
+                                      EntityManager entityManager, AuditTrail audit, ObjectMapper mapper, Clock clock,
+                                      org.roundtable.account.CurrentUser currentUser) {
         this.roundService = roundService;
+        this.currentUser = currentUser;
         this.rounds = rounds;
         this.submissions = submissions;
         this.entityManager = entityManager;
@@ -358,6 +361,18 @@ public class PrecisionExperimentService {
         }
         return rounds.precisionStudy(roundId)
                 .orElseThrow(() -> new DomainException.Conflict("The precision experiment's plan is not frozen yet."));
+    }
+
+    /**
+     * The calling laboratory must be enrolled in the precision experiment; otherwise the same 404 as for a study
+     * that does not exist (no existence oracle).
+     */
+    @Transactional
+    public void requireEnrolled(long roundId) {
+        Long lab = currentUser.laboratoryId().orElse(null);
+        if (!rounds.isPrecisionExperiment(roundId) || lab == null || rounds.participantCode(roundId, lab).isEmpty()) {
+            throw new DomainException.NotFound("The precision experiment");
+        }
     }
 
     private void requireOpenToDecisions(long roundId) {

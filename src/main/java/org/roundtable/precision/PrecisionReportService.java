@@ -153,10 +153,7 @@ public class PrecisionReportService {
         if (currentUser.is(org.roundtable.account.Role.COORDINATOR)) {
             return;
         }
-        Long lab = currentUser.laboratoryId().orElse(null);
-        if (lab == null || rounds.participantCode(roundId, lab).isEmpty()) {
-            throw new DomainException.NotFound("The report");
-        }
+        studies.requireEnrolled(roundId);
     }
 
     private PrecisionReportDocument.Content content(RoundAccess.PrecisionStudy study, PrecisionExperimentService.Run run,

@@ -153,7 +153,7 @@ public class PrecisionResource {
     @Path("{studyId}/my-results")
     @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
     public List<SubmissionQueries.ReplicateRow> mine(@PathParam("studyId") long studyId) {
-        studies.study(studyId);
+        studies.requireEnrolled(studyId);
         return submissions.myReplicates(studyId);
     }
 }
