@@ -352,6 +352,59 @@ public class PrecisionExperimentService {
         return new Inputs(design, cells, exclusions, Secrets.sha256Hex(hashed.toString()));
     }
 
+    // ---- feeding a proficiency round's σpt ------------------------------------------------------------------
+
+    /**
+     * The precision values of a published study, in the fields of a proficiency round's plan for the σpt method
+     * {@code PRECISION_DATA} (decimal strings in the measurand's unit): at a level of the study, or, with
+     * {@code atLevel} null and a value {@code m}, from the study's fitted relationships at m.
+     */
+    public record PrecisionData(String sourceStudy, String reportId, String measurand, String unit, String basis,
+                                String sigmaPtMethod, String reproducibilitySd, String repeatabilitySd) {
+    }
+
+    /** Only from a study whose final report is issued (409 before). */
+    @Transactional
+    public PrecisionData precisionData(long roundId, String measurand, String atLevel, String m) {
+        RoundAccess.PrecisionStudy study = study(roundId);
+        if (!Set.of("FINAL_ISSUED", "AMENDED", "ARCHIVED").contains(study.state())) {
+            throw new DomainException.Conflict("Precision values are taken from a study whose final report is issued.");
+        }
+        String reportId = study.roundCode() + "-PRECISION";
+        Run run = latestRun(roundId).orElseThrow(() -> new DomainException.Conflict("The study has no evaluation run."));
+        PrecisionCalculation.MeasurandResult result = run.study().measurands().stream()
+                .filter(x -> x.measurand().equals(measurand)).findFirst()
+                .orElseThrow(() -> new DomainException.BadRequest("The study has no measurand '" + measurand + "'."));
+        int digits = study.reportingDigits().getOrDefault(measurand, 4) + 2;
+        if (atLevel != null && !atLevel.isBlank()) {
+            PrecisionCalculation.LevelResult level = result.levels().stream().filter(l -> l.level().equals(atLevel.strip()))
+                    .findFirst().orElseThrow(() -> new DomainException.BadRequest("The study has no level '" + atLevel + "'."));
+            return new PrecisionData(study.roundCode(), reportId, measurand, result.unit(), "level " + level.level()
+                    + " (m = " + org.roundtable.platform.NumberFormats.plain(level.generalMean(), digits) + ")",
+                    "PRECISION_DATA", org.roundtable.platform.NumberFormats.plain(level.reproducibilitySd(), digits),
+                    org.roundtable.platform.NumberFormats.plain(level.repeatabilitySd(), digits));
+        }
+        double at;
+        try {
+            at = Double.parseDouble(m == null ? "" : m.strip());
+        } catch (NumberFormatException e) {
+            throw new DomainException.BadRequest("Give a level of the study, or a value m for the fitted relationships.");
+        }
+        PrecisionCalculation.FitResult r = PrecisionReportDocument.best(result.repeatabilityFits());
+        PrecisionCalculation.FitResult bigR = PrecisionReportDocument.best(result.reproducibilityFits());
+        if (r == null || bigR == null) {
+            throw new DomainException.Conflict("The study fitted no precision–level relationship; choose one of its levels.");
+        }
+        double lo = result.levels().stream().mapToDouble(PrecisionCalculation.LevelResult::generalMean).min().orElse(0);
+        double hi = result.levels().stream().mapToDouble(PrecisionCalculation.LevelResult::generalMean).max().orElse(0);
+        if (at < lo || at > hi) {
+            throw new DomainException.BadRequest("m lies outside the levels studied; the relationships hold between them only.");
+        }
+        return new PrecisionData(study.roundCode(), reportId, measurand, result.unit(), "fitted at m = " + m.strip(),
+                "PRECISION_DATA", org.roundtable.platform.NumberFormats.plain(PrecisionReportDocument.predict(bigR, at), digits),
+                org.roundtable.platform.NumberFormats.plain(PrecisionReportDocument.predict(r, at), digits));
+    }
+
     // ---- internals ------------------------------------------------------------------------------------------
 
     /** The study with its frozen plan; 404 for another kind of round or a missing one, 409 before freezing. */

@@ -148,6 +148,20 @@ public class PrecisionResource {
                 "attachment; filename=\"precision-report.pdf\"").build();
     }
 
+    /**
+     * A published study's s_R and s_r for a proficiency round's σpt method "precision data": at a level
+     * ({@code ?measurand=C&level=2}) or from the fitted relationships ({@code ?measurand=C&m=0.45}).
+     */
+    @GET
+    @Path("{studyId}/precision-data")
+    @RolesAllowed(Role.COORDINATOR_NAME)
+    public PrecisionExperimentService.PrecisionData precisionData(@PathParam("studyId") long studyId,
+                                                                  @jakarta.ws.rs.QueryParam("measurand") String measurand,
+                                                                  @jakarta.ws.rs.QueryParam("level") String level,
+                                                                  @jakarta.ws.rs.QueryParam("m") String m) {
+        return studies.precisionData(studyId, measurand, level, m);
+    }
+
     /** A laboratory's own replicates in its current revision. */
     @GET
     @Path("{studyId}/my-results")

@@ -159,6 +159,18 @@ class PrecisionExperimentApiTest {
                 .post("/api/v1/reports/verify");
         assertThat(verified.statusCode()).as(verified.asString()).isEqualTo(200);
         assertThat(verified.asString()).contains(fin.jsonPath().getString("reportId"));
+        // the published s_R and s_r feed a proficiency round's σpt method "precision data"
+        Response data = coordinator.request().queryParam("measurand", "C").queryParam("level", "3")
+                .get("/api/v1/precision-experiments/" + id + "/precision-data");
+        assertThat(data.statusCode()).as(data.asString()).isEqualTo(200);
+        assertThat(data.jsonPath().getString("sigmaPtMethod")).isEqualTo("PRECISION_DATA");
+        // CALC: check_values.py, level 3 without L10, at reporting digits + 2
+        assertThat(Double.parseDouble(data.jsonPath().getString("reproducibilitySd"))).isCloseTo(0.01237928622, within(6e-7));
+        Response fitted = coordinator.request().queryParam("measurand", "C").queryParam("m", "0.5")
+                .get("/api/v1/precision-experiments/" + id + "/precision-data");
+        assertThat(fitted.statusCode()).as(fitted.asString()).isEqualTo(200);
+        assertThat(coordinator.request().queryParam("measurand", "C").queryParam("m", "5")
+                .get("/api/v1/precision-experiments/" + id + "/precision-data").statusCode()).isEqualTo(400);
         // a laboratory not in the study gets nothing, as for a missing one
         World.Browser outsider = world.signIn(world.user("lab-member", world.laboratory()));
         assertThat(outsider.request().get("/api/v1/precision-experiments/" + id + "/report.pdf").statusCode()).isEqualTo(404);

@@ -49,6 +49,11 @@ class PrecisionPagesBrowserTest {
         Browser.waitForUrl(browser, url -> !url.contains("/login"));
     }
 
+    private void scrollTo(String id) {
+        ((org.openqa.selenium.JavascriptExecutor) browser).executeScript(
+                "document.getElementById(arguments[0]).scrollIntoView()", id);
+    }
+
     private void signOut() {
         browser.manage().deleteAllCookies();
     }
@@ -89,6 +94,7 @@ class PrecisionPagesBrowserTest {
         assertThat(level2).contains(study.codes().get("L07")).contains("Cochran: straggler");
         String level3 = browser.findElement(By.id("level-C-3")).getText();
         assertThat(level3).contains("Grubbs single: outlier").contains("12 of 12 laboratories retained");
+        scrollTo("level-C-3");
         Browser.screenshot(browser, "precision/coordinator-first-evaluation");
 
         new Select(browser.findElement(By.id("participantCode"))).selectByValue(study.codes().get("L10"));
@@ -102,6 +108,7 @@ class PrecisionPagesBrowserTest {
         Browser.waitFor(browser, By.cssSelector("p.notice-ok"));
         assertThat(browser.findElement(By.id("level-C-3")).getText()).contains("11 of 12 laboratories retained")
                 .contains("excluded: Wrong calibration standard");
+        scrollTo("decisions");
         Browser.screenshot(browser, "precision/coordinator-after-decision");
 
         // issuing is irreversible: refused without the confirmation box (the browser's required check is bypassed here)
@@ -119,6 +126,10 @@ class PrecisionPagesBrowserTest {
                 .contains("excluded: Wrong calibration standard").contains("Mandel's h by laboratory");
         assertThat(browser.findElements(By.cssSelector("article.precision-report svg")).size()).isGreaterThanOrEqualTo(7);
         Browser.screenshot(browser, "precision/draft-report");
+        ((org.openqa.selenium.JavascriptExecutor) browser).executeScript(
+                "document.querySelectorAll('article.precision-report svg')[4].scrollIntoView()");
+        Thread.sleep(1500); // let Chromium paint the scrolled-to tiles before the picture (not a timing assertion)
+        Browser.screenshot(browser, "precision/draft-report-charts");
         signOut();
 
         signIn(member);
