@@ -257,6 +257,8 @@ final class PrecisionReportDocument {
             CategoryPlot plot = chart.getCategoryPlot();
             plot.setBackgroundPaint(Color.WHITE);
             plot.getRenderer().setSeriesPaint(0, new Color(0x3d, 0x6e, 0x9e));
+            // participant codes are 6 characters: turned labels keep them whole for up to 40 laboratories
+            plot.getDomainAxis().setCategoryLabelPositions(org.jfree.chart.axis.CategoryLabelPositions.UP_45);
             double s = h ? l.hStragglerLine() == null ? 0 : l.hStragglerLine() : l.kStragglerLine();
             double o = h ? l.hOutlierLine() == null ? 0 : l.hOutlierLine() : l.kOutlierLine();
             for (double line : h ? new double[] {s, -s, o, -o} : new double[] {s, o}) {
@@ -366,8 +368,32 @@ final class PrecisionReportDocument {
     private void figure(ReportChart chart) {
         charts.put(chart.key(), chart);
         out.append("<div class=\"figure\">");
-        out.append(pdf ? PdfReportRenderer.chartPlaceholder(chart) : SvgCharts.toSvgElement(chart));
+        out.append(pdf ? PdfReportRenderer.chartPlaceholder(chart) : presentationAttributes(SvgCharts.toSvgElement(chart)));
         out.append("<p class=\"caption\">").append(esc(chart.caption())).append("</p></div>\n");
+    }
+
+    private static final java.util.regex.Pattern STYLE = java.util.regex.Pattern.compile("style='([^']*)'");
+
+    /**
+     * The pages' Content-Security-Policy ({@code style-src 'self'}) drops inline {@code style} attributes, which would
+     * paint every SVG shape black: the chart's styles become SVG presentation attributes instead.
+     */
+    static String presentationAttributes(String svg) {
+        java.util.regex.Matcher m = STYLE.matcher(svg);
+        StringBuilder out = new StringBuilder(svg.length());
+        while (m.find()) {
+            StringBuilder attributes = new StringBuilder();
+            for (String declaration : m.group(1).split(";")) {
+                int colon = declaration.indexOf(':');
+                if (colon > 0) {
+                    attributes.append(attributes.length() == 0 ? "" : " ").append(declaration.substring(0, colon).trim())
+                            .append("=\"").append(declaration.substring(colon + 1).trim().replace("\"", "&quot;")).append('"');
+                }
+            }
+            m.appendReplacement(out, java.util.regex.Matcher.quoteReplacement(attributes.toString()));
+        }
+        m.appendTail(out);
+        return out.toString();
     }
 
     private void row(String label, String html) {
