@@ -73,6 +73,11 @@ public class Round {
     @Column(name = "created_at", nullable = false)
     public OffsetDateTime createdAt;
 
+    /** A proficiency round or a precision experiment; fixed at creation. */
+    @Enumerated(EnumType.STRING)
+    @Column(nullable = false)
+    public RoundKind kind = RoundKind.PROFICIENCY_TEST;
+
     @Version
     public int version;
 

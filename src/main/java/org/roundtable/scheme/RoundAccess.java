@@ -27,9 +27,12 @@ public class RoundAccess {
     private final SchemeService schemes;
     private final QualificationService qualification;
 
+    private final PrecisionPlanStore precisionPlans;
+
     public RoundAccess(EntityManager entityManager, PlanStore plans, SchemeService schemes,
-                       QualificationService qualification) {
+                       QualificationService qualification, PrecisionPlanStore precisionPlans) {
         this.entityManager = entityManager;
+        this.precisionPlans = precisionPlans;
         this.plans = plans;
         this.schemes = schemes;
         this.qualification = qualification;
@@ -51,6 +54,53 @@ public class RoundAccess {
         public ResultTiming timingAt(java.time.Instant at) {
             return ResultTiming.of(RoundState.valueOf(state), resultDeadline.toInstant(), Round.LatePolicy.valueOf(latePolicy), at);
         }
+    }
+
+    /**
+     * A precision experiment as other features see it: its frozen plan (version and content) and the catalogue's
+     * unit and reporting digits of each planned measurand.
+     */
+    public record PrecisionStudy(long roundId, String roundCode, String state, long schemeId, int planVersion,
+                                 String planSha256, PrecisionPlan plan, Map<String, String> units,
+                                 Map<String, Integer> reportingDigits) {
+    }
+
+    /** Whether the round is a precision experiment (empty for a missing round too). */
+    @Transactional
+    public boolean isPrecisionExperiment(long roundId) {
+        Round round = entityManager.find(Round.class, roundId);
+        return round != null && round.kind == RoundKind.PRECISION_EXPERIMENT;
+    }
+
+    /** The precision experiment with its frozen plan; empty for another kind of round or one not yet frozen. */
+    @Transactional
+    public Optional<PrecisionStudy> precisionStudy(long roundId) {
+        Round round = entityManager.find(Round.class, roundId);
+        if (round == null || round.kind != RoundKind.PRECISION_EXPERIMENT) {
+            return Optional.empty();
+        }
+        return precisionPlans.current(roundId).map(v -> {
+            Map<String, String> units = new LinkedHashMap<>();
+            Map<String, Integer> digits = new LinkedHashMap<>();
+            Map<String, Measurand> catalogue = new LinkedHashMap<>();
+            schemes.catalogue(round.schemeId).forEach(m -> catalogue.put(m.element, m));
+            for (String element : v.plan().measurands()) {
+                Measurand m = catalogue.get(element);
+                units.put(element, m == null ? "%" : m.unit);
+                digits.put(element, m == null ? 4 : m.reportingDigits);
+            }
+            return new PrecisionStudy(round.id, round.code, round.state.name(), round.schemeId, v.version(), v.sha256(),
+                    v.plan(), units, digits);
+        });
+    }
+
+    /** The precision experiments of the installation, newest first (ids). */
+    @Transactional
+    public List<Long> precisionExperimentIds() {
+        @SuppressWarnings("unchecked")
+        List<Number> ids = entityManager.createNativeQuery(
+                "SELECT id FROM round WHERE kind = 'PRECISION_EXPERIMENT' ORDER BY created_at DESC, id DESC").getResultList();
+        return ids.stream().map(Number::longValue).toList();
     }
 
     /** A measurand open for results, with what the catalogue says about it. */

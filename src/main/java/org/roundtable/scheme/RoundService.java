@@ -55,6 +55,7 @@ public class RoundService {
     private final SchemeService schemes;
     private final RoundGate gate;
     private final PlanStore plans;
+    private final PrecisionPlanStore precisionPlans;
     private final EnrolmentService enrolments;
     private final QualificationService qualification;
     private final AuditTrail audit;
@@ -67,8 +68,9 @@ public class RoundService {
     public RoundService(RoundRepository rounds, SchemeService schemes, RoundGate gate, PlanStore plans,
                         EnrolmentService enrolments, QualificationService qualification, AuditTrail audit,
                         CurrentUser currentUser, EntityManager entityManager, ObjectMapper mapper, Clock clock,
-                        NoticeService notices) {
+                        NoticeService notices, PrecisionPlanStore precisionPlans) {
         this.rounds = rounds;
+        this.precisionPlans = precisionPlans;
         this.schemes = schemes;
         this.gate = gate;
         this.plans = plans;
@@ -126,6 +128,58 @@ public class RoundService {
         return view(round);
     }
 
+    /**
+     * Creates a precision experiment (ISO 5725-2): a round whose items are the plan's levels, with the plan as
+     * its draft. {@code itemsPerLaboratory} and {@code itemLabels} of the details are ignored.
+     */
+    @Transactional
+    public RoundView createPrecisionExperiment(RoundDetails details, PrecisionPlan plan) {
+        if (details == null || details.schemeId() == null) {
+            throw new DomainException.BadRequest("A precision experiment needs its scheme.");
+        }
+        Scheme scheme = schemes.find(details.schemeId());
+        PrecisionPlan.Canonical canonical = PrecisionPlan.canonical(plan, schemes.catalogue(scheme.id), mapper);
+        Round round = new Round();
+        round.schemeId = scheme.id;
+        round.kind = RoundKind.PRECISION_EXPERIMENT;
+        round.state = RoundState.DRAFT;
+        round.createdAt = now();
+        round.stateChangedAt = round.createdAt;
+        apply(round, new RoundDetails(details.schemeId(), details.code(), details.itemDescription(), 1, List.of("A"),
+                details.dispatchDate(), details.resultDeadline(), details.timeZone(), details.instructions(),
+                details.latePolicy(), details.codeScope()));
+        round.itemsPerLaboratory = canonical.plan().levels().size();
+        round.itemLabels = String.join(",", canonical.plan().levelLabels());
+        round.draftPlan = canonical.json();
+        if (rounds.count("code", round.code) > 0) {
+            throw new DomainException.Conflict("A round with the code " + round.code + " exists already.");
+        }
+        rounds.persist(round);
+        entityManager.flush();
+        audit.record(new AuditTrail.Event(currentUser.actor(), "round.created", "round", round.id.toString(), null,
+                hash(round), "code=" + round.code + " scheme=" + scheme.id + " kind=" + round.kind
+                        + " planSha256=" + canonical.sha256()));
+        return view(round);
+    }
+
+    /** Replaces the draft plan of a precision experiment still in draft; its items follow the levels. */
+    @Transactional
+    public RoundView savePrecisionDraftPlan(long roundId, PrecisionPlan plan) {
+        Round round = gate.enter(roundId, RoundAction.EDIT_DRAFT_PLAN);
+        if (round.kind != RoundKind.PRECISION_EXPERIMENT) {
+            throw new DomainException.NotFound("The precision experiment");
+        }
+        PrecisionPlan.Canonical canonical = PrecisionPlan.canonical(plan, schemes.catalogue(round.schemeId), mapper);
+        String before = hash(round);
+        round.draftPlan = canonical.json();
+        round.itemsPerLaboratory = canonical.plan().levels().size();
+        round.itemLabels = String.join(",", canonical.plan().levelLabels());
+        entityManager.flush();
+        audit.record(new AuditTrail.Event(currentUser.actor(), "round.draft-plan-saved", "round", round.id.toString(),
+                before, hash(round), "planSha256=" + canonical.sha256()));
+        return view(round);
+    }
+
     /** Changes a draft round's details (the scheme stays). */
     @Transactional
     public RoundView update(long roundId, RoundDetails details) {
@@ -135,7 +189,17 @@ public class RoundService {
         }
         String before = hash(round);
         String oldCode = round.code;
-        apply(round, details);
+        int items = round.itemsPerLaboratory;
+        String labels = round.itemLabels;
+        apply(round, round.kind == RoundKind.PRECISION_EXPERIMENT
+                ? new RoundDetails(details.schemeId(), details.code(), details.itemDescription(), 1, List.of("A"),
+                        details.dispatchDate(), details.resultDeadline(), details.timeZone(), details.instructions(),
+                        details.latePolicy(), details.codeScope()) : details);
+        if (round.kind == RoundKind.PRECISION_EXPERIMENT) {
+            // a precision experiment's items are its levels: they change with the plan only
+            round.itemsPerLaboratory = items;
+            round.itemLabels = labels;
+        }
         if (!round.code.equals(oldCode) && rounds.count("code = ?1 and id <> ?2", round.code, round.id) > 0) {
             throw new DomainException.Conflict("A round with the code " + round.code + " exists already.");
         }
@@ -242,6 +306,14 @@ public class RoundService {
             case FREEZE_PLAN -> {
                 if (round.draftPlan == null) {
                     throw new DomainException.Conflict("Write and save the evaluation plan before freezing it.");
+                }
+                if (round.kind == RoundKind.PRECISION_EXPERIMENT) {
+                    PrecisionPlan.Canonical precision = PrecisionPlan.canonical(PrecisionPlan.read(round.draftPlan, mapper),
+                            schemes.catalogue(round.schemeId), mapper);
+                    PrecisionPlanStore.Version v = precisionPlans.append(round.id, precision, "Frozen before enrolment",
+                            currentUser.actor().name(), now());
+                    detail = "planVersion=1 planSha256=" + v.sha256();
+                    break;
                 }
                 PlanDocument.Canonical canonical = canonical(round, PlanDocument.read(round.draftPlan, mapper));
                 PlanStore.PlanVersion v = plans.append(round.id, canonical, "Frozen before enrolment", currentUser.actor().name(), now());
@@ -416,6 +488,9 @@ public class RoundService {
         fields.put("codeScope", r.codeScope);
         fields.put("state", r.state);
         fields.put("draftPlan", r.draftPlan);
+        if (r.kind == RoundKind.PRECISION_EXPERIMENT) {
+            fields.put("kind", r.kind);
+        }
         return ObjectHash.of(fields);
     }
 

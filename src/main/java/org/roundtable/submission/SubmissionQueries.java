@@ -129,4 +129,47 @@ public class SubmissionQueries {
         return new SubmissionViews.Revision(revision, (String) head[1], head[2].toString().strip(), (String) head[3],
                 Timestamps.utc(head[4]), (String) head[5], (Boolean) head[6], (String) head[7], results);
     }
+
+    /**
+     * A replicate result of a precision experiment in a laboratory's current revision.
+     *
+     * @param value the number in the measurand's unit
+     */
+    public record ReplicateRow(long laboratoryId, int revision, String element, String level, int replicate,
+                               String valueAsReported, String unitAsReported, BigDecimal value) {
+    }
+
+    /**
+     * Every laboratory's replicate results of a precision experiment, from its current revision (for the
+     * evaluation and the coordinator's pages; the caller checks the role), ordered by laboratory, element, level and
+     * replicate.
+     */
+    @Transactional
+    public List<ReplicateRow> currentReplicates(long roundId) {
+        return replicates(roundId, null);
+    }
+
+    /** The calling laboratory's own replicate results of its current revision. */
+    @Transactional
+    public List<ReplicateRow> myReplicates(long roundId) {
+        long laboratoryId = currentUser.requireLaboratoryId();
+        rounds.participantCode(roundId, laboratoryId).orElseThrow(() -> new DomainException.NotFound("The round"));
+        return replicates(roundId, laboratoryId);
+    }
+
+    private List<ReplicateRow> replicates(long roundId, Long laboratoryId) {
+        @SuppressWarnings("unchecked")
+        List<Object[]> rows = entityManager.createNativeQuery("""
+                SELECT s.laboratory_id, v.revision, p.element, p.level_label, p.replicate, p.value_as_reported,
+                       p.unit_as_reported, p.value
+                  FROM submission s
+                  JOIN submission_revision v ON v.submission_id = s.id AND v.revision = s.current_revision
+                  JOIN precision_replicate p ON p.revision_id = v.id
+                 WHERE s.round_id = :r AND (CAST(:l AS bigint) IS NULL OR s.laboratory_id = :l)
+                 ORDER BY s.laboratory_id, p.element, p.level_label, p.replicate
+                """).setParameter("r", roundId).setParameter("l", laboratoryId).getResultList();
+        return rows.stream().map(r -> new ReplicateRow(((Number) r[0]).longValue(), ((Number) r[1]).intValue(),
+                (String) r[2], (String) r[3], ((Number) r[4]).intValue(), (String) r[5], (String) r[6],
+                (BigDecimal) r[7])).toList();
+    }
 }

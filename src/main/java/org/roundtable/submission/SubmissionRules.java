@@ -43,6 +43,20 @@ public class SubmissionRules {
         return new UploadRules(rules, window.itemLabels(), MAXIMUM_REPLICATES);
     }
 
+    /** The intake rules of a precision experiment, or empty for another kind of round. */
+    public java.util.Optional<org.roundtable.submission.intake.PrecisionIntake.Rules> forPrecisionExperiment(long roundId) {
+        if (!rounds.isPrecisionExperiment(roundId)) {
+            return java.util.Optional.empty();
+        }
+        RoundAccess.PrecisionStudy study = rounds.precisionStudy(roundId)
+                .orElseThrow(() -> new DomainException.Conflict("The precision experiment has no frozen plan."));
+        java.util.Map<String, MassFractionUnit> units = new java.util.LinkedHashMap<>();
+        study.units().forEach((element, unit) -> units.put(element, MassFractionUnit.fromSymbol(unit)
+                .orElseThrow(() -> new IllegalStateException("catalogue unit " + unit))));
+        return java.util.Optional.of(new org.roundtable.submission.intake.PrecisionIntake.Rules(
+                study.plan().levelLabels(), units, study.plan().replicates()));
+    }
+
     static MeasurandRule rule(RoundAccess.OpenMeasurand m) {
         MassFractionUnit unit = MassFractionUnit.fromSymbol(m.unit())
                 .orElseThrow(() -> new IllegalStateException("catalogue unit " + m.unit()));

@@ -14,7 +14,10 @@ import org.roundtable.platform.IdempotencyStore;
 import org.roundtable.platform.Secrets;
 import org.roundtable.scheme.ResultTiming;
 import org.roundtable.scheme.RoundAccess;
+import org.roundtable.submission.intake.Detection;
 import org.roundtable.submission.intake.IntakeResult;
+import org.roundtable.submission.intake.IntakeWarning;
+import org.roundtable.submission.intake.PrecisionIntake;
 import org.roundtable.submission.intake.ReportedNumber;
 import org.roundtable.submission.intake.ReportedResult;
 import org.roundtable.submission.intake.ResultIntake;
@@ -68,6 +71,15 @@ public class SubmissionService {
     private final Clock clock;
     private final byte[] fingerprintKey;
     private final ResultIntake intake = new ResultIntake();
+    private final PrecisionIntake precisionIntake = new PrecisionIntake();
+
+    /**
+     * What a validated upload stores, whatever the kind of round: the canonical payload and its hash, the hash of the
+     * values alone, the warnings, how the file was read, how many results, and the writer of its result rows.
+     */
+    private record Payload(String canonicalJson, String sha256, String valuesHash, List<IntakeWarning> warnings,
+                           Detection detection, int count, java.util.function.LongConsumer rows) {
+    }
 
     public SubmissionService(RoundAccess rounds, SubmissionRules rules, IdempotencyStore idempotency, AuditTrail audit,
                              CurrentUser currentUser, EntityManager entityManager, ObjectMapper mapper,
@@ -104,7 +116,7 @@ public class SubmissionService {
     SubmissionViews.Receipt submitFor(long laboratoryId, long roundId, Upload upload, boolean confirmWarnings,
                                       String idempotencyKey, String clientAddress) {
         rounds.participantCode(roundId, laboratoryId).orElseThrow(() -> new DomainException.NotFound("The round"));
-        IntakeResult.Accepted accepted = validate(roundId, upload, confirmWarnings);
+        Payload accepted = validate(roundId, upload, confirmWarnings);
         String requestHash = Secrets.sha256Hex(roundId + "\n" + upload.channel() + "\n" + Secrets.sha256Hex(upload.content()));
         return QuarkusTransaction.requiringNew().call(() -> {
             RoundAccess.SubmissionWindow window = rounds.lockForSubmission(roundId);
@@ -146,7 +158,7 @@ public class SubmissionService {
         }
         rounds.participantCode(roundId, laboratoryId).orElseThrow(() -> new DomainException.NotFound("The laboratory's submission"));
         Upload upload = new Upload(Channel.CORRECTION, UploadFormat.JSON, json, null, null);
-        IntakeResult.Accepted accepted = validate(roundId, upload, true);
+        Payload accepted = validate(roundId, upload, true);
         return QuarkusTransaction.requiringNew().call(() -> {
             RoundAccess.SubmissionWindow window = rounds.lockForSubmission(roundId);
             if (!window.closedBeforeIssue()) {
@@ -157,30 +169,53 @@ public class SubmissionService {
         });
     }
 
-    private IntakeResult.Accepted validate(long roundId, Upload upload, boolean confirmWarnings) {
+    private Payload validate(long roundId, Upload upload, boolean confirmWarnings) {
+        Optional<PrecisionIntake.Rules> precision = rules.forPrecisionExperiment(roundId);
+        if (precision.isPresent()) {
+            PrecisionIntake.Outcome outcome = precisionIntake.read(upload.content(), upload.format(), precision.get());
+            if (outcome instanceof PrecisionIntake.Rejected rejected) {
+                throw refused(rejected.problems(), rejected.detection());
+            }
+            PrecisionIntake.Accepted ok = (PrecisionIntake.Accepted) outcome;
+            confirm(ok.warnings(), confirmWarnings);
+            return new Payload(ok.canonicalJson(), ok.sha256(), Secrets.sha256Hex(ok.replicates().stream()
+                    .map(r -> r.measurand() + "|" + r.level() + "|" + r.replicate() + "|"
+                            + r.value().stripTrailingZeros().toPlainString()).sorted().collect(Collectors.joining("\n"))),
+                    ok.warnings(), ok.detection(), ok.replicates().size(), id -> insertReplicates(id, ok.replicates()));
+        }
         UploadRules uploadRules = rules.forRound(roundId);
         IntakeResult result = intake.read(upload.content(), upload.format(), uploadRules);
         if (result instanceof IntakeResult.Rejected rejected) {
-            List<DomainException.Detail> details = rejected.problems().stream()
-                    .map(p -> new DomainException.Detail(p.row() == 0 ? null : p.row(), p.column(), p.value(), p.key(), p.message()))
-                    .toList();
-            throw new DomainException.Unprocessable("The upload was not accepted: " + details.size()
-                    + (details.size() == 1 ? " problem" : " problems") + ". Nothing was saved. Read as "
-                    + describe(rejected.detection()) + ".", details);
+            throw refused(rejected.problems(), rejected.detection());
         }
         IntakeResult.Accepted accepted = (IntakeResult.Accepted) result;
-        if (!accepted.warnings().isEmpty() && !confirmWarnings) {
-            List<DomainException.Detail> details = accepted.warnings().stream()
+        confirm(accepted.warnings(), confirmWarnings);
+        return new Payload(accepted.canonicalJson(), accepted.sha256(), valuesHash(accepted.results()),
+                accepted.warnings(), accepted.detection(), accepted.results().size(),
+                id -> insertResults(id, accepted.results()));
+    }
+
+    private static DomainException refused(List<org.roundtable.submission.intake.IntakeProblem> problems, Detection detection) {
+        List<DomainException.Detail> details = problems.stream()
+                .map(p -> new DomainException.Detail(p.row() == 0 ? null : p.row(), p.column(), p.value(), p.key(), p.message()))
+                .toList();
+        return new DomainException.Unprocessable("The upload was not accepted: " + details.size()
+                + (details.size() == 1 ? " problem" : " problems") + ". Nothing was saved. Read as "
+                + describe(detection) + ".", details);
+    }
+
+    private static void confirm(List<IntakeWarning> warnings, boolean confirmWarnings) {
+        if (!warnings.isEmpty() && !confirmWarnings) {
+            List<DomainException.Detail> details = warnings.stream()
                     .map(w -> new DomainException.Detail(w.row() == 0 ? null : w.row(), w.column(), w.value(),
                             "warning." + w.key(), w.message()))
                     .toList();
             throw new DomainException.Unprocessable("Please check these values and confirm them. Nothing was saved yet.",
                     details);
         }
-        return accepted;
     }
 
-    private SubmissionViews.Receipt store(long roundId, long laboratoryId, Upload upload, IntakeResult.Accepted accepted,
+    private SubmissionViews.Receipt store(long roundId, long laboratoryId, Upload upload, Payload accepted,
                                          boolean late, OffsetDateTime now, String correctionReason, String evidence,
                                          String clientFingerprint) {
         entityManager.createNativeQuery("""
@@ -193,7 +228,7 @@ public class SubmissionService {
         long submissionId = ((Number) submission[0]).longValue();
         int revision = ((Number) submission[1]).intValue() + 1;
         String receiptId = "RT-" + Secrets.randomToken(16);
-        String valuesHash = valuesHash(accepted.results());
+        String valuesHash = accepted.valuesHash();
         List<SubmissionViews.Warning> warnings = accepted.warnings().stream()
                 .map(w -> new SubmissionViews.Warning(w.row(), w.column(), w.value(), w.key(), w.message())).toList();
         long revisionId = ((Number) entityManager.createNativeQuery("""
@@ -214,7 +249,7 @@ public class SubmissionService {
                 .setParameter("fingerprint", clientFingerprint).setParameter("reason", correctionReason)
                 .setParameter("evidence", evidence)
                 .getSingleResult()).longValue();
-        insertResults(revisionId, accepted.results());
+        accepted.rows().accept(revisionId);
         if (upload.channel() == Channel.CSV || upload.channel() == Channel.XLSX) {
             entityManager.createNativeQuery("""
                     INSERT INTO submission_upload (revision_id, file_name, content_type, size_bytes, sha256, content)
@@ -234,10 +269,33 @@ public class SubmissionService {
                 correctionReason == null ? "submission.revision-accepted" : "submission.corrected",
                 "submission", submissionId + "/" + revision, null, accepted.sha256(),
                 "round=" + roundId + " laboratory=" + laboratoryId + " channel=" + upload.channel()
-                        + " results=" + accepted.results().size() + (late ? " late" : "")
+                        + " results=" + accepted.count() + (late ? " late" : "")
                         + (correctionReason == null ? "" : " reason=" + correctionReason)));
         return new SubmissionViews.Receipt(submissionId, revision, receiptId, accepted.sha256(), now, late,
                 upload.channel().name(), warnings, describe(accepted.detection()));
+    }
+
+    /** One batched insert for all replicate results of a precision experiment's revision. */
+    private void insertReplicates(long revisionId, List<PrecisionIntake.Replicate> replicates) {
+        entityManager.unwrap(Session.class).doWork(connection -> {
+            try (PreparedStatement insert = connection.prepareStatement("""
+                    INSERT INTO precision_replicate (revision_id, element, level_label, replicate, value_as_reported,
+                           unit_as_reported, value)
+                    VALUES (?, ?, ?, ?, ?, ?, ?)
+                    """)) {
+                for (PrecisionIntake.Replicate r : replicates) {
+                    insert.setLong(1, revisionId);
+                    insert.setString(2, r.measurand());
+                    insert.setString(3, r.level());
+                    insert.setInt(4, r.replicate());
+                    insert.setString(5, r.reported().asReported());
+                    insert.setString(6, r.unit().symbol());
+                    insert.setBigDecimal(7, r.value());
+                    insert.addBatch();
+                }
+                insert.executeBatch();
+            }
+        });
     }
 
     /** One batched insert for all results of a revision (no per-row round trips). */

@@ -271,6 +271,17 @@ class AuthorizationMatrixTest {
         if (resolved.contains("{schemeId}")) {
             resolved = resolved.replace("{schemeId}", Long.toString(world.scheme()));
         }
+        if (resolved.contains("{studyId}")) {
+            long study = precisionStudy();
+            resolved = resolved.replace("{studyId}", Long.toString(study));
+            if (resolved.contains("{exclusionId}")) {
+                long exclusion = world.insert("INSERT INTO precision_exclusion (round_id, action, laboratory_id, element, "
+                        + "level_label, reason, recorded_by, recorded_at) VALUES (?, 'MARK', ?, 'C', '1', 'matrix', 'matrix', now()) "
+                        + "RETURNING id", study, labA);
+                resolved = resolved.replace("{exclusionId}", Long.toString(exclusion));
+            }
+            resolved = resolved.replace("{step}", "final");
+        }
         if (resolved.contains("{roundId}")) {
             // a round where the endpoints can act: items out, laboratory A enrolled (laboratory B is not)
             // results need a round open for results; other round endpoints a dispatched one
@@ -352,6 +363,38 @@ class AuthorizationMatrixTest {
             throw new IllegalStateException("no resolver for a placeholder in " + path + "; add one to AuthorizationMatrixTest");
         }
         return resolved;
+    }
+
+    /**
+     * A precision experiment being evaluated, laboratory A enrolled (not B), with an evaluation run and an issued
+     * draft report, written straight into the tables.
+     */
+    private long precisionStudy() {
+        long scheme = world.insert("INSERT INTO scheme (name, material_family, created_at) VALUES (?, 'LOW_ALLOY_STEEL', now()) RETURNING id",
+                World.unique("Matrix study"));
+        world.insert("INSERT INTO measurand (scheme_id, element, unit, reporting_digits, method_groups) "
+                + "VALUES (?, 'C', '%', 4, 'COMBUSTION') RETURNING id", scheme);
+        String plan = "{\"format\":\"roundtable-precision-plan-1\",\"levels\":[{\"label\":\"1\",\"material\":\"Steel chips\"}],"
+                + "\"measurands\":[\"C\"],\"replicates\":2,\"stragglerLevel\":\"0.05\",\"outlierLevel\":\"0.01\",\"fitRelationship\":true}";
+        long round = world.insert("INSERT INTO round (scheme_id, code, kind, item_description, items_per_laboratory, item_labels, "
+                + "dispatch_date, result_deadline, deadline_time_zone, instructions, late_policy, state, state_changed_at, created_at) "
+                + "VALUES (?, ?, 'PRECISION_EXPERIMENT', 'Steel chips', 1, '1', current_date, now() + interval '30 days', 'UTC', "
+                + "'Twice each level.', 'REFUSE', 'EVALUATING', now(), now()) RETURNING id", scheme, World.unique("MX").toUpperCase());
+        world.insert("INSERT INTO precision_plan (round_id, plan_version, canonical_json, sha256, reason, frozen_by, frozen_at) "
+                + "VALUES (?, 1, ?, ?, 'matrix', 'matrix', now()) RETURNING round_id", round, plan,
+                org.roundtable.platform.Secrets.sha256Hex(plan));
+        world.insert("INSERT INTO round_participant (round_id, laboratory_id, participant_code, enrolled_at, enrolled_by) "
+                + "VALUES (?, ?, 'MTRXAB', now(), 'matrix') RETURNING id", round, labA);
+        long run = world.insert("INSERT INTO precision_evaluation_run (round_id, run_number, plan_version, inputs_sha256, result_json, "
+                + "created_by, created_at) VALUES (?, 1, 1, ?, ?, 'matrix', now()) RETURNING id", round,
+                org.roundtable.platform.Secrets.sha256Hex("none"), "{\"replicates\":2,\"stragglerLevel\":0.05,"
+                        + "\"outlierLevel\":0.01,\"fitRelationship\":true,\"measurands\":[]}");
+        byte[] bytes = World.unique("precision-document").getBytes(java.nio.charset.StandardCharsets.UTF_8);
+        long document = world.insert("INSERT INTO issued_document (report_id, kind, status, round_id, content_type, bytes, sha256, "
+                + "issued_at, issued_by) VALUES (?, 'ROUND', 'PRELIMINARY', ?, 'application/pdf', ?, ?, now(), 'matrix') RETURNING id",
+                World.unique("MATRIX-P"), round, bytes, org.roundtable.platform.Secrets.sha256Hex(bytes));
+        world.insert("INSERT INTO precision_report (document_id, run_id) VALUES (?, ?) RETURNING document_id", document, run);
+        return round;
     }
 
     private static String withMissingIds(String path) {

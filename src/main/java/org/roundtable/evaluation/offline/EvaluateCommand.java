@@ -118,6 +118,9 @@ public final class EvaluateCommand {
      * @return exit code: 0 done, 2 bad input
      */
     public static int run(String[] args, PrintStream out, PrintStream err) {
+        if (args.length > 0 && PrecisionEvaluateCommand.MODE.equals(args[0])) {
+            return PrecisionEvaluateCommand.run(java.util.Arrays.copyOfRange(args, 1, args.length), out, err);
+        }
         try {
             Map<String, Double> sigmas = new LinkedHashMap<>();
             Map<String, Assigned> assigned = new LinkedHashMap<>();

@@ -115,6 +115,22 @@ public final class PdfReportRenderer {
                 report.ownParticipantCode(), out, progress);
     }
 
+    /**
+     * Renders a document of another kind (a precision experiment's report): well-formed XHTML whose charts are
+     * {@link #chartPlaceholder(ReportChart)} elements, drawn as vector graphics like the round report's.
+     */
+    public byte[] renderDocument(String xhtml, Map<String, ReportChart> charts) {
+        ByteArrayOutputStream out = new ByteArrayOutputStream(256 * 1024);
+        write(new ReportDocument.Built(xhtml, charts), null, null, out, RenderProgress.NONE);
+        return out.toByteArray();
+    }
+
+    /** The element {@link #renderDocument} replaces by the chart. */
+    public static String chartPlaceholder(ReportChart chart) {
+        return "<object type=\"" + ReportDocument.CHART_OBJECT_TYPE + "\" data-chart=\"" + chart.key()
+                + "\" style=\"width: " + chart.width() + "px; height: " + chart.height() + "px;\"></object>";
+    }
+
     private void write(ReportDocument.Built built, RoundReport report, String ownCode, OutputStream out,
             RenderProgress progress) {
         ChartDrawer drawer = new ChartDrawer(built.charts(), progress);
@@ -136,7 +152,9 @@ public final class PdfReportRenderer {
             progress.progress(0.3, "drawing pages");
             renderer.createPDFWithoutClosing();
             PDDocument document = renderer.getPdfDocument();
-            fixMetadata(document, report, ownCode, built.xhtml());
+            if (report != null) {
+                fixMetadata(document, report, ownCode, built.xhtml());
+            }
             progress.progress(0.97, "writing the file");
             document.save(out);
         } catch (IOException e) {

@@ -23,4 +23,17 @@ public enum OutlierVerdict {
         }
         return statistic <= critical1 ? STRAGGLER : OUTLIER;
     }
+
+    /** Verdict for a test where small values are significant (Grubbs double). */
+    static OutlierVerdict lowerTail(double statistic, double critical5, double critical1) {
+        if (statistic >= critical5) {
+            return ACCEPTED;
+        }
+        return statistic >= critical1 ? STRAGGLER : OUTLIER;
+    }
+
+    /** True for a straggler or an outlier. */
+    public boolean flagged() {
+        return this == STRAGGLER || this == OUTLIER;
+    }
 }

@@ -92,12 +92,20 @@ public enum IntakeKey {
     REPLICATES_COUNT_MISMATCH("replicates.count-mismatch",
             "The number of replicate values differs from the replicate count."),
 
+    // precision experiments (ISO 5725-2): replicate rows
+    LEVEL_UNKNOWN("level.unknown", "The level is not one of this study's levels."),
+    REPLICATE_OUT_OF_RANGE("replicate.out-of-range", "The replicate number is outside 1 to the study's replicates."),
+    ROW_DUPLICATE_REPLICATE("row.duplicate-replicate", "The same replicate is reported twice for a level and measurand."),
+    REPLICATES_WRONG_NUMBER("replicates.wrong-number",
+            "A level and measurand has a different number of replicates than the study asks for."),
+
     // warnings: the laboratory confirms them, the upload is not rejected
     WARNING_OUTSIDE_EXPECTED_RANGE("value.outside-expected-range", "The value lies outside the expected range."),
     WARNING_UNCERTAINTY_LARGER_THAN_VALUE("uncertainty.larger-than-value",
             "The expanded uncertainty is larger than the value."),
     WARNING_REPORTING_DIGITS("value.reporting-digits", "The value has a different number of decimals than requested."),
-    WARNING_MEASURAND_NOT_REPORTED("measurand.not-reported", "A measurand of the round was not reported.");
+    WARNING_MEASURAND_NOT_REPORTED("measurand.not-reported", "A measurand of the round was not reported."),
+    WARNING_LEVEL_NOT_REPORTED("level.not-reported", "A level and measurand of the study was not reported.");
 
     private final String key;
     private final String defaultMessage;

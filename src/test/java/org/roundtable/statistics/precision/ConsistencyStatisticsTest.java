@@ -98,8 +98,8 @@ class ConsistencyStatisticsTest {
             s0 += (v - mean) * (v - mean);
         }
         ConsistencyStatistics.Grubbs g = ConsistencyStatistics.grubbs(x);
-        assertEquals(10 / s0, g.doubleHigh(), 1e-12);
-        assertTrue(g.doubleHigh() < g.doubleLow());
+        assertEquals(10 / s0, g.doubleHigh().statistic(), 1e-12);
+        assertTrue(g.doubleHigh().statistic() < g.doubleLow().statistic());
         assertEquals(OutlierVerdict.OUTLIER, ConsistencyStatistics.grubbs(
                 new double[] {10.0, 10.1, 9.9, 10.05, 9.95, 10.02, 9.98, 10.03, 9.97, 14.0}).singleHigh().verdict());
         assertNull(ConsistencyStatistics.grubbs(new double[] {1, 2, 4}).doubleHigh());
