@@ -60,10 +60,13 @@ public class RoundService {
     private final EntityManager entityManager;
     private final ObjectMapper mapper;
     private final Clock clock;
+    private final RoundResults results;
 
     public RoundService(RoundRepository rounds, SchemeService schemes, RoundGate gate, PlanStore plans,
                         EnrolmentService enrolments, QualificationService qualification, AuditTrail audit,
-                        CurrentUser currentUser, EntityManager entityManager, ObjectMapper mapper, Clock clock) {
+                        CurrentUser currentUser, EntityManager entityManager, ObjectMapper mapper, Clock clock,
+                        RoundResults results) {
+        this.results = results;
         this.rounds = rounds;
         this.schemes = schemes;
         this.gate = gate;
@@ -222,7 +225,19 @@ public class RoundService {
     /** Takes a lifecycle step; refuses, with the state named, a step that is not possible now. */
     @Transactional
     public RoundView transition(long roundId, String actionName) {
+        return transition(roundId, actionName, null);
+    }
+
+    /**
+     * Takes a lifecycle step; {@code reason} is recorded in the audit trail. Cancelling a round that holds
+     * laboratories' results needs a reason.
+     */
+    @Transactional
+    public RoundView transition(long roundId, String actionName, String reason) {
         RoundAction action = parseAction(actionName);
+        if (reason != null && reason.length() > 1000) {
+            throw new DomainException.BadRequest("The reason is longer than 1000 characters.");
+        }
         if (!action.changesState()) {
             throw new DomainException.BadRequest(RoundStateMachine.describe(action) + " is not a lifecycle step.");
         }
@@ -249,6 +264,14 @@ public class RoundService {
                             + ": upload homogeneity data that passes, or record a decision with a reason.");
                 }
             }
+            case CANCEL -> {
+                long holding = results.laboratoriesWithResults(round.id);
+                if (holding > 0 && (reason == null || reason.isBlank())) {
+                    throw new DomainException.BadRequest("The round holds results from " + holding
+                            + (holding == 1 ? " laboratory" : " laboratories") + ": give a reason for cancelling it.");
+                }
+                detail = "laboratoriesWithResults=" + holding;
+            }
             case DISPATCH_ITEMS -> {
                 int items = enrolments.dispatchAll(round);
                 if (items == 0) {
@@ -266,7 +289,8 @@ public class RoundService {
         entityManager.flush();
         audit.record(new AuditTrail.Event(currentUser.actor(), "round." + action.name().toLowerCase(Locale.ROOT)
                 .replace('_', '-'), "round", round.id.toString(), before, hash(round),
-                "from=" + from + " to=" + next + (detail == null ? "" : " " + detail)));
+                "from=" + from + " to=" + next + (detail == null ? "" : " " + detail)
+                        + (reason == null || reason.isBlank() ? "" : " reason=" + reason.strip())));
         return view(round);
     }
 
