@@ -14,6 +14,8 @@ import jakarta.ws.rs.Produces;
 import jakarta.ws.rs.QueryParam;
 import jakarta.ws.rs.core.MediaType;
 import jakarta.ws.rs.core.Response;
+import org.roundtable.platform.Confirmation;
+import org.roundtable.platform.Confirmations;
 import org.roundtable.platform.DomainException;
 import org.roundtable.platform.FormActions;
 
@@ -58,10 +60,12 @@ public class AccountPages {
     private final CurrentUser currentUser;
     private final TwoStepService twoStep;
     private final HttpServerRequest request;
+    private final Confirmations confirmations;
 
     public AccountPages(AccountService accounts, LaboratoryService laboratories, ApiTokenService tokens,
                         AuditorGrantService grants, CurrentUser currentUser, TwoStepService twoStep,
-                        HttpServerRequest request) {
+                        HttpServerRequest request, Confirmations confirmations) {
+        this.confirmations = confirmations;
         this.accounts = accounts;
         this.laboratories = laboratories;
         this.tokens = tokens;
@@ -96,8 +100,13 @@ public class AccountPages {
     @Path("admin/users/{userId}/enabled")
     @RolesAllowed(Role.ADMIN_NAME)
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
-    public Response setEnabled(@PathParam("userId") long userId, @FormParam("enabled") boolean enabled) {
+    public Response setEnabled(@PathParam("userId") long userId, @FormParam("enabled") boolean enabled,
+                               @FormParam("confirmed") String confirmed) {
         return FormActions.attempt(() -> {
+            if (!enabled && !Confirmation.confirmed(confirmed)) {
+                return confirmations.page(disabling(accounts.get(userId).username(), "/admin/users/" + userId + "/enabled",
+                        "/admin/users"), null);
+            }
             accounts.setEnabled(userId, enabled);
             return usersPage(null, null);
         }, e -> usersPage(null, e));
@@ -168,8 +177,16 @@ public class AccountPages {
     @Path("my-laboratory/members/{userId}/enabled")
     @RolesAllowed(Role.LAB_MANAGER_NAME)
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
-    public Response setMemberEnabled(@PathParam("userId") long userId, @FormParam("enabled") boolean enabled) {
+    public Response setMemberEnabled(@PathParam("userId") long userId, @FormParam("enabled") boolean enabled,
+                                     @FormParam("confirmed") String confirmed) {
         return FormActions.attempt(() -> {
+            if (!enabled && !Confirmation.confirmed(confirmed)) {
+                String name = accounts.listOwnLaboratoryMembers().stream().filter(m -> m.id() == userId)
+                        .map(AccountService.UserView::username).findFirst()
+                        .orElseThrow(() -> new DomainException.NotFound("The user"));
+                return confirmations.page(disabling(name, "/my-laboratory/members/" + userId + "/enabled", "/my-laboratory"),
+                        null);
+            }
             accounts.setOwnLaboratoryMemberEnabled(userId, enabled);
             return myLaboratoryPage(null, null, null);
         }, e -> myLaboratoryPage(null, null, e));
@@ -194,8 +211,15 @@ public class AccountPages {
     @POST
     @Path("my-laboratory/tokens/{tokenId}/revoke")
     @RolesAllowed(Role.LAB_MANAGER_NAME)
-    public Response revokeToken(@PathParam("tokenId") long tokenId) {
+    public Response revokeToken(@PathParam("tokenId") long tokenId, @FormParam("confirmed") String confirmed) {
         return FormActions.attempt(() -> {
+            if (!Confirmation.confirmed(confirmed)) {
+                return confirmations.page(new Confirmation("Revoke this API token?",
+                        "Your laboratory's systems that use it can no longer call Roundtable; they need a new token. "
+                                + "A revoked token cannot be turned on again.",
+                        "/my-laboratory/tokens/" + tokenId + "/revoke", List.of(), null, false, null, "Revoke the token",
+                        "/my-laboratory"), null);
+            }
             tokens.revoke(tokenId);
             return myLaboratoryPage(null, null, null);
         }, e -> myLaboratoryPage(null, null, e));
@@ -215,11 +239,25 @@ public class AccountPages {
     @POST
     @Path("my-laboratory/auditor-grants/{grantId}/revoke")
     @RolesAllowed(Role.LAB_MANAGER_NAME)
-    public Response revokeGrant(@PathParam("grantId") long grantId) {
+    public Response revokeGrant(@PathParam("grantId") long grantId, @FormParam("confirmed") String confirmed) {
         return FormActions.attempt(() -> {
+            if (!Confirmation.confirmed(confirmed)) {
+                return confirmations.page(new Confirmation("End this auditor's access?",
+                        "The auditor no longer sees your laboratory's history and reports from now on. To give access "
+                                + "again, grant it anew.",
+                        "/my-laboratory/auditor-grants/" + grantId + "/revoke", List.of(), null, false, null,
+                        "End the access", "/my-laboratory"), null);
+            }
             grants.revoke(grantId);
             return myLaboratoryPage(null, null, null);
         }, e -> myLaboratoryPage(null, null, e));
+    }
+
+    private static Confirmation disabling(String username, String action, String back) {
+        return new Confirmation("Disable the account " + username + "?",
+                "The user is signed out everywhere and can no longer sign in or use the API until an account "
+                        + "administrator enables the account again. What the user did stays recorded.",
+                action, List.of(new Confirmation.Field("enabled", "false")), null, false, null, "Disable the account", back);
     }
 
     // ---- auditor ---------------------------------------------------------------------------------------------

@@ -224,6 +224,24 @@ public class AccountService {
         applyNewPassword(user, newPassword, "password.changed");
     }
 
+    /**
+     * Sets the signed-in user's display time zone: an IANA zone of the offered list, or empty/null for the
+     * installation's zone. Audited.
+     */
+    @Transactional
+    public void setOwnTimeZone(String zone) {
+        String chosen = zone == null || zone.isBlank() ? null : zone.strip();
+        if (chosen != null && !org.roundtable.platform.TimeDisplay.isOffered(chosen)) {
+            throw new DomainException.BadRequest("Choose a time zone from the list.");
+        }
+        UserAccount user = lockedUser(currentUser.requireUserId());
+        String before = user.timeZone;
+        user.timeZone = chosen;
+        entityManager.flush();
+        audit.record(new AuditTrail.Event(currentUser.actor(), "user.time-zone", "user", user.id.toString(), null, null,
+                "from=" + (before == null ? "installation" : before) + " to=" + (chosen == null ? "installation" : chosen)));
+    }
+
     // ---- internals -------------------------------------------------------------------------------------
 
     private void applyNewPassword(UserAccount user, String newPassword, String action) {
