@@ -45,6 +45,10 @@ public final class Labels {
             return "";
         }
         String words = WORDS.get(kind + "." + name);
+        if (words == null) {
+            // a constant carried in its slug form ("spark-oes" for SPARK_OES)
+            words = WORDS.get(kind + "." + name.toUpperCase(Locale.ROOT).replace('-', '_'));
+        }
         return words != null ? words : sentenceCase(name);
     }
 

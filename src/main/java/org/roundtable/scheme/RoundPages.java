@@ -44,8 +44,8 @@ public class RoundPages {
     static class Templates {
         static native TemplateInstance schemes(List<SchemeService.SchemeView> schemes, List<String> families, String error);
 
-        static native TemplateInstance scheme(SchemeService.SchemeView scheme, List<String> methodGroups, String error,
-                                              String message);
+        static native TemplateInstance scheme(SchemeService.SchemeView scheme, List<String> methodGroups,
+                                              SchemeService.Provider provider, String error, String message);
 
         static native TemplateInstance rounds(List<RoundService.RoundView> rounds, List<SchemeService.SchemeView> schemes,
                                               String error);
@@ -62,6 +62,9 @@ public class RoundPages {
 
         static native TemplateInstance myRound(EnrolmentService.MyRound round, String error, String message);
     }
+
+    /** The scheme page's provider form when the scheme names none of its own (empty fields). */
+    private static final SchemeService.Provider NO_PROVIDER = new SchemeService.Provider(null, null, null);
 
     private static final String PLAN_EXAMPLE = """
             {"measurands": [
@@ -111,7 +114,7 @@ public class RoundPages {
     public Response createScheme(@FormParam("name") String name, @FormParam("materialFamily") String family) {
         return FormActions.attempt(() -> {
             SchemeService.SchemeView created = schemes.create(new SchemeService.NewScheme(name, family));
-            return Templates.scheme(created, names(MethodGroup.values()), null, "Scheme created. Add its measurands.");
+            return Templates.scheme(created, names(MethodGroup.values()), NO_PROVIDER, null, "Scheme created. Add its measurands.");
         }, this::schemesPage);
     }
 
@@ -119,7 +122,7 @@ public class RoundPages {
     @Path("schemes/{schemeId}")
     @RolesAllowed(Role.COORDINATOR_NAME)
     public TemplateInstance schemePage(@PathParam("schemeId") long schemeId) {
-        return Templates.scheme(schemes.get(schemeId), names(MethodGroup.values()), null, null);
+        return schemePage(schemeId, null, null);
     }
 
     @POST
@@ -133,8 +136,27 @@ public class RoundPages {
         return FormActions.attempt(() -> {
             SchemeService.MeasurandView m = schemes.putMeasurand(schemeId, new SchemeService.MeasurandEntry(element, unit,
                     integer(digits, "reporting digits"), min, max, groups));
-            return Templates.scheme(schemes.get(schemeId), names(MethodGroup.values()), null, m.element() + " saved.");
-        }, e -> Templates.scheme(schemes.get(schemeId), names(MethodGroup.values()), e, null));
+            return schemePage(schemeId, null, m.element() + " saved.");
+        }, e -> schemePage(schemeId, e, null));
+    }
+
+    /** Names the provider on the scheme's reports issued from now on; a blank name returns to the installation's. */
+    @POST
+    @Path("schemes/{schemeId}/provider")
+    @RolesAllowed(Role.COORDINATOR_NAME)
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response setProvider(@PathParam("schemeId") long schemeId, @FormParam("providerName") String name,
+                                @FormParam("providerAddress") String address,
+                                @FormParam("providerAccreditation") String accreditation) {
+        return FormActions.attempt(() -> {
+            schemes.setProvider(schemeId, new SchemeService.Provider(name, address, accreditation));
+            return schemePage(schemeId, null, "Provider saved: reports issued from now on name it.");
+        }, e -> schemePage(schemeId, e, null));
+    }
+
+    private TemplateInstance schemePage(long schemeId, String error, String message) {
+        return Templates.scheme(schemes.get(schemeId), names(MethodGroup.values()), schemes.providerOf(schemeId).orElse(NO_PROVIDER),
+                error, message);
     }
 
     // ---- rounds -------------------------------------------------------------------------------------

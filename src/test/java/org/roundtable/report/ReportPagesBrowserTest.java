@@ -77,7 +77,7 @@ class ReportPagesBrowserTest {
         browser.get(base + coordinatorPage.substring(1));
         assertThat(browser.findElement(By.id("documents")).getText()).contains(code + "-R-P1");
         submit(By.id("open-comment-period"));
-        assertThat(browser.findElement(By.id("round-state")).getText()).isEqualTo("COMMENT_PERIOD");
+        assertThat(browser.findElement(By.id("round-state")).getText()).isEqualTo("Comment period");
         signOut();
 
         signIn(member, labPage);
@@ -97,7 +97,7 @@ class ReportPagesBrowserTest {
         runJobs();
         browser.get(base + coordinatorPage.substring(1));
         assertThat(browser.findElement(By.id("documents")).getText()).contains(code + "-R-F");
-        assertThat(browser.findElement(By.id("round-state")).getText()).isEqualTo("FINAL_ISSUED");
+        assertThat(browser.findElement(By.id("round-state")).getText()).isEqualTo("Final report issued");
         Browser.screenshot(browser, "round-reports");
         signOut();
 

@@ -188,7 +188,9 @@ final class ReportDocument {
             identRow("Participant code", "<span class=\"you\">" + esc(ownCode) + "</span>");
             identRow("Round report", esc(roundReportId) + " (every participant's results, by code)");
         }
-        identRow("Provider", esc(id.providerName()));
+        identRow("Provider", esc(id.providerName())
+                + (id.providerAddress() == null ? "" : "<br>" + esc(id.providerAddress()))
+                + (id.providerAccreditation() == null ? "" : "<br>Accreditation " + esc(id.providerAccreditation())));
         Signatory coordinator = report.signatures().coordinator();
         identRow("Coordinator", esc(coordinator.name() + ", " + coordinator.function()));
         out.append("</table>\n");
