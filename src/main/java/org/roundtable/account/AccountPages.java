@@ -16,7 +16,9 @@ import jakarta.ws.rs.core.MediaType;
 import jakarta.ws.rs.core.Response;
 import org.roundtable.platform.Confirmation;
 import org.roundtable.platform.Confirmations;
+import org.roundtable.platform.DisplaySettings;
 import org.roundtable.platform.DomainException;
+import org.roundtable.platform.Paging;
 import org.roundtable.platform.FormActions;
 
 import java.time.LocalDate;
@@ -31,16 +33,19 @@ import java.util.List;
 @Produces(MediaType.TEXT_HTML)
 public class AccountPages {
 
-    /** Rows shown at once on the users and laboratories pages; a search narrows them down. */
-    static final int PAGE_SIZE = 200;
+    /** Rows of the first page where a page is re-shown after an action (the page-size budget applies). */
+    private int pageSize() {
+        return display.pageSize();
+    }
 
     @CheckedTemplate(basePath = "account")
     static class Templates {
-        static native TemplateInstance users(LaboratoryService.Page<AccountService.UserView> users, String query,
-                                             AccountService.UserWithLink link, String error, String baseUrl);
+        static native TemplateInstance users(LaboratoryService.Page<AccountService.UserView> users, Paging paging,
+                                             String query, AccountService.UserWithLink link, String error, String baseUrl);
 
         static native TemplateInstance laboratories(LaboratoryService.Page<LaboratoryService.LaboratoryView> laboratories,
-                                                    String query, LaboratoryService.CreatedLaboratory created,
+                                                    Paging paging, String query,
+                                                    LaboratoryService.CreatedLaboratory created,
                                                     String error, String baseUrl);
 
         static native TemplateInstance myLaboratory(LaboratoryService.LaboratoryView laboratory,
@@ -61,11 +66,13 @@ public class AccountPages {
     private final TwoStepService twoStep;
     private final HttpServerRequest request;
     private final Confirmations confirmations;
+    private final DisplaySettings display;
 
     public AccountPages(AccountService accounts, LaboratoryService laboratories, ApiTokenService tokens,
                         AuditorGrantService grants, CurrentUser currentUser, TwoStepService twoStep,
-                        HttpServerRequest request, Confirmations confirmations) {
+                        HttpServerRequest request, Confirmations confirmations, DisplaySettings display) {
         this.confirmations = confirmations;
+        this.display = display;
         this.accounts = accounts;
         this.laboratories = laboratories;
         this.tokens = tokens;
@@ -80,8 +87,8 @@ public class AccountPages {
     @GET
     @Path("admin/users")
     @RolesAllowed(Role.ADMIN_NAME)
-    public TemplateInstance users(@QueryParam("q") String query) {
-        return Templates.users(accounts.search(query, PAGE_SIZE), query, null, null, FormActions.baseUrl(request));
+    public TemplateInstance users(@QueryParam("q") String query, @QueryParam("page") Integer page) {
+        return usersPage(query, page, null, null);
     }
 
     @POST
@@ -135,8 +142,8 @@ public class AccountPages {
     @GET
     @Path("laboratories")
     @RolesAllowed({Role.COORDINATOR_NAME, Role.ADMIN_NAME})
-    public TemplateInstance laboratoriesPage(@QueryParam("q") String query) {
-        return Templates.laboratories(laboratories.search(query, PAGE_SIZE), query, null, null, FormActions.baseUrl(request));
+    public TemplateInstance laboratoriesPage(@QueryParam("q") String query, @QueryParam("page") Integer page) {
+        return laboratoriesPage(query, page, null, null);
     }
 
     @POST
@@ -150,8 +157,8 @@ public class AccountPages {
         return FormActions.attempt(() -> {
             LaboratoryService.CreatedLaboratory created = laboratories.create(new LaboratoryService.NewLaboratory(
                     name, organisation, country, contactName, contactEmail, managerUsername, null));
-            return Templates.laboratories(laboratories.search(null, PAGE_SIZE), null, created, null, FormActions.baseUrl(request));
-        }, e -> Templates.laboratories(laboratories.search(null, PAGE_SIZE), null, null, e, FormActions.baseUrl(request)));
+            return laboratoriesPage(null, null, created, null);
+        }, e -> laboratoriesPage(null, null, null, e));
     }
 
     // ---- lab manager: my laboratory ---------------------------------------------------------------------
@@ -272,7 +279,22 @@ public class AccountPages {
     // ---- helpers --------------------------------------------------------------------------------------------
 
     private TemplateInstance usersPage(AccountService.UserWithLink link, String error) {
-        return Templates.users(accounts.search(null, PAGE_SIZE), null, link, error, FormActions.baseUrl(request));
+        return usersPage(null, null, link, error);
+    }
+
+    private TemplateInstance usersPage(String query, Integer page, AccountService.UserWithLink link, String error) {
+        long total = accounts.search(query, 0, 1).total();
+        Paging paging = Paging.of(page, pageSize(), total);
+        return Templates.users(accounts.search(query, paging.offset(), paging.size()), paging, query, link, error,
+                FormActions.baseUrl(request));
+    }
+
+    private TemplateInstance laboratoriesPage(String query, Integer page, LaboratoryService.CreatedLaboratory created,
+                                              String error) {
+        long total = laboratories.search(query, 0, 1).total();
+        Paging paging = Paging.of(page, pageSize(), total);
+        return Templates.laboratories(laboratories.search(query, paging.offset(), paging.size()), paging, query, created,
+                error, FormActions.baseUrl(request));
     }
 
     private TemplateInstance myLaboratoryPage(AccountService.UserWithLink link, ApiTokenService.CreatedToken newToken,

@@ -79,11 +79,17 @@ public class AccountService {
     /** Up to {@code limit} users whose username or name contains {@code query} (all when blank), and the total. */
     @Transactional
     public LaboratoryService.Page<UserView> search(String query, int limit) {
+        return search(query, 0, limit);
+    }
+
+    /** Users whose username or name contains {@code query}, {@code limit} of them from row {@code offset}. */
+    @Transactional
+    public LaboratoryService.Page<UserView> search(String query, int offset, int limit) {
         String like = "%" + (query == null ? "" : query.strip().toLowerCase(Locale.ROOT)
                 .replace("\\", "\\\\").replace("%", "\\%").replace("_", "\\_")) + "%";
         String where = "lower(username) like ?1 or lower(displayName) like ?1";
         List<UserView> items = users.find(where, io.quarkus.panache.common.Sort.by("username"), like)
-                .page(0, limit).list().stream().map(UserView::of).toList();
+                .range(offset, offset + limit - 1).list().stream().map(UserView::of).toList();
         return new LaboratoryService.Page<>(items, users.count(where, like));
     }
 

@@ -287,8 +287,9 @@ public class ReportAssembler {
         ReportIdentity id = identity.providerName().isBlank() ? new ReportIdentity(identity.reportId(),
                 identity.status(), identity.replacesReportId(), identity.amendmentReason(), identity.issueDate(),
                 providerName) : identity;
+        // the caution closes §"Reading the scores" in every report already (ReportDocument); adding it here too
+        // printed the same sentence twice
         List<String> advice = new ArrayList<>(InterpretationAdvice.general().paragraphs());
-        advice.add(CAUTION);
         RoundReport report = new RoundReport(id, schemeInfo, roundInfo, item, sections, pairs, notes,
                 coordinatorComments, signatures, CONFIDENTIALITY, new InterpretationAdvice(advice));
         return new Assembled(report, runId, laboratories);

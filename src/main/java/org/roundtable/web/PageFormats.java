@@ -48,6 +48,17 @@ public final class PageFormats {
         return Labels.of(kind, name);
     }
 
+    /** {@code {verdict.verdictWords}}: a classification (the enum or its name) in words. */
+    static String verdictWords(Object verdict) {
+        return verdict instanceof Enum<?> e ? Labels.of(e) : Labels.of("Classification", String.valueOf(verdict));
+    }
+
+    /** {@code {verdict.verdictClass}}: the CSS class suffix of a classification ({@code questionable}). */
+    static String verdictClass(Object verdict) {
+        String name = verdict instanceof Enum<?> e ? e.name() : String.valueOf(verdict);
+        return name.toLowerCase(java.util.Locale.ROOT).replace('_', '-');
+    }
+
     /** {@code {query.urlEncoded}}: for a query parameter in a link. */
     static String urlEncoded(String text) {
         return text == null ? "" : URLEncoder.encode(text, StandardCharsets.UTF_8);

@@ -73,6 +73,9 @@ class ReportPagesBrowserTest {
 
         signIn(coordinator, coordinatorPage);
         submit(By.id("issue-preliminary"));
+        // issuing cannot be undone: the second step names the consequence first
+        assertThat(browser.findElement(By.id("confirm-consequence")).getText()).contains("every participant");
+        submit(By.id("confirm-do"));
         runJobs();
         browser.get(base + coordinatorPage.substring(1));
         assertThat(browser.findElement(By.id("documents")).getText()).contains(code + "-R-P1");
@@ -94,6 +97,7 @@ class ReportPagesBrowserTest {
         assertThat(browser.findElement(By.cssSelector(".comment .answer")).getText()).contains("Confirmed");
         submit(By.id("sign-off"));
         submit(By.id("issue-final"));
+        submit(By.id("confirm-do"));
         runJobs();
         browser.get(base + coordinatorPage.substring(1));
         assertThat(browser.findElement(By.id("documents")).getText()).contains(code + "-R-F");

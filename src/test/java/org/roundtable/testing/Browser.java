@@ -64,6 +64,9 @@ public final class Browser {
                 .build();
         ChromeDriver chrome = new ChromeDriver(service, options);
         chrome.manage().timeouts().pageLoadTimeout(Duration.ofSeconds(30));
+        // the page area itself is 1366 × 900 (the window size includes the browser's own frame)
+        chrome.executeCdpCommand("Emulation.setDeviceMetricsOverride",
+                java.util.Map.of("width", 1366, "height", 900, "deviceScaleFactor", 1, "mobile", false));
         if ("off".equalsIgnoreCase(System.getenv("PAGE_CHECKS"))) {
             return chrome;
         }
