@@ -221,6 +221,10 @@ public class AccountPages {
     public Response revokeToken(@PathParam("tokenId") long tokenId, @FormParam("confirmed") String confirmed) {
         return FormActions.attempt(() -> {
             if (!Confirmation.confirmed(confirmed)) {
+                // another laboratory's token answers exactly like a missing one, before any second step
+                if (tokens.listOwn().stream().noneMatch(t -> t.id() == tokenId)) {
+                    throw new DomainException.NotFound("The token");
+                }
                 return confirmations.page(new Confirmation("Revoke this API token?",
                         "Your laboratory's systems that use it can no longer call Roundtable; they need a new token. "
                                 + "A revoked token cannot be turned on again.",
@@ -249,6 +253,9 @@ public class AccountPages {
     public Response revokeGrant(@PathParam("grantId") long grantId, @FormParam("confirmed") String confirmed) {
         return FormActions.attempt(() -> {
             if (!Confirmation.confirmed(confirmed)) {
+                if (grants.listOwnLaboratory().stream().noneMatch(g -> g.id() == grantId)) {
+                    throw new DomainException.NotFound("The auditor's access");
+                }
                 return confirmations.page(new Confirmation("End this auditor's access?",
                         "The auditor no longer sees your laboratory's history and reports from now on. To give access "
                                 + "again, grant it anew.",
