@@ -14,7 +14,11 @@ import jakarta.ws.rs.Produces;
 import jakarta.ws.rs.QueryParam;
 import jakarta.ws.rs.core.MediaType;
 import jakarta.ws.rs.core.Response;
+import org.roundtable.platform.Confirmation;
+import org.roundtable.platform.Confirmations;
+import org.roundtable.platform.DisplaySettings;
 import org.roundtable.platform.DomainException;
+import org.roundtable.platform.Paging;
 import org.roundtable.platform.FormActions;
 
 import java.time.LocalDate;
@@ -29,16 +33,19 @@ import java.util.List;
 @Produces(MediaType.TEXT_HTML)
 public class AccountPages {
 
-    /** Rows shown at once on the users and laboratories pages; a search narrows them down. */
-    static final int PAGE_SIZE = 200;
+    /** Rows of the first page where a page is re-shown after an action (the page-size budget applies). */
+    private int pageSize() {
+        return display.pageSize();
+    }
 
     @CheckedTemplate(basePath = "account")
     static class Templates {
-        static native TemplateInstance users(LaboratoryService.Page<AccountService.UserView> users, String query,
-                                             AccountService.UserWithLink link, String error, String baseUrl);
+        static native TemplateInstance users(LaboratoryService.Page<AccountService.UserView> users, Paging paging,
+                                             String query, AccountService.UserWithLink link, String error, String baseUrl);
 
         static native TemplateInstance laboratories(LaboratoryService.Page<LaboratoryService.LaboratoryView> laboratories,
-                                                    String query, LaboratoryService.CreatedLaboratory created,
+                                                    Paging paging, String query,
+                                                    LaboratoryService.CreatedLaboratory created,
                                                     String error, String baseUrl);
 
         static native TemplateInstance myLaboratory(LaboratoryService.LaboratoryView laboratory,
@@ -58,10 +65,14 @@ public class AccountPages {
     private final CurrentUser currentUser;
     private final TwoStepService twoStep;
     private final HttpServerRequest request;
+    private final Confirmations confirmations;
+    private final DisplaySettings display;
 
     public AccountPages(AccountService accounts, LaboratoryService laboratories, ApiTokenService tokens,
                         AuditorGrantService grants, CurrentUser currentUser, TwoStepService twoStep,
-                        HttpServerRequest request) {
+                        HttpServerRequest request, Confirmations confirmations, DisplaySettings display) {
+        this.confirmations = confirmations;
+        this.display = display;
         this.accounts = accounts;
         this.laboratories = laboratories;
         this.tokens = tokens;
@@ -76,8 +87,8 @@ public class AccountPages {
     @GET
     @Path("admin/users")
     @RolesAllowed(Role.ADMIN_NAME)
-    public TemplateInstance users(@QueryParam("q") String query) {
-        return Templates.users(accounts.search(query, PAGE_SIZE), query, null, null, FormActions.baseUrl(request));
+    public TemplateInstance users(@QueryParam("q") String query, @QueryParam("page") Integer page) {
+        return usersPage(query, page, null, null);
     }
 
     @POST
@@ -96,8 +107,13 @@ public class AccountPages {
     @Path("admin/users/{userId}/enabled")
     @RolesAllowed(Role.ADMIN_NAME)
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
-    public Response setEnabled(@PathParam("userId") long userId, @FormParam("enabled") boolean enabled) {
+    public Response setEnabled(@PathParam("userId") long userId, @FormParam("enabled") boolean enabled,
+                               @FormParam("confirmed") String confirmed) {
         return FormActions.attempt(() -> {
+            if (!enabled && !Confirmation.confirmed(confirmed)) {
+                return confirmations.page(disabling(accounts.get(userId).username(), "/admin/users/" + userId + "/enabled",
+                        "/admin/users"), null);
+            }
             accounts.setEnabled(userId, enabled);
             return usersPage(null, null);
         }, e -> usersPage(null, e));
@@ -126,8 +142,8 @@ public class AccountPages {
     @GET
     @Path("laboratories")
     @RolesAllowed({Role.COORDINATOR_NAME, Role.ADMIN_NAME})
-    public TemplateInstance laboratoriesPage(@QueryParam("q") String query) {
-        return Templates.laboratories(laboratories.search(query, PAGE_SIZE), query, null, null, FormActions.baseUrl(request));
+    public TemplateInstance laboratoriesPage(@QueryParam("q") String query, @QueryParam("page") Integer page) {
+        return laboratoriesPage(query, page, null, null);
     }
 
     @POST
@@ -141,8 +157,8 @@ public class AccountPages {
         return FormActions.attempt(() -> {
             LaboratoryService.CreatedLaboratory created = laboratories.create(new LaboratoryService.NewLaboratory(
                     name, organisation, country, contactName, contactEmail, managerUsername, null));
-            return Templates.laboratories(laboratories.search(null, PAGE_SIZE), null, created, null, FormActions.baseUrl(request));
-        }, e -> Templates.laboratories(laboratories.search(null, PAGE_SIZE), null, null, e, FormActions.baseUrl(request)));
+            return laboratoriesPage(null, null, created, null);
+        }, e -> laboratoriesPage(null, null, null, e));
     }
 
     // ---- lab manager: my laboratory ---------------------------------------------------------------------
@@ -168,8 +184,16 @@ public class AccountPages {
     @Path("my-laboratory/members/{userId}/enabled")
     @RolesAllowed(Role.LAB_MANAGER_NAME)
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
-    public Response setMemberEnabled(@PathParam("userId") long userId, @FormParam("enabled") boolean enabled) {
+    public Response setMemberEnabled(@PathParam("userId") long userId, @FormParam("enabled") boolean enabled,
+                                     @FormParam("confirmed") String confirmed) {
         return FormActions.attempt(() -> {
+            if (!enabled && !Confirmation.confirmed(confirmed)) {
+                String name = accounts.listOwnLaboratoryMembers().stream().filter(m -> m.id() == userId)
+                        .map(AccountService.UserView::username).findFirst()
+                        .orElseThrow(() -> new DomainException.NotFound("The user"));
+                return confirmations.page(disabling(name, "/my-laboratory/members/" + userId + "/enabled", "/my-laboratory"),
+                        null);
+            }
             accounts.setOwnLaboratoryMemberEnabled(userId, enabled);
             return myLaboratoryPage(null, null, null);
         }, e -> myLaboratoryPage(null, null, e));
@@ -194,8 +218,19 @@ public class AccountPages {
     @POST
     @Path("my-laboratory/tokens/{tokenId}/revoke")
     @RolesAllowed(Role.LAB_MANAGER_NAME)
-    public Response revokeToken(@PathParam("tokenId") long tokenId) {
+    public Response revokeToken(@PathParam("tokenId") long tokenId, @FormParam("confirmed") String confirmed) {
         return FormActions.attempt(() -> {
+            if (!Confirmation.confirmed(confirmed)) {
+                // another laboratory's token answers exactly like a missing one, before any second step
+                if (tokens.listOwn().stream().noneMatch(t -> t.id() == tokenId)) {
+                    throw new DomainException.NotFound("The token");
+                }
+                return confirmations.page(new Confirmation("Revoke this API token?",
+                        "Your laboratory's systems that use it can no longer call Roundtable; they need a new token. "
+                                + "A revoked token cannot be turned on again.",
+                        "/my-laboratory/tokens/" + tokenId + "/revoke", List.of(), null, false, null, "Revoke the token",
+                        "/my-laboratory"), null);
+            }
             tokens.revoke(tokenId);
             return myLaboratoryPage(null, null, null);
         }, e -> myLaboratoryPage(null, null, e));
@@ -215,11 +250,28 @@ public class AccountPages {
     @POST
     @Path("my-laboratory/auditor-grants/{grantId}/revoke")
     @RolesAllowed(Role.LAB_MANAGER_NAME)
-    public Response revokeGrant(@PathParam("grantId") long grantId) {
+    public Response revokeGrant(@PathParam("grantId") long grantId, @FormParam("confirmed") String confirmed) {
         return FormActions.attempt(() -> {
+            if (!Confirmation.confirmed(confirmed)) {
+                if (grants.listOwnLaboratory().stream().noneMatch(g -> g.id() == grantId)) {
+                    throw new DomainException.NotFound("The auditor's access");
+                }
+                return confirmations.page(new Confirmation("End this auditor's access?",
+                        "The auditor no longer sees your laboratory's history and reports from now on. To give access "
+                                + "again, grant it anew.",
+                        "/my-laboratory/auditor-grants/" + grantId + "/revoke", List.of(), null, false, null,
+                        "End the access", "/my-laboratory"), null);
+            }
             grants.revoke(grantId);
             return myLaboratoryPage(null, null, null);
         }, e -> myLaboratoryPage(null, null, e));
+    }
+
+    private static Confirmation disabling(String username, String action, String back) {
+        return new Confirmation("Disable the account " + username + "?",
+                "The user is signed out everywhere and can no longer sign in or use the API until an account "
+                        + "administrator enables the account again. What the user did stays recorded.",
+                action, List.of(new Confirmation.Field("enabled", "false")), null, false, null, "Disable the account", back);
     }
 
     // ---- auditor ---------------------------------------------------------------------------------------------
@@ -234,7 +286,22 @@ public class AccountPages {
     // ---- helpers --------------------------------------------------------------------------------------------
 
     private TemplateInstance usersPage(AccountService.UserWithLink link, String error) {
-        return Templates.users(accounts.search(null, PAGE_SIZE), null, link, error, FormActions.baseUrl(request));
+        return usersPage(null, null, link, error);
+    }
+
+    private TemplateInstance usersPage(String query, Integer page, AccountService.UserWithLink link, String error) {
+        long total = accounts.search(query, 0, 1).total();
+        Paging paging = Paging.of(page, pageSize(), total);
+        return Templates.users(accounts.search(query, paging.offset(), paging.size()), paging, query, link, error,
+                FormActions.baseUrl(request));
+    }
+
+    private TemplateInstance laboratoriesPage(String query, Integer page, LaboratoryService.CreatedLaboratory created,
+                                              String error) {
+        long total = laboratories.search(query, 0, 1).total();
+        Paging paging = Paging.of(page, pageSize(), total);
+        return Templates.laboratories(laboratories.search(query, paging.offset(), paging.size()), paging, query, created,
+                error, FormActions.baseUrl(request));
     }
 
     private TemplateInstance myLaboratoryPage(AccountService.UserWithLink link, ApiTokenService.CreatedToken newToken,

@@ -79,11 +79,17 @@ public class AccountService {
     /** Up to {@code limit} users whose username or name contains {@code query} (all when blank), and the total. */
     @Transactional
     public LaboratoryService.Page<UserView> search(String query, int limit) {
+        return search(query, 0, limit);
+    }
+
+    /** Users whose username or name contains {@code query}, {@code limit} of them from row {@code offset}. */
+    @Transactional
+    public LaboratoryService.Page<UserView> search(String query, int offset, int limit) {
         String like = "%" + (query == null ? "" : query.strip().toLowerCase(Locale.ROOT)
                 .replace("\\", "\\\\").replace("%", "\\%").replace("_", "\\_")) + "%";
         String where = "lower(username) like ?1 or lower(displayName) like ?1";
         List<UserView> items = users.find(where, io.quarkus.panache.common.Sort.by("username"), like)
-                .page(0, limit).list().stream().map(UserView::of).toList();
+                .range(offset, offset + limit - 1).list().stream().map(UserView::of).toList();
         return new LaboratoryService.Page<>(items, users.count(where, like));
     }
 
@@ -222,6 +228,24 @@ public class AccountService {
         }
         passwords.checkAcceptable(newPassword, user.username);
         applyNewPassword(user, newPassword, "password.changed");
+    }
+
+    /**
+     * Sets the signed-in user's display time zone: an IANA zone of the offered list, or empty/null for the
+     * installation's zone. Audited.
+     */
+    @Transactional
+    public void setOwnTimeZone(String zone) {
+        String chosen = zone == null || zone.isBlank() ? null : zone.strip();
+        if (chosen != null && !org.roundtable.platform.TimeDisplay.isOffered(chosen)) {
+            throw new DomainException.BadRequest("Choose a time zone from the list.");
+        }
+        UserAccount user = lockedUser(currentUser.requireUserId());
+        String before = user.timeZone;
+        user.timeZone = chosen;
+        entityManager.flush();
+        audit.record(new AuditTrail.Event(currentUser.actor(), "user.time-zone", "user", user.id.toString(), null, null,
+                "from=" + (before == null ? "installation" : before) + " to=" + (chosen == null ? "installation" : chosen)));
     }
 
     // ---- internals -------------------------------------------------------------------------------------

@@ -39,6 +39,11 @@ public class CurrentUser {
         return role().map(Role::roleName).orElse("");
     }
 
+    /** The role in words ("Laboratory manager"), for pages. */
+    public String roleLabel() {
+        return role().map(org.roundtable.platform.Labels::of).orElse("");
+    }
+
     public boolean is(Role role) {
         return identity.hasRole(role.roleName());
     }

@@ -89,11 +89,17 @@ public class LaboratoryService {
 
     @Transactional
     public Page<LaboratoryView> search(String query, int limit) {
+        return search(query, 0, limit);
+    }
+
+    /** Laboratories whose name or organisation contains {@code query}, {@code limit} from row {@code offset}. */
+    @Transactional
+    public Page<LaboratoryView> search(String query, int offset, int limit) {
         String like = "%" + (query == null ? "" : query.strip().toLowerCase(Locale.ROOT)
                 .replace("\\", "\\\\").replace("%", "\\%").replace("_", "\\_")) + "%";
         String where = "lower(name) like ?1 or lower(organisation) like ?1";
         List<LaboratoryView> items = laboratories.find(where, Sort.by("organisation").and("name"), like)
-                .page(0, limit).list().stream().map(LaboratoryView::of).toList();
+                .range(offset, offset + limit - 1).list().stream().map(LaboratoryView::of).toList();
         return new Page<>(items, laboratories.count(where, like));
     }
 

@@ -177,6 +177,23 @@ public class SignInPage {
         }
     }
 
+    @POST
+    @Path("account/time-zone")
+    @Authenticated
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response setTimeZone(@FormParam("timeZone") String zone) {
+        if (currentUser.viaApiToken()) {
+            throw new DomainException.Forbidden();
+        }
+        try {
+            accounts.setOwnTimeZone(zone);
+            return Response.ok(Templates.account(null, zone == null || zone.isBlank()
+                    ? "Times are now shown in the installation's zone." : "Times are now shown in " + zone.strip() + ".")).build();
+        } catch (DomainException e) {
+            return Response.status(e.status()).entity(Templates.account(e.detail(), null)).build();
+        }
+    }
+
     // ---- two-step sign-in --------------------------------------------------------------------------------
 
     @GET

@@ -69,6 +69,8 @@ public class EvaluationPages {
                                             String error);
 
         static native TemplateInstance run(RoundAccess.SubmissionWindow round, RunPage page);
+
+        static native TemplateInstance progress(EvaluationJobs.JobView job);
     }
 
     private final EvaluationService evaluations;
@@ -108,6 +110,19 @@ public class EvaluationPages {
         } catch (DomainException e) {
             return Response.status(e.status()).entity(runsPage(roundId, null, e.detail())).build();
         }
+    }
+
+    /**
+     * The progress bar of an evaluation job alone, for htmx's polling; once the job has finished, asks the
+     * browser to load the page again ({@code HX-Refresh}) so that it shows the outcome.
+     */
+    @GET
+    @Path("rounds/{roundId}/evaluation/jobs/{jobId}/progress")
+    public Response progress(@PathParam("roundId") long roundId, @PathParam("jobId") long jobId) {
+        EvaluationJobs.JobView job = jobs.status(roundId, jobId);
+        boolean finished = !"QUEUED".equals(job.status()) && !"RUNNING".equals(job.status());
+        Response.ResponseBuilder answer = Response.ok(Templates.progress(job));
+        return finished ? answer.header("HX-Refresh", "true").build() : answer.build();
     }
 
     @GET

@@ -195,6 +195,22 @@ public class IssuedDocuments {
         return newer.stream().findFirst().map(Object::toString);
     }
 
+    /** Keeps the HTML view of an issued document beside it (once; a document's view never changes). */
+    @Transactional
+    public void attachHtml(long documentId, String html) {
+        entityManager.createNativeQuery("INSERT INTO issued_document_html (document_id, html) VALUES (:id, :html)")
+                .setParameter("id", documentId).setParameter("html", html).executeUpdate();
+    }
+
+    /** The HTML view of an issued document; empty for documents issued before views were kept. */
+    @Transactional
+    public Optional<String> html(long documentId) {
+        @SuppressWarnings("unchecked")
+        List<String> rows = entityManager.createNativeQuery("SELECT html FROM issued_document_html WHERE document_id = :id")
+                .setParameter("id", documentId).getResultList();
+        return rows.stream().findFirst();
+    }
+
     /** The exact bytes issued. */
     @Transactional
     public Optional<byte[]> content(long documentId) {

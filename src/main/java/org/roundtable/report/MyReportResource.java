@@ -43,6 +43,14 @@ public class MyReportResource {
         return ReportResource.attachment(lifecycle.content(roundId, documentId));
     }
 
+    /** The document's HTML view, to read in the browser (same access as the PDF). */
+    @GET
+    @Path("{roundId}/documents/{documentId}/html")
+    @Produces(MediaType.TEXT_HTML)
+    public Response html(@PathParam("roundId") long roundId, @PathParam("documentId") long documentId) {
+        return ReportResource.page(lifecycle.html(roundId, documentId));
+    }
+
     @GET
     @Path("{roundId}/comments")
     public List<ReportLifecycle.CommentView> comments(@PathParam("roundId") long roundId) {

@@ -34,6 +34,8 @@ import org.roundtable.scheme.qualification.QualificationService;
 import org.roundtable.statistics.score.Classification;
 import org.roundtable.statistics.score.ScoreKind;
 
+import org.roundtable.platform.Labels;
+
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.LinkedHashSet;
@@ -69,13 +71,20 @@ public class ReportAssembler {
     private final QualificationService qualification;
     private final EntityManager entityManager;
     private final String providerName;
+    private final java.util.Optional<String> providerAddress;
+    private final java.util.Optional<String> providerAccreditation;
 
     public ReportAssembler(EvaluationService evaluations, EvaluationExports exports, RoundService rounds,
                            RoundAccess roundAccess,
                            SchemeService schemes, PlanStore plans, QualificationService qualification,
                            EntityManager entityManager,
-                           @ConfigProperty(name = "roundtable.reports.provider-name",
-                                   defaultValue = "Roundtable proficiency testing") String providerName) {
+                           @ConfigProperty(name = "roundtable.reports.provider-name") String providerName,
+                           @ConfigProperty(name = "roundtable.reports.provider-address")
+                           java.util.Optional<String> providerAddress,
+                           @ConfigProperty(name = "roundtable.reports.provider-accreditation")
+                           java.util.Optional<String> providerAccreditation) {
+        this.providerAddress = providerAddress;
+        this.providerAccreditation = providerAccreditation;
         this.evaluations = evaluations;
         this.exports = exports;
         this.rounds = rounds;
@@ -102,9 +111,23 @@ public class ReportAssembler {
         }
     }
 
-    /** The provider named on every report. */
+    /** The installation's provider, named on every report whose scheme names none of its own. */
     public String providerName() {
         return providerName;
+    }
+
+    /**
+     * {@code identity} naming the provider of the round's scheme: the scheme's own where set, else the
+     * installation's ({@code roundtable.reports.provider-*}). Read at issue, so a change applies to documents
+     * issued afterwards.
+     */
+    @Transactional
+    public ReportIdentity withProviderOf(long roundId, ReportIdentity identity) {
+        long schemeId = rounds.get(roundId).schemeId();
+        return schemes.providerOf(schemeId)
+                .map(p -> identity.withProvider(p.name(), p.address(), p.accreditation()))
+                .orElseGet(() -> identity.withProvider(providerName, providerAddress.orElse(null),
+                        providerAccreditation.orElse(null)));
     }
 
     /** The row id of a round's evaluation run; refuses a preview run (previews are never reported). */
@@ -197,10 +220,10 @@ public class ReportAssembler {
         for (QualificationService.MeasurandQualification q : qualification.status(roundId)) {
             String sectionId = firstSectionOfElement.get(q.element());
             if (q.decision() != null) {
-                String decision = q.decision().decision();
-                String words = decision.equals("ACCEPT") ? "accepted" : decision.toLowerCase(Locale.ROOT).replace('_', ' ');
-                decisions.computeIfAbsent(words + " by the coordinator: " + q.decision().reason(),
-                        k -> new ArrayList<>()).add(q.element());
+                String reason = q.decision().reason();
+                String words = "coordinator's decision: " + Labels.of("Decision", q.decision().decision()).toLowerCase(Locale.ROOT)
+                        + (reason == null || reason.isBlank() ? "" : " (" + reason.strip() + ")");
+                decisions.computeIfAbsent(words, k -> new ArrayList<>()).add(q.element());
             }
             if (sectionId == null || q.homogeneity() == null) {
                 continue;
@@ -267,8 +290,9 @@ public class ReportAssembler {
         ReportIdentity id = identity.providerName().isBlank() ? new ReportIdentity(identity.reportId(),
                 identity.status(), identity.replacesReportId(), identity.amendmentReason(), identity.issueDate(),
                 providerName) : identity;
+        // the caution closes §"Reading the scores" in every report already (ReportDocument); adding it here too
+        // printed the same sentence twice
         List<String> advice = new ArrayList<>(InterpretationAdvice.general().paragraphs());
-        advice.add(CAUTION);
         RoundReport report = new RoundReport(id, schemeInfo, roundInfo, item, sections, pairs, notes,
                 coordinatorComments, signatures, CONFIDENTIALITY, new InterpretationAdvice(advice));
         return new Assembled(report, runId, laboratories);
@@ -329,7 +353,9 @@ public class ReportAssembler {
             case "ROBUST_SD_OF_ROUND" -> "robust standard deviation of this round's results (scores rank only)";
             default -> method.toLowerCase(Locale.ROOT).replace('_', ' ');
         };
-        return source == null || source.isBlank() ? words : words + " (" + source.toLowerCase(Locale.ROOT) + ")";
+        // the source ("given" / "robust SD") says only whether σpt came from the plan or from the data, which the
+        // method already says; printed beside a formula such as Horwitz–Thompson it misled readers
+        return words;
     }
 
     /**

@@ -22,6 +22,7 @@ import org.roundtable.report.model.ReportIdentity;
 import org.roundtable.report.model.ReportStatus;
 import org.roundtable.report.model.Signatory;
 import org.roundtable.report.model.Signatures;
+import org.roundtable.report.render.HtmlReportRenderer;
 import org.roundtable.report.render.PdfReportRenderer;
 import org.roundtable.scheme.RoundAccess;
 import org.roundtable.scheme.RoundAction;
@@ -427,6 +428,22 @@ public class ReportLifecycle {
     /** The exact bytes of a document the caller may read; any other is "not found", like a missing one. */
     @Transactional
     public Content content(long roundId, long documentId) {
+        DocumentView doc = readable(roundId, documentId);
+        byte[] bytes = documents.content(documentId).orElseThrow(() -> new DomainException.NotFound("The document"));
+        return new Content(doc.reportId() + ".pdf", PDF, bytes);
+    }
+
+    /**
+     * The HTML view of a document the caller may read (the same rule as its PDF); "not found" for others and for
+     * documents issued before their views were kept.
+     */
+    @Transactional
+    public String html(long roundId, long documentId) {
+        readable(roundId, documentId);
+        return documents.html(documentId).orElseThrow(() -> new DomainException.NotFound("The HTML view of the document"));
+    }
+
+    private DocumentView readable(long roundId, long documentId) {
         List<DocumentView> readable;
         if (currentUser.laboratoryId().isPresent()) {
             readable = forLaboratory(roundId).documents();
@@ -437,10 +454,8 @@ public class ReportLifecycle {
             }
             readable = documentsOf(roundId);
         }
-        DocumentView doc = readable.stream().filter(d -> d.id() == documentId).findFirst()
+        return readable.stream().filter(d -> d.id() == documentId).findFirst()
                 .orElseThrow(() -> new DomainException.NotFound("The document"));
-        byte[] bytes = documents.content(documentId).orElseThrow(() -> new DomainException.NotFound("The document"));
-        return new Content(doc.reportId() + ".pdf", PDF, bytes);
     }
 
     private List<DocumentView> auditorDocuments(long roundId) {
@@ -481,12 +496,13 @@ public class ReportLifecycle {
             replaces = visibility.latestForAuditors(row.roundId()).map(ReportVisibility.PublishedEvaluation::reportId)
                     .orElseThrow(() -> new DomainException.Conflict("There is no final report to amend."));
         }
-        ReportIdentity identity = new ReportIdentity(row.roundReportId(), row.status(), replaces, row.reason(), today,
-                assembler.providerName());
+        ReportIdentity identity = assembler.withProviderOf(row.roundId(), new ReportIdentity(row.roundReportId(),
+                row.status(), replaces, row.reason(), today, assembler.providerName()));
         ReportAssembler.Assembled assembled = assembler.assemble(row.roundId(), row.runVersion(), identity, signatures,
                 row.comments());
         // one renderer for every document of the run: it computes the charts' data once per measurand
         PdfReportRenderer renderer = new PdfReportRenderer();
+        HtmlReportRenderer htmlRenderer = new HtmlReportRenderer();
         List<String> codes = new ArrayList<>(assembled.laboratories().keySet());
         int total = codes.size() + 1;
         progress.report(0, total);
@@ -516,19 +532,21 @@ public class ReportLifecycle {
                     }
                     labReplaces = before.reportId();
                 }
-                ReportIdentity labIdentity = new ReportIdentity(reportId, row.status(), labReplaces, row.reason(),
-                        today, identity.providerName());
+                ReportIdentity labIdentity = identity.withReport(reportId, labReplaces);
                 LaboratoryReport lab = new LaboratoryReport(withIdentity(assembled, labIdentity), code,
                         row.roundReportId());
                 byte[] bytes = renderer.render(lab);
-                documents.issue(new IssuedDocuments.Issue(labIdentity, DocumentKind.LABORATORY, row.roundId(),
-                        laboratory, PDF, bytes, assembled.evaluationRunId()), actor);
+                String html = htmlRenderer.render(lab);
+                IssuedDocument issued = documents.issue(new IssuedDocuments.Issue(labIdentity, DocumentKind.LABORATORY,
+                        row.roundId(), laboratory, PDF, bytes, assembled.evaluationRunId()), actor);
+                documents.attachHtml(issued.id(), html);
                 issuedLabs++;
                 laboratoryReports.put(laboratory, reportId);
             }
             progress.report(i + 1, total);
         }
         byte[] roundPdf = renderer.render(assembled.report());
+        String roundHtml = htmlRenderer.render(assembled.report());
         int labs = issuedLabs;
         QuarkusTransaction.requiringNew().run(() -> {
             RoundState state = rounds.lockState(row.roundId());
@@ -543,8 +561,9 @@ public class ReportLifecycle {
                 case FINAL -> rounds.takeReportStep(row.roundId(), RoundAction.ISSUE_FINAL, actor, detail);
                 case AMENDED -> rounds.takeReportStep(row.roundId(), RoundAction.AMEND, actor, detail);
             }
-            documents.issue(new IssuedDocuments.Issue(identity, DocumentKind.ROUND, row.roundId(), null, PDF, roundPdf,
-                    assembled.evaluationRunId()), actor);
+            IssuedDocument issued = documents.issue(new IssuedDocuments.Issue(identity, DocumentKind.ROUND, row.roundId(),
+                    null, PDF, roundPdf, assembled.evaluationRunId()), actor);
+            documents.attachHtml(issued.id(), roundHtml);
             notifyIssued(row, laboratoryReports);
         });
         progress.report(total, total);

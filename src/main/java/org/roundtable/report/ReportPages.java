@@ -13,6 +13,8 @@ import jakarta.ws.rs.Produces;
 import jakarta.ws.rs.core.MediaType;
 import jakarta.ws.rs.core.Response;
 import org.roundtable.account.Role;
+import org.roundtable.platform.Confirmation;
+import org.roundtable.platform.Confirmations;
 import org.roundtable.platform.DomainException;
 import org.roundtable.platform.FormActions;
 
@@ -38,8 +40,10 @@ public class ReportPages {
     }
 
     private final ReportLifecycle lifecycle;
+    private final Confirmations confirmations;
 
-    public ReportPages(ReportLifecycle lifecycle) {
+    public ReportPages(ReportLifecycle lifecycle, Confirmations confirmations) {
+        this.confirmations = confirmations;
         this.lifecycle = lifecycle;
     }
 
@@ -57,7 +61,15 @@ public class ReportPages {
     @RolesAllowed(Role.COORDINATOR_NAME)
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
     public Response preliminary(@PathParam("roundId") long roundId, @FormParam("version") String version,
-                                @FormParam("comments") String comments) {
+                                @FormParam("comments") String comments, @FormParam("confirmed") String confirmed) {
+        if (!Confirmation.confirmed(confirmed)) {
+            return secondStep(roundId, "preliminary", "Issue the preliminary reports?",
+                    "Every participant receives its laboratory report and the round report, signed and with their "
+                            + "SHA-256 fingerprints. Issued documents are never changed; a correction is an amended "
+                            + "report.", "Issue the preliminary reports",
+                    List.of(new Confirmation.Field("version", version == null ? "" : version),
+                            new Confirmation.Field("comments", comments == null ? "" : comments)));
+        }
         return coordinator(roundId, () -> lifecycle.requestPreliminary(roundId,
                         new ReportLifecycle.IssueRequest(number(version), comments, null)),
                 "The preliminary reports are being issued; this page shows the job's progress.");
@@ -97,7 +109,15 @@ public class ReportPages {
     @Path("rounds/{roundId}/reports/final")
     @RolesAllowed(Role.COORDINATOR_NAME)
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
-    public Response issueFinal(@PathParam("roundId") long roundId, @FormParam("comments") String comments) {
+    public Response issueFinal(@PathParam("roundId") long roundId, @FormParam("comments") String comments,
+                               @FormParam("confirmed") String confirmed) {
+        if (!Confirmation.confirmed(confirmed)) {
+            return secondStep(roundId, "final", "Issue the final reports?",
+                    "Every participant receives its final laboratory report and the final round report, which "
+                            + "auditors with access can read too. Issued documents are never changed; a correction is an "
+                            + "amended report.", "Issue the final reports",
+                    List.of(new Confirmation.Field("comments", comments == null ? "" : comments)));
+        }
         return coordinator(roundId, () -> lifecycle.requestFinal(roundId,
                 new ReportLifecycle.IssueRequest(null, comments, null)), "The final reports are being issued.");
     }
@@ -107,7 +127,16 @@ public class ReportPages {
     @RolesAllowed(Role.COORDINATOR_NAME)
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
     public Response amend(@PathParam("roundId") long roundId, @FormParam("version") String version,
-                          @FormParam("reason") String reason, @FormParam("comments") String comments) {
+                          @FormParam("reason") String reason, @FormParam("comments") String comments,
+                          @FormParam("confirmed") String confirmed) {
+        if (!Confirmation.confirmed(confirmed)) {
+            return secondStep(roundId, "amendments", "Issue amended reports?",
+                    "Amended reports replace the final ones for every participant; the replaced reports are marked as "
+                            + "withdrawn and the reason is printed in the new ones.", "Issue the amended reports",
+                    List.of(new Confirmation.Field("version", version == null ? "" : version),
+                            new Confirmation.Field("reason", reason == null ? "" : reason),
+                            new Confirmation.Field("comments", comments == null ? "" : comments)));
+        }
         return coordinator(roundId, () -> lifecycle.requestAmendment(roundId,
                 new ReportLifecycle.IssueRequest(number(version), comments, reason)), "The amended reports are being issued.");
     }
@@ -142,6 +171,15 @@ public class ReportPages {
     }
 
     // ---- internals ---------------------------------------------------------------------------------------
+
+    private Response secondStep(long roundId, String what, String title, String consequence, String button,
+                                List<Confirmation.Field> fields) {
+        return FormActions.attempt(() -> {
+            lifecycle.overview(roundId);
+            return confirmations.page(new Confirmation(title, consequence, "/rounds/" + roundId + "/reports/" + what,
+                    fields, null, false, null, button, "/rounds/" + roundId + "/reports"), null);
+        }, e -> Templates.roundReports(lifecycle.overview(roundId), e, null));
+    }
 
     private Response coordinator(long roundId, java.util.function.Supplier<Object> action, String message) {
         return FormActions.attempt(() -> {

@@ -102,6 +102,19 @@ public class ReportResource {
         return attachment(lifecycle.content(roundId, documentId));
     }
 
+    /** The document's HTML view, to read in the browser (same access as the PDF). */
+    @GET
+    @Path("{roundId}/documents/{documentId}/html")
+    @Produces(MediaType.TEXT_HTML)
+    @RolesAllowed({Role.COORDINATOR_NAME, Role.AUDITOR_NAME})
+    public Response html(@PathParam("roundId") long roundId, @PathParam("documentId") long documentId) {
+        return page(lifecycle.html(roundId, documentId));
+    }
+
+    static Response page(String html) {
+        return Response.ok(html, MediaType.TEXT_HTML_TYPE.withCharset("UTF-8")).header("Cache-Control", "no-store").build();
+    }
+
     static Response attachment(ReportLifecycle.Content content) {
         return Response.ok(content.bytes(), content.contentType())
                 .header("Content-Disposition", "attachment; filename=\"" + content.fileName().replaceAll("[^A-Za-z0-9._-]", "_") + "\"")

@@ -17,12 +17,18 @@ import jakarta.ws.rs.core.MediaType;
 import jakarta.ws.rs.core.Response;
 import org.roundtable.account.LaboratoryService;
 import org.roundtable.account.Role;
+import org.roundtable.platform.Confirmation;
+import org.roundtable.platform.Confirmations;
 import org.roundtable.platform.DomainException;
+import org.roundtable.platform.Labels;
 import org.roundtable.platform.FormActions;
 import org.roundtable.scheme.qualification.QualificationService;
 
+import java.time.Clock;
 import java.util.Arrays;
 import java.util.List;
+import java.util.Locale;
+import java.util.Optional;
 
 /**
  * Pages for preparing rounds (coordinators: schemes, catalogue, rounds, plan, enrolment, items,
@@ -38,8 +44,8 @@ public class RoundPages {
     static class Templates {
         static native TemplateInstance schemes(List<SchemeService.SchemeView> schemes, List<String> families, String error);
 
-        static native TemplateInstance scheme(SchemeService.SchemeView scheme, List<String> methodGroups, String error,
-                                              String message);
+        static native TemplateInstance scheme(SchemeService.SchemeView scheme, List<String> methodGroups,
+                                              SchemeService.Provider provider, String error, String message);
 
         static native TemplateInstance rounds(List<RoundService.RoundView> rounds, List<SchemeService.SchemeView> schemes,
                                               String error);
@@ -57,6 +63,9 @@ public class RoundPages {
         static native TemplateInstance myRound(EnrolmentService.MyRound round, String error, String message);
     }
 
+    /** The scheme page's provider form when the scheme names none of its own (empty fields). */
+    private static final SchemeService.Provider NO_PROVIDER = new SchemeService.Provider(null, null, null);
+
     private static final String PLAN_EXAMPLE = """
             {"measurands": [
               {"element": "Cr", "assignedValueMethod": "CONSENSUS_ALL",
@@ -70,10 +79,16 @@ public class RoundPages {
     private final LaboratoryService laboratories;
     private final ObjectMapper mapper;
     private final HttpServerRequest request;
+    private final Confirmations confirmations;
+    private final RoundResults results;
+    private final Clock clock;
 
     public RoundPages(SchemeService schemes, RoundService rounds, EnrolmentService enrolments,
                       QualificationService qualification, LaboratoryService laboratories, ObjectMapper mapper,
-                      HttpServerRequest request) {
+                      HttpServerRequest request, Confirmations confirmations, RoundResults results, Clock clock) {
+        this.confirmations = confirmations;
+        this.results = results;
+        this.clock = clock;
         this.schemes = schemes;
         this.rounds = rounds;
         this.enrolments = enrolments;
@@ -99,7 +114,7 @@ public class RoundPages {
     public Response createScheme(@FormParam("name") String name, @FormParam("materialFamily") String family) {
         return FormActions.attempt(() -> {
             SchemeService.SchemeView created = schemes.create(new SchemeService.NewScheme(name, family));
-            return Templates.scheme(created, names(MethodGroup.values()), null, "Scheme created. Add its measurands.");
+            return Templates.scheme(created, names(MethodGroup.values()), NO_PROVIDER, null, "Scheme created. Add its measurands.");
         }, this::schemesPage);
     }
 
@@ -107,7 +122,7 @@ public class RoundPages {
     @Path("schemes/{schemeId}")
     @RolesAllowed(Role.COORDINATOR_NAME)
     public TemplateInstance schemePage(@PathParam("schemeId") long schemeId) {
-        return Templates.scheme(schemes.get(schemeId), names(MethodGroup.values()), null, null);
+        return schemePage(schemeId, null, null);
     }
 
     @POST
@@ -121,8 +136,27 @@ public class RoundPages {
         return FormActions.attempt(() -> {
             SchemeService.MeasurandView m = schemes.putMeasurand(schemeId, new SchemeService.MeasurandEntry(element, unit,
                     integer(digits, "reporting digits"), min, max, groups));
-            return Templates.scheme(schemes.get(schemeId), names(MethodGroup.values()), null, m.element() + " saved.");
-        }, e -> Templates.scheme(schemes.get(schemeId), names(MethodGroup.values()), e, null));
+            return schemePage(schemeId, null, m.element() + " saved.");
+        }, e -> schemePage(schemeId, e, null));
+    }
+
+    /** Names the provider on the scheme's reports issued from now on; a blank name returns to the installation's. */
+    @POST
+    @Path("schemes/{schemeId}/provider")
+    @RolesAllowed(Role.COORDINATOR_NAME)
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response setProvider(@PathParam("schemeId") long schemeId, @FormParam("providerName") String name,
+                                @FormParam("providerAddress") String address,
+                                @FormParam("providerAccreditation") String accreditation) {
+        return FormActions.attempt(() -> {
+            schemes.setProvider(schemeId, new SchemeService.Provider(name, address, accreditation));
+            return schemePage(schemeId, null, "Provider saved: reports issued from now on name it.");
+        }, e -> schemePage(schemeId, e, null));
+    }
+
+    private TemplateInstance schemePage(long schemeId, String error, String message) {
+        return Templates.scheme(schemes.get(schemeId), names(MethodGroup.values()), schemes.providerOf(schemeId).orElse(NO_PROVIDER),
+                error, message);
     }
 
     // ---- rounds -------------------------------------------------------------------------------------
@@ -168,11 +202,58 @@ public class RoundPages {
     @Path("rounds/{roundId}/transitions")
     @RolesAllowed(Role.COORDINATOR_NAME)
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
-    public Response transition(@PathParam("roundId") long roundId, @FormParam("action") String action) {
+    public Response transition(@PathParam("roundId") long roundId, @FormParam("action") String action,
+                               @FormParam("confirmed") String confirmed, @FormParam("reason") String reason) {
+        Optional<Confirmation> step = confirmationOf(roundId, action, reason);
+        boolean secondStep = step.isPresent() && Confirmation.confirmed(confirmed);
         return FormActions.attempt(() -> {
-            RoundService.RoundView after = rounds.transition(roundId, action);
-            return roundPage(roundId, null, "Done: the round is now " + SchemeFormats.words(after.state()).toLowerCase() + ".", null);
-        }, e -> roundPage(roundId, e, null, null));
+            if (step.isPresent() && !secondStep) {
+                return confirmations.page(step.get(), null);
+            }
+            RoundService.RoundView after = rounds.transition(roundId, action, reason);
+            return roundPage(roundId, null, "Done: the round is now "
+                    + Labels.of("RoundState", after.state()).toLowerCase(Locale.ROOT) + ".", null);
+        }, e -> secondStep ? confirmations.page(step.get(), e) : roundPage(roundId, e, null, null));
+    }
+
+    /**
+     * The second step of a lifecycle step that cannot be undone (freeze the plan, close before the deadline,
+     * cancel), naming its consequence; empty for the others.
+     */
+    private Optional<Confirmation> confirmationOf(long roundId, String actionName, String reason) {
+        RoundAction action;
+        try {
+            action = RoundAction.valueOf(actionName == null ? "" : actionName);
+        } catch (IllegalArgumentException e) {
+            return Optional.empty();
+        }
+        RoundService.RoundView round = rounds.get(roundId);
+        String address = "/rounds/" + roundId + "/transitions";
+        List<Confirmation.Field> fields = List.of(new Confirmation.Field("action", action.name()));
+        String back = "/rounds/" + roundId;
+        return switch (action) {
+            case FREEZE_PLAN -> Optional.of(new Confirmation("Freeze the evaluation plan of round " + round.code() + "?",
+                    "The plan becomes version 1, fixed with its SHA-256 fingerprint. It decides how the assigned values, "
+                            + "σpt and the scores are found. A later change is a new version with a reason, and the "
+                            + "reports name every version.", address, fields, null, false, null, "Freeze the plan", back));
+            case CLOSE -> round.resultDeadline() != null && round.resultDeadline().toInstant().isAfter(clock.instant())
+                    ? Optional.of(new Confirmation("Close round " + round.code() + " before its deadline?",
+                    "The deadline has not passed. Once closed, laboratories that have not reported can no longer "
+                            + "submit or revise results; the round moves on to evaluation.", address, fields,
+                    "Reason for closing early", false, reason, "Close for results now", back))
+                    : Optional.empty();
+            case CANCEL -> {
+                long holding = results.laboratoriesWithResults(roundId);
+                String held = holding == 0 ? "No laboratory has reported results yet."
+                        : holding + (holding == 1 ? " laboratory has" : " laboratories have")
+                        + " reported results: they stay stored but are never evaluated or scored.";
+                yield Optional.of(new Confirmation("Cancel round " + round.code() + "?",
+                        "The round ends for good: no more results are taken, nothing is evaluated and no report is "
+                                + "issued. " + held, address, fields, "Reason for cancelling", holding > 0,
+                        reason, "Cancel the round", back));
+            }
+            default -> Optional.empty();
+        };
     }
 
     /** Saves the draft plan, or — once frozen — stores a new version with the reason given. */
@@ -230,11 +311,21 @@ public class RoundPages {
     @RolesAllowed(Role.COORDINATOR_NAME)
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
     public Response withdraw(@PathParam("roundId") long roundId, @FormParam("itemLabel") String label,
-                             @FormParam("reason") String reason) {
+                             @FormParam("reason") String reason, @FormParam("confirmed") String confirmed) {
+        boolean secondStep = Confirmation.confirmed(confirmed);
+        Confirmation step = new Confirmation("Withdraw item " + (label == null ? "" : label.strip()) + " from round "
+                + rounds.get(roundId).code() + "?",
+                "The item is withdrawn for every laboratory: results on it are no longer evaluated, and each "
+                        + "participant gets a notice with your reason.", "/rounds/" + roundId + "/items/withdrawal",
+                List.of(new Confirmation.Field("itemLabel", label == null ? "" : label)), "Reason (shown to the laboratories)",
+                true, reason, "Withdraw the item", "/rounds/" + roundId);
         return FormActions.attempt(() -> {
+            if (!secondStep) {
+                return confirmations.page(step, null);
+            }
             enrolments.withdraw(roundId, new EnrolmentService.Withdrawal(label, reason));
             return roundPage(roundId, null, "Item withdrawn; the participants have a notice.", null);
-        }, e -> roundPage(roundId, e, null, null));
+        }, e -> secondStep ? confirmations.page(step, e) : roundPage(roundId, e, null, null));
     }
 
     @POST

@@ -35,7 +35,8 @@ public class RoundResource {
         this.qualification = qualification;
     }
 
-    public record Transition(String action) {
+    /** A lifecycle step; {@code reason} is needed to cancel a round that holds results, optional otherwise. */
+    public record Transition(String action, String reason) {
     }
 
     @GET
@@ -84,7 +85,8 @@ public class RoundResource {
     @POST
     @Path("/{roundId}/transitions")
     public RoundService.RoundView transition(@PathParam("roundId") long roundId, Transition transition) {
-        return rounds.transition(roundId, transition == null ? null : transition.action());
+        return rounds.transition(roundId, transition == null ? null : transition.action(),
+                transition == null ? null : transition.reason());
     }
 
     /** The code table: laboratories and their participant codes. */

@@ -64,11 +64,13 @@ public class RoundService {
     private final ObjectMapper mapper;
     private final Clock clock;
     private final NoticeService notices;
+    private final RoundResults results;
 
     public RoundService(RoundRepository rounds, SchemeService schemes, RoundGate gate, PlanStore plans,
                         EnrolmentService enrolments, QualificationService qualification, AuditTrail audit,
                         CurrentUser currentUser, EntityManager entityManager, ObjectMapper mapper, Clock clock,
-                        NoticeService notices, PrecisionPlanStore precisionPlans) {
+                        NoticeService notices, PrecisionPlanStore precisionPlans, RoundResults results) {
+        this.results = results;
         this.rounds = rounds;
         this.precisionPlans = precisionPlans;
         this.schemes = schemes;
@@ -291,7 +293,19 @@ public class RoundService {
     /** Takes a lifecycle step; refuses, with the state named, a step that is not possible now. */
     @Transactional
     public RoundView transition(long roundId, String actionName) {
+        return transition(roundId, actionName, null);
+    }
+
+    /**
+     * Takes a lifecycle step; {@code reason} is recorded in the audit trail. Cancelling a round that holds
+     * laboratories' results needs a reason.
+     */
+    @Transactional
+    public RoundView transition(long roundId, String actionName, String reason) {
         RoundAction action = parseAction(actionName);
+        if (reason != null && reason.length() > 1000) {
+            throw new DomainException.BadRequest("The reason is longer than 1000 characters.");
+        }
         if (!action.changesState()) {
             throw new DomainException.BadRequest(RoundStateMachine.describe(action) + " is not a lifecycle step.");
         }
@@ -326,6 +340,14 @@ public class RoundService {
                             + ": upload homogeneity data that passes, or record a decision with a reason.");
                 }
             }
+            case CANCEL -> {
+                long holding = results.laboratoriesWithResults(round.id);
+                if (holding > 0 && (reason == null || reason.isBlank())) {
+                    throw new DomainException.BadRequest("The round holds results from " + holding
+                            + (holding == 1 ? " laboratory" : " laboratories") + ": give a reason for cancelling it.");
+                }
+                detail = "laboratoriesWithResults=" + holding;
+            }
             case DISPATCH_ITEMS -> {
                 int items = enrolments.dispatchAll(round);
                 if (items == 0) {
@@ -343,7 +365,8 @@ public class RoundService {
         entityManager.flush();
         audit.record(new AuditTrail.Event(currentUser.actor(), "round." + action.name().toLowerCase(Locale.ROOT)
                 .replace('_', '-'), "round", round.id.toString(), before, hash(round),
-                "from=" + from + " to=" + next + (detail == null ? "" : " " + detail)));
+                "from=" + from + " to=" + next + (detail == null ? "" : " " + detail)
+                        + (reason == null || reason.isBlank() ? "" : " reason=" + reason.strip())));
         if (action == RoundAction.OPEN_FOR_RESULTS) {
             notices.notifyLaboratoriesOfRound(NoticeKind.ROUND_OPENED, "round:" + round.id, round.id, false,
                     java.util.Map.of("round", round.code, "roundId", round.id, "deadline", round.resultDeadline));

@@ -28,6 +28,16 @@ public class Scheme {
     @Column(name = "material_family", nullable = false)
     public MaterialFamily materialFamily;
 
+    /** The provider named on this scheme's reports where it differs from the installation's; null for none. */
+    @Column(name = "provider_name")
+    public String providerName;
+
+    @Column(name = "provider_address")
+    public String providerAddress;
+
+    @Column(name = "provider_accreditation")
+    public String providerAccreditation;
+
     @Column(name = "created_at", nullable = false)
     public OffsetDateTime createdAt;
 

@@ -163,6 +163,41 @@ public class SchemeService {
                 scheme.id.toString(), before, hash(scheme), "secondReviewerRequired=" + required));
     }
 
+    /**
+     * The proficiency-testing provider named on reports: organisation, postal address, accreditation identifier
+     * (address and accreditation may be null).
+     */
+    public record Provider(String name, String address, String accreditation) {
+    }
+
+    /** The scheme's own provider for its reports, where one is set (else the installation's applies). */
+    @Transactional
+    public java.util.Optional<Provider> providerOf(long schemeId) {
+        Scheme s = find(schemeId);
+        return s.providerName == null ? java.util.Optional.empty()
+                : java.util.Optional.of(new Provider(s.providerName, s.providerAddress, s.providerAccreditation));
+    }
+
+    /**
+     * Sets the provider named on the scheme's reports issued from now on; a blank name clears it, so that the
+     * installation's provider applies again. Documents issued already keep the provider they name. Audited.
+     */
+    @Transactional
+    public void setProvider(long schemeId, Provider provider) {
+        Scheme scheme = find(schemeId);
+        String before = hash(scheme);
+        boolean clear = provider == null || provider.name() == null || provider.name().isBlank();
+        scheme.providerName = clear ? null : text(provider.name(), "provider's name", 200);
+        scheme.providerAddress = clear ? null : optional(provider.address(), "provider's address", 500);
+        scheme.providerAccreditation = clear ? null : optional(provider.accreditation(), "accreditation identifier", 100);
+        audit.record(new AuditTrail.Event(currentUser.actor(), "scheme.provider", "scheme", scheme.id.toString(), before,
+                hash(scheme), clear ? "provider=installation" : "provider=" + scheme.providerName));
+    }
+
+    private static String optional(String value, String what, int max) {
+        return value == null || value.isBlank() ? null : text(value, what, max);
+    }
+
     Scheme find(long schemeId) {
         return schemes.findByIdOptional(schemeId).orElseThrow(() -> new DomainException.NotFound("The scheme"));
     }
@@ -221,6 +256,12 @@ public class SchemeService {
         fields.put("name", s.name);
         fields.put("materialFamily", s.materialFamily);
         fields.put("secondReviewerRequired", s.secondReviewerRequired);
+        if (s.providerName != null) {
+            // only when set, so that the hash of a scheme without its own provider is what it always was
+            fields.put("providerName", s.providerName);
+            fields.put("providerAddress", s.providerAddress);
+            fields.put("providerAccreditation", s.providerAccreditation);
+        }
         return ObjectHash.of(fields);
     }
 

@@ -78,9 +78,9 @@ class EvaluationPagesBrowserTest {
 
         String page = browser.findElement(By.id("content")).getText();
         assertThat(page).contains("evaluation version 1 (preview)").contains("for coordinators only")
-                .contains("CONSENSUS_ALL").contains("FIXED");
+                .contains("Consensus of all participants").contains("Fixed by the scheme");
         String scores = browser.findElement(By.cssSelector("section.measurand table.scores")).getText();
-        assertThat(scores.lines().filter(l -> l.contains("spark-oes")).count()).isEqualTo(values.length);
+        assertThat(scores.lines().filter(l -> l.contains("Spark OES")).count()).isEqualTo(values.length);
         assertThat(scores).contains("unsatisfactory").contains("satisfactory");
         Browser.screenshot(browser, "evaluation-run");
 

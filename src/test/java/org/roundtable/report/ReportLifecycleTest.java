@@ -174,6 +174,32 @@ class ReportLifecycleTest {
     }
 
     @Test
+    void everyIssuedDocumentHasAnHtmlViewWithTheSameAccessAsItsPdfAndNamesTheSchemesProvider() {
+        evaluatedRound();
+        World.Browser coordinator = world.signIn(world.user("coordinator", null));
+        long scheme = Long.parseLong(world.text("SELECT scheme_id::text FROM round WHERE id = ?", round));
+        coordinator.form().formParam("providerName", "Northfield Metals Proficiency Office")
+                .formParam("providerAddress", "4 Foundry Lane, Northfield")
+                .formParam("providerAccreditation", "PTP-0417")
+                .post("/schemes/" + scheme + "/provider").then().statusCode(200);
+        issue(coordinator, "preliminary", "{\"version\": 1}");
+        World.Browser labA = world.signIn(world.user("lab-member", labs[0]));
+        World.Browser labB = world.signIn(world.user("lab-member", labs[1]));
+        Map<String, Object> ownDoc = documents(labA, "/api/v1/my-rounds/").stream()
+                .filter(d -> "LABORATORY".equals(d.get("kind"))).findFirst().orElseThrow();
+        Response html = labA.request().get("/api/v1/my-rounds/" + round + "/documents/" + ownDoc.get("id") + "/html");
+        assertThat(html.statusCode()).isEqualTo(200);
+        assertThat(html.contentType()).startsWith("text/html");
+        assertThat(html.header("Content-Security-Policy")).contains("default-src 'none'").doesNotContain("script-src");
+        assertThat(html.asString()).contains((String) ownDoc.get("reportId"))
+                .contains("Northfield Metals Proficiency Office").contains("4 Foundry Lane, Northfield").contains("PTP-0417")
+                .doesNotContain("by the coordinator: null").doesNotContain("(given)");
+        // another laboratory's report is "not found" for its HTML view too
+        labB.request().get("/api/v1/my-rounds/" + round + "/documents/" + ownDoc.get("id") + "/html").then().statusCode(404);
+        coordinator.request().get("/api/v1/rounds/" + round + "/documents/" + ownDoc.get("id") + "/html").then().statusCode(200);
+    }
+
+    @Test
     void aSchemeWithASecondReviewerRefusesTheFinalReportUntilAnotherCoordinatorSigns() {
         evaluatedRound();
         world.sql("UPDATE scheme SET second_reviewer_required = true WHERE id = (SELECT scheme_id FROM round WHERE id = ?)", round);

@@ -73,11 +73,14 @@ class ReportPagesBrowserTest {
 
         signIn(coordinator, coordinatorPage);
         submit(By.id("issue-preliminary"));
+        // issuing cannot be undone: the second step names the consequence first
+        assertThat(browser.findElement(By.id("confirm-consequence")).getText()).contains("every participant");
+        submit(By.id("confirm-do"));
         runJobs();
         browser.get(base + coordinatorPage.substring(1));
         assertThat(browser.findElement(By.id("documents")).getText()).contains(code + "-R-P1");
         submit(By.id("open-comment-period"));
-        assertThat(browser.findElement(By.id("round-state")).getText()).isEqualTo("COMMENT_PERIOD");
+        assertThat(browser.findElement(By.id("round-state")).getText()).isEqualTo("Comment period");
         signOut();
 
         signIn(member, labPage);
@@ -94,10 +97,11 @@ class ReportPagesBrowserTest {
         assertThat(browser.findElement(By.cssSelector(".comment .answer")).getText()).contains("Confirmed");
         submit(By.id("sign-off"));
         submit(By.id("issue-final"));
+        submit(By.id("confirm-do"));
         runJobs();
         browser.get(base + coordinatorPage.substring(1));
         assertThat(browser.findElement(By.id("documents")).getText()).contains(code + "-R-F");
-        assertThat(browser.findElement(By.id("round-state")).getText()).isEqualTo("FINAL_ISSUED");
+        assertThat(browser.findElement(By.id("round-state")).getText()).isEqualTo("Final report issued");
         Browser.screenshot(browser, "round-reports");
         signOut();
 

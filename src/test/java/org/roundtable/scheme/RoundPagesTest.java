@@ -43,15 +43,19 @@ class RoundPagesTest {
                 .formParam("timeZone", "Europe/Warsaw").formParam("instructions", "Grind a fresh surface before each burn.")
                 .formParam("latePolicy", "ACCEPT_FLAGGED_SCORED").formParam("codeScope", "ROUND").post("/rounds");
         assertThat(round.statusCode()).as(round.asString()).isEqualTo(200);
-        assertThat(round.asString()).contains("Round " + code).contains("Draft").contains("Freeze plan")
+        assertThat(round.asString()).contains("Round " + code).contains("Draft").contains("Freeze the evaluation plan")
                 .contains("2027-05-31 12:00 Europe/Warsaw");
         long roundId = world.insert("SELECT id FROM round WHERE code = ?", code);
         Response plan = coordinator.form().accept("text/html").formParam("plan",
                 "{\"measurands\":[{\"element\":\"C\",\"assignedValueMethod\":\"CONSENSUS_ALL\",\"sigmaPtMethod\":\"FIXED\",\"sigmaPt\":\"0.03\"}]}")
                 .post("/rounds/" + roundId + "/plan");
         assertThat(plan.asString()).contains("Draft plan saved.");
-        Response frozen = coordinator.form().accept("text/html").formParam("action", "FREEZE_PLAN")
+        // freezing cannot be undone: the first post answers the second step and freezes nothing
+        Response step = coordinator.form().accept("text/html").formParam("action", "FREEZE_PLAN")
                 .post("/rounds/" + roundId + "/transitions");
+        assertThat(step.asString()).contains("Freeze the evaluation plan of round " + code + "?").contains("Draft");
+        Response frozen = coordinator.form().accept("text/html").formParam("action", "FREEZE_PLAN")
+                .formParam("confirmed", "yes").post("/rounds/" + roundId + "/transitions");
         assertThat(frozen.asString()).contains("Plan frozen").contains("Frozen, version 1");
         Response refused = coordinator.form().accept("text/html").formParam("action", "DISPATCH_ITEMS")
                 .post("/rounds/" + roundId + "/transitions");

@@ -327,6 +327,8 @@ class AuthorizationMatrixTest {
                                 + "content_type, bytes, sha256, issued_at, issued_by) VALUES (?, 'LABORATORY', 'FINAL', ?, ?, "
                                 + "'application/pdf', ?, ?, now(), 'matrix') RETURNING id", World.unique("MATRIX"), round, labA,
                         bytes, org.roundtable.platform.Secrets.sha256Hex(bytes));
+                world.insert("INSERT INTO issued_document_html (document_id, html) VALUES (?, '<p>matrix</p>') "
+                        + "RETURNING document_id", document);
                 resolved = resolved.replace("{documentId}", Long.toString(document));
                 if (resolved.contains("{commentId}")) {
                     long comment = world.insert("INSERT INTO report_comment (round_id, document_id, laboratory_id, "

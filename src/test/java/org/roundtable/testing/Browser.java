@@ -8,16 +8,31 @@ import org.openqa.selenium.chrome.ChromeDriver;
 import org.openqa.selenium.chrome.ChromeDriverService;
 import org.openqa.selenium.chrome.ChromeOptions;
 
+import org.openqa.selenium.WebDriverException;
+
 import java.io.File;
+import java.lang.reflect.InvocationHandler;
+import java.lang.reflect.InvocationTargetException;
+import java.lang.reflect.Proxy;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.LinkedHashSet;
+import java.util.List;
+import java.util.Set;
 import java.io.IOException;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.time.Duration;
 
 /**
- * Headless Chromium for page tests. Where no browser is installed the test is skipped visibly (a JUnit
- * assumption names what is missing) — unless {@code REQUIRE_BROWSER=true}, as in CI, where a missing
+ * Headless Chromium for page tests, 1366 × 900. Where no browser is installed the test is skipped visibly (a
+ * JUnit assumption names what is missing) — unless {@code REQUIRE_BROWSER=true}, as in CI, where a missing
  * browser fails the run.
+ *
+ * <p>Every page the test visits is checked once it has loaded ({@link PageChecks}: no domain constant name in
+ * the visible text, no serious or critical axe-core violation). The check runs on the driver's next call after
+ * a page has loaded and on {@code quit()}; {@code quit()} fails the test with every problem found.
+ * {@code PAGE_CHECKS=off} turns the checks off for a local run.
  */
 public final class Browser {
 
@@ -42,14 +57,76 @@ public final class Browser {
         options.setBinary(chromium);
         options.addArguments("--headless=new", "--no-sandbox", "--disable-gpu", "--disable-dev-shm-usage",
                 "--disable-background-networking", "--disable-component-update", "--disable-sync",
-                "--no-first-run", "--disable-quic", "--window-size=1280,900", "--user-data-dir=" + tempProfile());
+                "--no-first-run", "--disable-quic", "--window-size=1366,900", "--user-data-dir=" + tempProfile());
         ChromeDriverService service = new ChromeDriverService.Builder()
                 .usingDriverExecutable(new File(driver))
                 .usingAnyFreePort()
                 .build();
         ChromeDriver chrome = new ChromeDriver(service, options);
         chrome.manage().timeouts().pageLoadTimeout(Duration.ofSeconds(30));
-        return chrome;
+        // the page area itself is 1366 × 900 (the window size includes the browser's own frame)
+        chrome.executeCdpCommand("Emulation.setDeviceMetricsOverride",
+                java.util.Map.of("width", 1366, "height", 900, "deviceScaleFactor", 1, "mobile", false));
+        if ("off".equalsIgnoreCase(System.getenv("PAGE_CHECKS"))) {
+            return chrome;
+        }
+        return checked(chrome);
+    }
+
+    /** Scripts that mark a loaded page as checked; answer true only the first time for a loaded page. */
+    private static final String FIRST_LOOK = "if (document.readyState !== 'complete' || window.__roundtableChecked) "
+            + "{ return false; } window.__roundtableChecked = true; return true;";
+
+    private static WebDriver checked(ChromeDriver chrome) {
+        List<String> problems = new ArrayList<>();
+        boolean[] checking = {false};
+        Runnable look = () -> {
+            if (checking[0]) {
+                return;
+            }
+            checking[0] = true;
+            try {
+                if (Boolean.TRUE.equals(chrome.executeScript(FIRST_LOOK))) {
+                    for (String problem : PageChecks.problemsOf(chrome)) {
+                        if (!problems.contains(problem)) {
+                            problems.add(problem);
+                        }
+                    }
+                }
+            } catch (WebDriverException navigatedAway) {
+                // the page went while it was read: the next page is checked on the next call
+            } finally {
+                checking[0] = false;
+            }
+        };
+        Set<Class<?>> interfaces = new LinkedHashSet<>();
+        for (Class<?> c = chrome.getClass(); c != null; c = c.getSuperclass()) {
+            interfaces.addAll(Arrays.asList(c.getInterfaces()));
+        }
+        InvocationHandler handler = (proxy, method, args) -> {
+            String name = method.getName();
+            if (name.equals("quit")) {
+                look.run();
+                try {
+                    chrome.quit();
+                } finally {
+                    if (!problems.isEmpty()) {
+                        throw new AssertionError("Pages failed the page checks:\n  " + String.join("\n  ", problems));
+                    }
+                }
+                return null;
+            }
+            if (!name.equals("getScreenshotAs") && !name.equals("executeScript") && !name.equals("close")) {
+                look.run();
+            }
+            try {
+                return method.invoke(chrome, args);
+            } catch (InvocationTargetException e) {
+                throw e.getCause();
+            }
+        };
+        return (WebDriver) Proxy.newProxyInstance(Browser.class.getClassLoader(), interfaces.toArray(new Class<?>[0]),
+                handler);
     }
 
     /**
@@ -90,10 +167,10 @@ public final class Browser {
     /** Saves a screenshot under target/screenshots for a person to look at. */
     public static void screenshot(WebDriver driver, String name) {
         try {
-            Path dir = Path.of("target", "screenshots");
-            Files.createDirectories(dir);
+            Path file = Path.of("target", "screenshots").resolve(name + ".png");
+            Files.createDirectories(file.getParent());
             byte[] png = ((TakesScreenshot) driver).getScreenshotAs(OutputType.BYTES);
-            Files.write(dir.resolve(name + ".png"), png);
+            Files.write(file, png);
         } catch (IOException e) {
             throw new IllegalStateException("could not save screenshot " + name, e);
         }

@@ -315,13 +315,26 @@ public final class ReportCharts {
 
     private static List<ValueMarker> scoreLines(MeasurandSection m) {
         if (m.scoreKind() == ScoreKind.EN) {
-            return List.of(marker(1, ReportColours.BAD, REFERENCE_STROKE, "+1"),
-                    marker(-1, ReportColours.BAD, REFERENCE_STROKE, ReportFormat.MINUS + "1"));
+            return List.of(scoreLine(1, ReportColours.BAD, REFERENCE_STROKE, "+1"),
+                    scoreLine(-1, ReportColours.BAD, REFERENCE_STROKE, ReportFormat.MINUS + "1"));
         }
-        return List.of(marker(2, ReportColours.WARN, DASHED_STROKE, "+2"),
-                marker(-2, ReportColours.WARN, DASHED_STROKE, ReportFormat.MINUS + "2"),
-                marker(3, ReportColours.BAD, REFERENCE_STROKE, "+3"),
-                marker(-3, ReportColours.BAD, REFERENCE_STROKE, ReportFormat.MINUS + "3"));
+        return List.of(scoreLine(2, ReportColours.WARN, DASHED_STROKE, "+2"),
+                scoreLine(-2, ReportColours.WARN, DASHED_STROKE, ReportFormat.MINUS + "2"),
+                scoreLine(3, ReportColours.BAD, REFERENCE_STROKE, "+3"),
+                scoreLine(-3, ReportColours.BAD, REFERENCE_STROKE, ReportFormat.MINUS + "3"));
+    }
+
+    /**
+     * A score limit line whose label sits on the side facing zero, so that "+3" near the top of the axis is
+     * never cut off by the plot's edge (it was, above its line, when the axis ends at 3.5).
+     */
+    private static ValueMarker scoreLine(double value, Color colour, Stroke stroke, String label) {
+        ValueMarker line = marker(value, colour, stroke, label);
+        if (value > 0) {
+            line.setLabelAnchor(RectangleAnchor.BOTTOM_RIGHT);
+            line.setLabelTextAnchor(TextAnchor.TOP_RIGHT);
+        }
+        return line;
     }
 
     // ---------------------------------------------------------------- kernel density

@@ -188,7 +188,9 @@ final class ReportDocument {
             identRow("Participant code", "<span class=\"you\">" + esc(ownCode) + "</span>");
             identRow("Round report", esc(roundReportId) + " (every participant's results, by code)");
         }
-        identRow("Provider", esc(id.providerName()));
+        identRow("Provider", esc(id.providerName())
+                + (id.providerAddress() == null ? "" : "<br/>" + esc(id.providerAddress()))
+                + (id.providerAccreditation() == null ? "" : "<br/>Accreditation " + esc(id.providerAccreditation())));
         Signatory coordinator = report.signatures().coordinator();
         identRow("Coordinator", esc(coordinator.name() + ", " + coordinator.function()));
         out.append("</table>\n");
@@ -217,9 +219,13 @@ final class ReportDocument {
                     .append(esc(id.amendmentReason()));
         }
         out.append("</p></div>\n<p>").append(esc(report.confidentialityStatement())).append("</p>\n");
-        out.append("<p>Participants are identified only by their participant codes")
-                .append(forLaboratory() ? "; your code in this round is <span class=\"you\">" + esc(ownCode)
-                        + "</span>." : ".").append("</p>\n");
+        // the confidentiality statement says already that participants appear by code only; say it once
+        if (!report.confidentialityStatement().contains("participant code")) {
+            out.append("<p>Participants are identified only by their participant codes.</p>\n");
+        }
+        if (forLaboratory()) {
+            out.append("<p>Your code in this round is <span class=\"you\">").append(esc(ownCode)).append("</span>.</p>\n");
+        }
         if (forLaboratory()) {
             out.append("<p>This report shows your own results and scores, the round's key figures and the charts, "
                     + "in which other participants appear only as unlabelled bars and points (or by code in small "
