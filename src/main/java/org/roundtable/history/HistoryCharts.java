@@ -158,7 +158,7 @@ public final class HistoryCharts {
     private static StringBuilder open(String label) {
         return new StringBuilder(4096).append(String.format(Locale.ROOT,
                 "<svg xmlns=\"http://www.w3.org/2000/svg\" class=\"history-chart\" width=\"%d\" height=\"%d\" viewBox=\"0 0 %d %d\" "
-                        + "role=\"img\" aria-label=\"%s\" font-family=\"sans-serif\" font-size=\"11\"><title>%s</title>",
+                        + "role=\"group\" aria-label=\"%s\" font-family=\"sans-serif\" font-size=\"11\"><title>%s</title>",
                 WIDTH, HEIGHT, WIDTH, HEIGHT, esc(label), esc(label)));
     }
 

@@ -96,7 +96,7 @@ public class PrecisionReportService {
                     + ": evaluate again before issuing the report.");
         }
         LocalDate today = LocalDate.now(clock.withZone(ZoneOffset.UTC));
-        String reportId = study.roundCode() + (status == ReportStatus.FINAL ? "-PRECISION" : "-PRECISION-DRAFT");
+        String reportId = study.roundCode() + (status == ReportStatus.FINAL ? "-PRECISION" : "-PRECISION-P");
         PrecisionReportDocument.Content content = content(study, run, reportId, status, today.toString());
         PrecisionReportDocument.Built built = PrecisionReportDocument.build(content, true);
         byte[] pdf = PDF.renderDocument(built.xhtml(), built.charts());

@@ -53,7 +53,7 @@ class RoundPagesTest {
         // freezing cannot be undone: the first post answers the second step and freezes nothing
         Response step = coordinator.form().accept("text/html").formParam("action", "FREEZE_PLAN")
                 .post("/rounds/" + roundId + "/transitions");
-        assertThat(step.asString()).contains("Freeze the evaluation plan of round " + code + "?").contains("Draft");
+        assertThat(step.asString()).contains("Freeze the evaluation plan of round " + code + "?").contains("This cannot be undone.");
         Response frozen = coordinator.form().accept("text/html").formParam("action", "FREEZE_PLAN")
                 .formParam("confirmed", "yes").post("/rounds/" + roundId + "/transitions");
         assertThat(frozen.asString()).contains("Plan frozen").contains("Frozen, version 1");
