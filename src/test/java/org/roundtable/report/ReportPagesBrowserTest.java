@@ -72,9 +72,9 @@ class ReportPagesBrowserTest {
         String labPage = "/my-rounds/" + round + "/reports";
 
         signIn(coordinator, coordinatorPage);
-        submit(By.id("issue-preliminary"));
+        Browser.submit(browser, By.id("issue-preliminary")); // answers the second step, not a notice
         // issuing cannot be undone: the second step names the consequence first
-        assertThat(browser.findElement(By.id("confirm-consequence")).getText()).contains("every participant");
+        assertThat(browser.findElement(By.id("confirm-consequence")).getText()).contains("Every participant receives");
         submit(By.id("confirm-do"));
         runJobs();
         browser.get(base + coordinatorPage.substring(1));
@@ -96,7 +96,7 @@ class ReportPagesBrowserTest {
         submit(By.cssSelector(".comment .answer-button"));
         assertThat(browser.findElement(By.cssSelector(".comment .answer")).getText()).contains("Confirmed");
         submit(By.id("sign-off"));
-        submit(By.id("issue-final"));
+        Browser.submit(browser, By.id("issue-final")); // answers the second step, not a notice
         submit(By.id("confirm-do"));
         runJobs();
         browser.get(base + coordinatorPage.substring(1));
