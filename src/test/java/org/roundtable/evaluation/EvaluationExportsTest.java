@@ -421,7 +421,7 @@ class EvaluationExportsTest {
             int exit = EvaluateCommand.run(args.toArray(String[]::new), new PrintStream(out, true, StandardCharsets.UTF_8),
                     new PrintStream(err, true, StandardCharsets.UTF_8));
             assertThat(exit).as(err.toString(StandardCharsets.UTF_8)).isZero();
-            return new ObjectMapper().readTree(out.toString(StandardCharsets.UTF_8));
+            return org.roundtable.testing.EvaluateOutput.read(out.toString(StandardCharsets.UTF_8));
         } finally {
             Files.deleteIfExists(file);
         }

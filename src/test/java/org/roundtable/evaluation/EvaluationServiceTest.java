@@ -341,7 +341,7 @@ class EvaluationServiceTest {
             int exit = EvaluateCommand.run(new String[]{"--sigma-pt", "Mn=0.010", csv.toString()},
                     new PrintStream(out, true, StandardCharsets.UTF_8), new PrintStream(err, true, StandardCharsets.UTF_8));
             assertThat(exit).as(err.toString(StandardCharsets.UTF_8)).isZero();
-            JsonNode offline = new ObjectMapper().readTree(out.toString(StandardCharsets.UTF_8)).path("measurands").get(0);
+            JsonNode offline = org.roundtable.testing.EvaluateOutput.read(out.toString(StandardCharsets.UTF_8)).path("measurands").get(0);
 
             assertThat(offline.path("n").asInt()).isEqualTo(stored.n());
             assertThat(offline.path("censored").asInt()).isEqualTo(1);

@@ -221,7 +221,7 @@ class VerdictsTest {
             int exit = EvaluateCommand.run(arguments.toArray(String[]::new),
                     new PrintStream(out, true, StandardCharsets.UTF_8), new PrintStream(err, true, StandardCharsets.UTF_8));
             assertThat(exit).as(err.toString(StandardCharsets.UTF_8)).isZero();
-            JsonNode offline = new ObjectMapper().readTree(out.toString(StandardCharsets.UTF_8)).path("measurands").get(0);
+            JsonNode offline = org.roundtable.testing.EvaluateOutput.read(out.toString(StandardCharsets.UTF_8)).path("measurands").get(0);
             Map<String, JsonNode> byParticipant = new HashMap<>();
             offline.path("scores").forEach(s -> byParticipant.put(s.path("participant").asText(), s));
             for (EvaluationViews.Score s : stored.scores()) {

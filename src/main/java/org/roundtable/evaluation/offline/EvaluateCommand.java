@@ -1,28 +1,16 @@
 package org.roundtable.evaluation.offline;
 
 import com.fasterxml.jackson.databind.ObjectMapper;
-import com.fasterxml.jackson.databind.SerializationFeature;
 import com.fasterxml.jackson.databind.node.ArrayNode;
 import com.fasterxml.jackson.databind.node.ObjectNode;
 import java.io.IOException;
-import java.io.InputStream;
-import java.io.InputStreamReader;
 import java.io.PrintStream;
-import java.io.Reader;
-import java.nio.charset.CharacterCodingException;
-import java.nio.charset.CodingErrorAction;
-import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
-import java.util.ArrayList;
-import java.util.HashMap;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.regex.Pattern;
-import org.apache.commons.csv.CSVFormat;
-import org.apache.commons.csv.CSVParser;
-import org.apache.commons.csv.CSVRecord;
 import java.math.BigDecimal;
 import org.roundtable.platform.NumberFormats;
 import org.roundtable.statistics.MeasurandEvaluation;
@@ -41,8 +29,17 @@ import org.roundtable.statistics.StatisticsWarning;
  * evaluate [--sigma-pt MEASURAND=VALUE]... [--assigned MEASURAND=VALUE[:EXPANDED_U[:K]]]...
  *          [--score-decimals MEASURAND=N]... [--coverage-factor MEASURAND=K]...
  *          [--minimum-participants MEASURAND=N]... [--minimum-for-sigma MEASURAND=N]...
- *          [--information-only MEASURAND]... [--digits MEASURAND=N]... FILE.csv
+ *          [--information-only MEASURAND]... [--digits MEASURAND=N]... [--format json|csv] FILE.csv
  * </pre>
+ *
+ * <p>Output: with {@code --format json} (the default) one compact JSON object per measurand per line (JSON Lines),
+ * in order of the measurands' first appearance in the file; with {@code --format csv} a header and one row per
+ * score with the numbers as printed ({@link #CSV_COLUMNS}), for spreadsheets. Warnings go to stderr, and so do
+ * progress lines for files of {@value #PROGRESS_ROWS} results or more.
+ *
+ * <p>Memory: the file is read record by record into primitive columns ({@code ResultColumns}, about 35 bytes a
+ * result); each measurand is evaluated, written and dropped in turn, so a 1,000,000-row file runs in a 256 MB
+ * heap.
  *
  * <p>The options are a plan's choices for one measurand, with the plan's defaults: score decimals 2 (scores are
  * classified as printed), En with both expanded uncertainties at k = 2, at least 10 results for a consensus x_pt
@@ -78,10 +75,16 @@ public final class EvaluateCommand {
             + " [--assigned MEASURAND=VALUE:EXPANDED_U[:K]]... [--score-decimals MEASURAND=N]..."
             + " [--coverage-factor MEASURAND=K]... [--minimum-participants MEASURAND=N]..."
             + " [--minimum-for-sigma MEASURAND=N]... [--information-only MEASURAND]... [--digits MEASURAND=N]..."
-            + " FILE.csv";
+            + " [--format json|csv] FILE.csv";
     private static final List<String> VALUED = List.of("--sigma-pt", "--assigned", "--score-decimals",
             "--coverage-factor", "--minimum-participants", "--minimum-for-sigma", "--digits");
     private static final Pattern NUMBER = Pattern.compile("[+-]?(\\d+(\\.\\d*)?|\\.\\d+)([eE][+-]?\\d+)?");
+    /** Files with at least this many results get progress lines on stderr. */
+    static final int PROGRESS_ROWS = 100_000;
+    /** The columns of {@code --format csv}: one row per score, the numbers as printed. */
+    static final List<String> CSV_COLUMNS = List.of("measurand", "unit", "participant", "reported", "value",
+            "assigned_value", "sigma_pt", "score_used", "z", "z_prime", "zeta", "en", "classification",
+            "information_only");
 
     private EvaluateCommand() {
     }
@@ -125,30 +128,39 @@ public final class EvaluateCommand {
             Map<String, Double> sigmas = new LinkedHashMap<>();
             Map<String, Assigned> assigned = new LinkedHashMap<>();
             Map<String, Choices> choices = new LinkedHashMap<>();
-            String file = parseArguments(args, sigmas, assigned, choices);
-            Map<String, List<MeasurandEvaluation.ParticipantResult>> byMeasurand = new LinkedHashMap<>();
-            Map<String, String> units = new HashMap<>();
-            readCsv(Path.of(file), byMeasurand, units);
+            String[] format = {"json"};
+            String file = parseArguments(args, sigmas, assigned, choices, format);
+            ResultColumns.File input = ResultColumns.read(Path.of(file), err);
             for (String m : sigmas.keySet()) {
-                if (!byMeasurand.containsKey(m)) {
+                if (!input.measurands().containsKey(m)) {
                     throw new BadInput("option --sigma-pt: measurand '" + m + "' is not in " + file);
                 }
             }
             for (String m : assigned.keySet()) {
-                if (!byMeasurand.containsKey(m)) {
+                if (!input.measurands().containsKey(m)) {
                     throw new BadInput("option --assigned: measurand '" + m + "' is not in " + file);
                 }
             }
             for (String m : choices.keySet()) {
-                if (!byMeasurand.containsKey(m)) {
+                if (!input.measurands().containsKey(m)) {
                     throw new BadInput("option for measurand '" + m + "': it is not in " + file);
                 }
             }
-            ObjectMapper mapper = new ObjectMapper().enable(SerializationFeature.INDENT_OUTPUT);
-            ObjectNode root = mapper.createObjectNode();
-            ArrayNode measurands = root.putArray("measurands");
-            for (Map.Entry<String, List<MeasurandEvaluation.ParticipantResult>> e : byMeasurand.entrySet()) {
+            ObjectMapper mapper = new ObjectMapper();
+            boolean csv = format[0].equals("csv");
+            if (csv) {
+                out.println(String.join(",", CSV_COLUMNS));
+            }
+            int total = input.measurands().size();
+            int done = 0;
+            boolean progress = input.rows() >= PROGRESS_ROWS;
+            // one measurand at a time: its results are built, evaluated, written and dropped
+            for (java.util.Iterator<Map.Entry<String, ResultColumns>> it = input.measurands().entrySet().iterator();
+                    it.hasNext(); ) {
+                Map.Entry<String, ResultColumns> e = it.next();
                 String m = e.getKey();
+                List<MeasurandEvaluation.ParticipantResult> results = e.getValue().results(input.participants());
+                it.remove();
                 Assigned a = assigned.get(m);
                 Choices c = choices.getOrDefault(m, new Choices());
                 MeasurandEvaluation.Rules rules = new MeasurandEvaluation.Rules(QuartileRule.DEFAULT,
@@ -166,15 +178,23 @@ public final class EvaluateCommand {
                 Double bigU = a == null ? null : a.expandedUncertainty() / a.decimalK().doubleValue()
                         * MeasurandEvaluation.DEFAULT_COVERAGE_FACTOR;
                 MeasurandEvaluation.Result r = MeasurandEvaluation.evaluate(new MeasurandEvaluation.Input(
-                        m, units.get(m), e.getValue(), a == null ? null : a.value(), bigU, sigmas.get(m), rules,
+                        m, input.units().get(m), results, a == null ? null : a.value(), bigU, sigmas.get(m), rules,
                         decimals, small));
-                int digits = c.digits != null ? c.digits : decimalsOf(e.getValue());
-                measurands.add(toJson(mapper, r, digits));
+                int digits = c.digits != null ? c.digits : decimalsOf(results);
+                if (csv) {
+                    writeCsv(out, r, digits);
+                } else {
+                    out.println(mapper.writeValueAsString(toJson(mapper, r, digits)));
+                }
+                out.flush();
                 for (StatisticsWarning w : r.warnings()) {
                     err.println("warning: " + m + ": " + w.code() + ": " + w.message());
                 }
+                done++;
+                if (progress) {
+                    err.println("progress: " + done + " of " + total + " measurands evaluated");
+                }
             }
-            out.println(mapper.writeValueAsString(root));
             out.flush();
             return OK;
         } catch (BadInput e) {
@@ -187,7 +207,7 @@ public final class EvaluateCommand {
     }
 
     private static String parseArguments(String[] args, Map<String, Double> sigmas,
-            Map<String, Assigned> assigned, Map<String, Choices> choices) throws BadInput {
+            Map<String, Assigned> assigned, Map<String, Choices> choices, String[] format) throws BadInput {
         String file = null;
         for (int i = 0; i < args.length; i++) {
             String arg = args[i];
@@ -197,6 +217,19 @@ public final class EvaluateCommand {
             if (arg.startsWith("--") && eq > 0) {
                 option = arg.substring(0, eq);
                 value = arg.substring(eq + 1);
+            }
+            if (option.equals("--format")) {
+                if (value == null) {
+                    if (i + 1 >= args.length) {
+                        throw new BadInput("option --format needs json or csv. " + USAGE);
+                    }
+                    value = args[++i];
+                }
+                if (!value.equals("json") && !value.equals("csv")) {
+                    throw new BadInput("option --format: '" + value + "' is neither json nor csv. " + USAGE);
+                }
+                format[0] = value;
+                continue;
             }
             if (option.equals("--information-only")) {
                 if (value == null) {
@@ -320,121 +353,6 @@ public final class EvaluateCommand {
         return v;
     }
 
-    private static void readCsv(Path file, Map<String, List<MeasurandEvaluation.ParticipantResult>> byMeasurand,
-            Map<String, String> units) throws BadInput {
-        String text;
-        try (InputStream in = Files.newInputStream(file)) {
-            byte[] bytes = in.readAllBytes();
-            text = StandardCharsets.UTF_8.newDecoder().onMalformedInput(CodingErrorAction.REPORT)
-                    .onUnmappableCharacter(CodingErrorAction.REPORT)
-                    .decode(java.nio.ByteBuffer.wrap(bytes)).toString();
-        } catch (CharacterCodingException e) {
-            throw new BadInput(file + ": not valid UTF-8");
-        } catch (IOException e) {
-            throw new BadInput(file + ": cannot read file (" + e.getClass().getSimpleName() + ": "
-                    + e.getMessage() + ")");
-        }
-        if (text.startsWith("\uFEFF")) {
-            text = text.substring(1);
-        }
-        // the delimiter as the server's upload detects it: ';' when the header has ';' and no ',' — then a decimal
-        // comma is accepted in the number columns
-        String headerLine = text.lines().filter(l -> !l.isBlank()).findFirst().orElse("");
-        boolean semicolon = headerLine.indexOf(';') >= 0 && headerLine.indexOf(',') < 0;
-        CSVFormat format = CSVFormat.RFC4180.builder().setIgnoreSurroundingSpaces(false)
-                .setDelimiter(semicolon ? ';' : ',').get();
-        Map<String, Integer> rowOf = new HashMap<>();
-        Map<String, Integer> unitRow = new HashMap<>();
-        try (Reader reader = new java.io.StringReader(text); CSVParser parser = CSVParser.parse(reader, format)) {
-            Map<String, Integer> index = null;
-            for (CSVRecord record : parser) {
-                long row = record.getRecordNumber();
-                if (index == null) {
-                    index = header(record);
-                    continue;
-                }
-                if (record.size() == 1 && record.get(0).isBlank()) {
-                    continue; // blank line
-                }
-                if (record.size() != COLUMNS.size()) {
-                    throw new BadInput("row " + row + ": has " + record.size() + " fields, the header has "
-                            + COLUMNS.size());
-                }
-                String participant = field(record, index, "participant");
-                String measurand = measurandName(field(record, index, "measurand"));
-                String unit = field(record, index, "unit");
-                String reported = decimalPoint(field(record, index, "value"), semicolon);
-                String uText = decimalPoint(field(record, index, "expanded_uncertainty"), semicolon);
-                String kText = decimalPoint(field(record, index, "coverage_factor"), semicolon);
-                String method = field(record, index, "method");
-                requireNonEmpty(row, "participant", participant);
-                requireNonEmpty(row, "measurand", measurand);
-                requireNonEmpty(row, "unit", unit);
-                requireNonEmpty(row, "value", reported);
-                boolean lessThan = reported.startsWith("<");
-                String numberText = lessThan ? reported.substring(1).trim() : reported;
-                double value = parseNumber(row, "value", numberText, lessThan
-                        ? "expected '<' followed by a number" : "expected a number or '<number'");
-                Double u = null;
-                if (!uText.isEmpty()) {
-                    u = parseNumber(row, "expanded_uncertainty", uText, "expected a number");
-                    if (u < 0) {
-                        throw new BadInput("row " + row + ", column expanded_uncertainty: must be >= 0, got '" + uText + "'");
-                    }
-                }
-                // the server's range rules (submission.intake.ResultRanges): the same numbers are refused alike
-                if (numberText.startsWith("-")) {
-                    throw new BadInput("row " + row + ", column value: '" + reported + "': "
-                            + ResultRanges.negativeMessage());
-                }
-                java.util.Optional<String> above = ResultRanges.aboveHundredPercent(new BigDecimal(numberText), unit);
-                if (above.isPresent()) {
-                    throw new BadInput("row " + row + ", column value: '" + reported + "': " + above.get());
-                }
-                Double k = null;
-                if (!kText.isEmpty()) {
-                    k = parseNumber(row, "coverage_factor", kText, "expected a number");
-                    if (!(k > 0)) {
-                        throw new BadInput("row " + row + ", column coverage_factor: must be > 0, got '" + kText + "'");
-                    }
-                    if (!ResultRanges.coverageFactorInRange(new BigDecimal(kText))) {
-                        throw new BadInput("row " + row + ", column coverage_factor: '" + kText + "': "
-                                + ResultRanges.coverageFactorMessage());
-                    }
-                    if (u == null) {
-                        throw new BadInput("row " + row + ", column coverage_factor: given without an expanded_uncertainty");
-                    }
-                }
-                String previousUnit = units.putIfAbsent(measurand, unit);
-                if (previousUnit == null) {
-                    unitRow.put(measurand, (int) row);
-                } else if (!previousUnit.equals(unit)) {
-                    throw new BadInput("row " + row + ", column unit: '" + unit + "' differs from '" + previousUnit
-                            + "' (row " + unitRow.get(measurand) + ") for measurand '" + measurand
-                            + "'; one unit per measurand");
-                }
-                Integer earlier = rowOf.putIfAbsent(participant + "\u0000" + measurand, (int) row);
-                if (earlier != null) {
-                    throw new BadInput("row " + row + ", column participant: duplicate result of '" + participant
-                            + "' for measurand '" + measurand + "' (first in row " + earlier + ")");
-                }
-                byMeasurand.computeIfAbsent(measurand, m -> new ArrayList<>()).add(
-                        new MeasurandEvaluation.ParticipantResult(participant, reported, value, lessThan, u, k,
-                                method.isEmpty() ? null : method));
-            }
-            if (index == null) {
-                throw new BadInput("row 1: the file is empty; expected the header " + String.join(",", COLUMNS));
-            }
-            if (byMeasurand.isEmpty()) {
-                throw new BadInput("the file has a header and no results");
-            }
-        } catch (java.io.UncheckedIOException | IllegalStateException e) {
-            throw new BadInput(file + ": not valid CSV (" + e.getMessage() + ")");
-        } catch (IOException e) {
-            throw new BadInput(file + ": not valid CSV (" + e.getMessage() + ")");
-        }
-    }
-
     /**
      * A measurand name with the server's case rule for element symbols: {@code mn} and {@code MN} are Mn, also
      * before an item label ({@code mn-1} is Mn-1); any other name is kept as written.
@@ -446,51 +364,39 @@ public final class EvaluateCommand {
                 .orElse(text);
     }
 
-    /** In a semicolon-separated file a decimal comma is a decimal point (as in the server's upload). */
-    private static String decimalPoint(String text, boolean semicolon) {
-        return semicolon && text.indexOf(',') >= 0 && text.indexOf('.') < 0 ? text.replace(',', '.') : text;
-    }
 
-    private static Map<String, Integer> header(CSVRecord record) throws BadInput {
-        Map<String, Integer> index = new HashMap<>();
-        for (int i = 0; i < record.size(); i++) {
-            String name = record.get(i).trim();
-            if (!COLUMNS.contains(name)) {
-                throw new BadInput("row 1, column " + (i + 1) + ": unknown column '" + name + "'; expected "
-                        + String.join(",", COLUMNS));
+
+
+
+
+    private static void writeCsv(PrintStream out, MeasurandEvaluation.Result r, int digits) {
+        StringBuilder line = new StringBuilder(160);
+        String assignedValue = NumberFormats.plainStatistic(r.assignedValue(), digits);
+        String sigmaPt = NumberFormats.plainStatistic(r.sigmaPt(), digits);
+        String used = r.scoreUsed() == null ? "" : r.scoreUsed().jsonName();
+        for (MeasurandEvaluation.ParticipantScore s : r.scores()) {
+            line.setLength(0);
+            boolean informationOnly = r.informationOnly() && s.value() != null
+                    && (s.z() != null || s.zPrime() != null || s.zeta() != null || s.en() != null);
+            String[] cells = {r.measurand(), r.unit(), s.participant(), s.reported(),
+                    NumberFormats.plainResult(s.value(), digits), assignedValue, sigmaPt, used,
+                    NumberFormats.plainScore(s.z(), r.scoreDecimals()),
+                    NumberFormats.plainScore(s.zPrime(), r.scoreDecimals()),
+                    NumberFormats.plainScore(s.zeta(), r.scoreDecimals()),
+                    NumberFormats.plainScore(s.en(), r.scoreDecimals()),
+                    s.classification(), informationOnly ? "true" : "false"};
+            for (int i = 0; i < cells.length; i++) {
+                if (i > 0) {
+                    line.append(',');
+                }
+                // participant codes, units and reported texts come from the file: written as text cells; the
+                // numbers are ours and keep their minus sign
+                boolean fromFile = i <= 3;
+                line.append(fromFile ? org.roundtable.platform.CsvText.cell(cells[i])
+                        : cells[i] == null ? "" : cells[i]);
             }
-            if (index.put(name, i) != null) {
-                throw new BadInput("row 1, column " + (i + 1) + ": column '" + name + "' appears twice");
-            }
+            out.println(line);
         }
-        for (String c : COLUMNS) {
-            if (!index.containsKey(c)) {
-                throw new BadInput("row 1: missing column '" + c + "'; expected " + String.join(",", COLUMNS));
-            }
-        }
-        return index;
-    }
-
-    private static String field(CSVRecord record, Map<String, Integer> index, String column) {
-        return record.get(index.get(column)).trim();
-    }
-
-    private static void requireNonEmpty(long row, String column, String text) throws BadInput {
-        if (text.isEmpty()) {
-            throw new BadInput("row " + row + ", column " + column + ": must not be empty");
-        }
-    }
-
-    private static double parseNumber(long row, String column, String text, String expectation) throws BadInput {
-        if (!NUMBER.matcher(text).matches()) {
-            throw new BadInput("row " + row + ", column " + column + ": '" + text + "' is not a number ("
-                    + expectation + ", '.' as decimal point)");
-        }
-        double v = Double.parseDouble(text);
-        if (!Double.isFinite(v)) {
-            throw new BadInput("row " + row + ", column " + column + ": '" + text + "' is out of range");
-        }
-        return v;
     }
 
     private static ObjectNode toJson(ObjectMapper mapper, MeasurandEvaluation.Result r, int digits) {

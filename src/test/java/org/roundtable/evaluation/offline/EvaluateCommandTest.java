@@ -12,6 +12,7 @@ import java.io.PrintStream;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
+import java.util.List;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 import org.junit.jupiter.params.ParameterizedTest;
@@ -28,7 +29,7 @@ class EvaluateCommandTest {
 
     record Run(int exitCode, String out, String err) {
         JsonNode json() throws IOException {
-            return new ObjectMapper().readTree(out);
+            return org.roundtable.testing.EvaluateOutput.read(out);
         }
     }
 
@@ -283,5 +284,62 @@ class EvaluateCommandTest {
         assertEquals("0.000300", m.get("printed").get("assignedValue").asText());
         m.get("printed").forEach(v -> assertFalse(v.asText().matches(".*[eE].*"), v.asText()));
         m.get("scores").forEach(s -> s.get("printed").forEach(v -> assertFalse(v.asText().matches(".*[eE].*"))));
+    }
+
+    @Test
+    void eachMeasurandIsOneCompactJsonObjectOnItsOwnLine() throws IOException {
+        Run r = run(manganeseCsv() + "L01,Cr,% m/m,18.1,0.1,,\nL02,Cr,% m/m,18.2,0.1,,\n", "--sigma-pt", "Mn=0.010");
+        assertEquals(0, r.exitCode(), r.err());
+        String[] lines = r.out().strip().split("\n");
+        assertEquals(2, lines.length, r.out());
+        assertTrue(lines[0].startsWith("{\"measurand\":\"Mn\""), lines[0]);
+        assertTrue(lines[1].startsWith("{\"measurand\":\"Cr\""), lines[1]);
+        assertFalse(r.out().contains("\n  "), "no indentation");
+    }
+
+    @Test
+    void csvFormatGivesOneRowPerScoreWithThePrintedNumbers() throws IOException {
+        Run r = run(manganeseCsv(), "--sigma-pt", "Mn=0.010", "--format", "csv");
+        assertEquals(0, r.exitCode(), r.err());
+        List<String> lines = r.out().lines().toList();
+        assertEquals(String.join(",", EvaluateCommand.CSV_COLUMNS), lines.get(0));
+        assertEquals(1 + MANGANESE.length, lines.size());
+        // L19: z = 2.444524 printed at 2 decimals, questionable (as in the JSON test above)
+        String l19 = lines.stream().filter(l -> l.contains(",L19,")).findFirst().orElseThrow();
+        assertTrue(l19.contains(",z,2.44,"), l19);
+        assertTrue(l19.endsWith(",questionable,false"), l19);
+        String first = lines.get(1);
+        // arithmetic: z = (0.742 - 0.74755)/0.010 = -0.555 -> -0.56; the minus sign is kept (no apostrophe)
+        assertTrue(first.matches("Mn,% m/m,L01,0\\.742,0\\.742,0\\.7476,0\\.0100,z,-0\\.56,.*,satisfactory,false"), first);
+        assertEquals(2, run(manganeseCsv(), "--format", "xml").exitCode());
+    }
+
+    @Test
+    void aLargeFileIsReadAndWrittenOneMeasurandAtATimeInASmallHeap() throws Exception {
+        // 2,000 participants x 100 measurands = 200,000 results; a 64 MB heap holds the columns (some 7 MB) and
+        // one measurand, not the file as text or all scores at once
+        Path file = dir.resolve("large.csv");
+        java.util.SplittableRandom random = new java.util.SplittableRandom(20261202);
+        try (java.io.BufferedWriter w = Files.newBufferedWriter(file, StandardCharsets.UTF_8)) {
+            w.write(HEADER);
+            for (int m = 0; m < 100; m++) {
+                for (int p = 0; p < 2000; p++) {
+                    w.write(String.format(java.util.Locale.ROOT, "P%04d,M%03d,mg/kg,%.3f,,,%n", p, m,
+                            100 + m + random.nextGaussian()));
+                }
+            }
+        }
+        Process child = new ProcessBuilder(Path.of(System.getProperty("java.home"), "bin", "java").toString(),
+                "-Xmx64m", "-cp", System.getProperty("java.class.path"), "org.roundtable.RoundtableMain", "evaluate",
+                "--format", "csv", file.toString())
+                .redirectOutput(ProcessBuilder.Redirect.to(dir.resolve("large-out.csv").toFile()))
+                .redirectError(ProcessBuilder.Redirect.to(dir.resolve("large-err.txt").toFile())).start();
+        assertTrue(child.waitFor(5, java.util.concurrent.TimeUnit.MINUTES));
+        String err = Files.readString(dir.resolve("large-err.txt"));
+        assertEquals(0, child.exitValue(), err);
+        assertTrue(err.contains("progress: 200000 rows read") || err.contains("progress: 100 of 100 measurands"), err);
+        try (var lines = Files.lines(dir.resolve("large-out.csv"))) {
+            assertEquals(1 + 200_000, lines.count());
+        }
     }
 }

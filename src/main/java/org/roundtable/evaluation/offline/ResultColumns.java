@@ -1,0 +1,383 @@
+package org.roundtable.evaluation.offline;
+
+import java.io.BufferedReader;
+import java.io.IOException;
+import java.io.InputStreamReader;
+import java.io.PrintStream;
+import java.io.Reader;
+import java.io.UncheckedIOException;
+import java.math.BigDecimal;
+import java.nio.charset.CharacterCodingException;
+import java.nio.charset.CodingErrorAction;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.HashMap;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.Optional;
+import java.util.regex.Pattern;
+import org.apache.commons.csv.CSVFormat;
+import org.apache.commons.csv.CSVParser;
+import org.apache.commons.csv.CSVRecord;
+import org.roundtable.statistics.MeasurandEvaluation;
+import org.roundtable.submission.intake.ResultRanges;
+
+/**
+ * One measurand's results of an {@code evaluate} input file, held as primitive columns (about 35 bytes a result),
+ * and the streaming reader that fills them.
+ *
+ * <p>The file is read record by record (never as one string); participant codes and method names are kept once;
+ * a reported text is kept only when the number and its count of decimals do not give it back. So a 1,000,000-row
+ * file takes some 40 MB, and {@link #results} builds the {@code ParticipantResult}s of one measurand only when it is
+ * evaluated.
+ */
+final class ResultColumns {
+
+    private static final Pattern NUMBER = Pattern.compile("[+-]?(\\d+(\\.\\d*)?|\\.\\d+)([eE][+-]?\\d+)?");
+    private static final Pattern PLAIN_DECIMAL = Pattern.compile("\\d+(\\.\\d+)?");
+    /** Rows between two progress lines on stderr. */
+    static final int PROGRESS_EVERY = 250_000;
+
+    private int size;
+    private int[] participant = new int[16];
+    private double[] value = new double[16];
+    private double[] expandedUncertainty = new double[16];
+    private double[] coverageFactor = new double[16];
+    private int[] method = new int[16];
+    private byte[] decimals = new byte[16];
+    private boolean[] lessThan = new boolean[16];
+    private final Map<Integer, String> oddReported = new HashMap<>();
+    private final List<String> methods;
+
+    private ResultColumns(List<String> methods) {
+        this.methods = methods;
+    }
+
+    /**
+     * A read file: its measurands in order of first appearance, their units, the participant codes and the number
+     * of results.
+     */
+    record File(LinkedHashMap<String, ResultColumns> measurands, Map<String, String> units, List<String> participants,
+            long rows) {
+    }
+
+    /** The measurand's results, in file order. */
+    List<MeasurandEvaluation.ParticipantResult> results(List<String> participants) {
+        List<MeasurandEvaluation.ParticipantResult> out = new ArrayList<>(size);
+        for (int i = 0; i < size; i++) {
+            String reported = oddReported.get(i);
+            if (reported == null) {
+                String number = new BigDecimal(Double.toString(value[i])).setScale(decimals[i],
+                        java.math.RoundingMode.HALF_EVEN).toPlainString();
+                reported = lessThan[i] ? "<" + number : number;
+            }
+            out.add(new MeasurandEvaluation.ParticipantResult(participants.get(participant[i]), reported, value[i],
+                    lessThan[i], Double.isNaN(expandedUncertainty[i]) ? null : expandedUncertainty[i],
+                    Double.isNaN(coverageFactor[i]) ? null : coverageFactor[i],
+                    method[i] < 0 ? null : methods.get(method[i])));
+        }
+        return out;
+    }
+
+    private void add(int participantIndex, String reported, String numberText, double v, boolean below, Double u,
+            Double k, int methodIndex) {
+        if (size == value.length) {
+            int grown = size + (size >> 1) + 16;
+            participant = Arrays.copyOf(participant, grown);
+            value = Arrays.copyOf(value, grown);
+            expandedUncertainty = Arrays.copyOf(expandedUncertainty, grown);
+            coverageFactor = Arrays.copyOf(coverageFactor, grown);
+            method = Arrays.copyOf(method, grown);
+            decimals = Arrays.copyOf(decimals, grown);
+            lessThan = Arrays.copyOf(lessThan, grown);
+        }
+        participant[size] = participantIndex;
+        value[size] = v;
+        lessThan[size] = below;
+        expandedUncertainty[size] = u == null ? Double.NaN : u;
+        coverageFactor[size] = k == null ? Double.NaN : k;
+        method[size] = methodIndex;
+        int dot = numberText.indexOf('.');
+        int places = dot < 0 ? 0 : numberText.length() - dot - 1;
+        boolean rebuilt = PLAIN_DECIMAL.matcher(numberText).matches() && places <= 30
+                && reported.equals((below ? "<" : "") + new BigDecimal(Double.toString(v))
+                        .setScale(places, java.math.RoundingMode.HALF_EVEN).toPlainString());
+        decimals[size] = (byte) places;
+        if (!rebuilt) {
+            oddReported.put(size, reported);
+        }
+        size++;
+    }
+
+    /**
+     * Reads an {@code evaluate} input file (see {@link EvaluateCommand}) record by record.
+     *
+     * @param progress receives a line every {@value #PROGRESS_EVERY} rows
+     */
+    static File read(Path file, PrintStream progress) throws EvaluateCommand.BadInput {
+        LinkedHashMap<String, ResultColumns> byMeasurand = new LinkedHashMap<>();
+        Map<String, String> units = new HashMap<>();
+        Map<String, Integer> unitRow = new HashMap<>();
+        Map<String, Integer> participantIndex = new HashMap<>();
+        List<String> participants = new ArrayList<>();
+        Map<String, Integer> methodIndex = new HashMap<>();
+        List<String> methods = new ArrayList<>();
+        Map<String, Integer> measurandIndex = new HashMap<>();
+        FirstRows firstRows = new FirstRows();
+        long rows = 0;
+        try (BufferedReader reader = new BufferedReader(new InputStreamReader(Files.newInputStream(file),
+                StandardCharsets.UTF_8.newDecoder().onMalformedInput(CodingErrorAction.REPORT)
+                        .onUnmappableCharacter(CodingErrorAction.REPORT)), 1 << 16)) {
+            // a byte order mark is skipped; the delimiter as the server's upload detects it: ';' when the header
+            // has ';' and no ',' — then a decimal comma is accepted in the number columns
+            reader.mark(1 << 16);
+            int first = reader.read();
+            if (first != '\uFEFF') {
+                reader.reset();
+            }
+            reader.mark(1 << 16);
+            String headerLine = "";
+            for (String line = reader.readLine(); line != null; line = reader.readLine()) {
+                if (!line.isBlank()) {
+                    headerLine = line;
+                    break;
+                }
+            }
+            reader.reset();
+            boolean semicolon = headerLine.indexOf(';') >= 0 && headerLine.indexOf(',') < 0;
+            CSVFormat format = CSVFormat.RFC4180.builder().setIgnoreSurroundingSpaces(false)
+                    .setDelimiter(semicolon ? ';' : ',').get();
+            try (Reader body = reader; CSVParser parser = CSVParser.parse(body, format)) {
+                Map<String, Integer> index = null;
+                for (CSVRecord record : parser) {
+                    long row = record.getRecordNumber();
+                    if (index == null) {
+                        index = header(record);
+                        continue;
+                    }
+                    if (record.size() == 1 && record.get(0).isBlank()) {
+                        continue; // blank line
+                    }
+                    if (record.size() != EvaluateCommand.COLUMNS.size()) {
+                        throw new EvaluateCommand.BadInput("row " + row + ": has " + record.size()
+                                + " fields, the header has " + EvaluateCommand.COLUMNS.size());
+                    }
+                    String participant = field(record, index, "participant");
+                    String measurand = EvaluateCommand.measurandName(field(record, index, "measurand"));
+                    String unit = field(record, index, "unit");
+                    String reported = decimalPoint(field(record, index, "value"), semicolon);
+                    String uText = decimalPoint(field(record, index, "expanded_uncertainty"), semicolon);
+                    String kText = decimalPoint(field(record, index, "coverage_factor"), semicolon);
+                    String method = field(record, index, "method");
+                    requireNonEmpty(row, "participant", participant);
+                    requireNonEmpty(row, "measurand", measurand);
+                    requireNonEmpty(row, "unit", unit);
+                    requireNonEmpty(row, "value", reported);
+                    boolean below = reported.startsWith("<");
+                    String numberText = below ? reported.substring(1).trim() : reported;
+                    double v = parseNumber(row, "value", numberText, below
+                            ? "expected '<' followed by a number" : "expected a number or '<number'");
+                    Double u = null;
+                    if (!uText.isEmpty()) {
+                        u = parseNumber(row, "expanded_uncertainty", uText, "expected a number");
+                        if (u < 0) {
+                            throw new EvaluateCommand.BadInput("row " + row
+                                    + ", column expanded_uncertainty: must be >= 0, got '" + uText + "'");
+                        }
+                    }
+                    // the server's range rules (submission.intake.ResultRanges): the same numbers are refused alike
+                    if (numberText.startsWith("-")) {
+                        throw new EvaluateCommand.BadInput("row " + row + ", column value: '" + reported + "': "
+                                + ResultRanges.negativeMessage());
+                    }
+                    Optional<String> above = ResultRanges.aboveHundredPercent(new BigDecimal(numberText), unit);
+                    if (above.isPresent()) {
+                        throw new EvaluateCommand.BadInput("row " + row + ", column value: '" + reported + "': "
+                                + above.get());
+                    }
+                    Double k = null;
+                    if (!kText.isEmpty()) {
+                        k = parseNumber(row, "coverage_factor", kText, "expected a number");
+                        if (!(k > 0)) {
+                            throw new EvaluateCommand.BadInput("row " + row
+                                    + ", column coverage_factor: must be > 0, got '" + kText + "'");
+                        }
+                        if (!ResultRanges.coverageFactorInRange(new BigDecimal(kText))) {
+                            throw new EvaluateCommand.BadInput("row " + row + ", column coverage_factor: '" + kText
+                                    + "': " + ResultRanges.coverageFactorMessage());
+                        }
+                        if (u == null) {
+                            throw new EvaluateCommand.BadInput("row " + row
+                                    + ", column coverage_factor: given without an expanded_uncertainty");
+                        }
+                    }
+                    String previousUnit = units.putIfAbsent(measurand, unit);
+                    if (previousUnit == null) {
+                        unitRow.put(measurand, (int) row);
+                    } else if (!previousUnit.equals(unit)) {
+                        throw new EvaluateCommand.BadInput("row " + row + ", column unit: '" + unit
+                                + "' differs from '" + previousUnit + "' (row " + unitRow.get(measurand)
+                                + ") for measurand '" + measurand + "'; one unit per measurand");
+                    }
+                    int p = participantIndex.computeIfAbsent(participant, code -> {
+                        participants.add(code);
+                        return participants.size() - 1;
+                    });
+                    int m = measurandIndex.computeIfAbsent(measurand, name -> measurandIndex.size());
+                    int earlier = firstRows.putIfAbsent(((long) p << 32) | m, (int) row);
+                    if (earlier >= 0) {
+                        throw new EvaluateCommand.BadInput("row " + row + ", column participant: duplicate result of '"
+                                + participant + "' for measurand '" + measurand + "' (first in row " + earlier + ")");
+                    }
+                    int methodAt = method.isEmpty() ? -1 : methodIndex.computeIfAbsent(method, name -> {
+                        methods.add(name);
+                        return methods.size() - 1;
+                    });
+                    byMeasurand.computeIfAbsent(measurand, name -> new ResultColumns(methods))
+                            .add(p, reported, numberText, v, below, u, k, methodAt);
+                    rows++;
+                    if (rows % PROGRESS_EVERY == 0) {
+                        progress.println("progress: " + rows + " rows read");
+                    }
+                }
+                if (index == null) {
+                    throw new EvaluateCommand.BadInput("row 1: the file is empty; expected the header "
+                            + String.join(",", EvaluateCommand.COLUMNS));
+                }
+                if (byMeasurand.isEmpty()) {
+                    throw new EvaluateCommand.BadInput("the file has a header and no results");
+                }
+            }
+        } catch (UncheckedIOException e) {
+            throw unreadable(file, e.getCause());
+        } catch (IllegalStateException e) {
+            throw new EvaluateCommand.BadInput(file + ": not valid CSV (" + e.getMessage() + ")");
+        } catch (IOException e) {
+            throw unreadable(file, e);
+        }
+        return new File(byMeasurand, units, participants, rows);
+    }
+
+    private static EvaluateCommand.BadInput unreadable(Path file, IOException e) {
+        if (e instanceof CharacterCodingException) {
+            return new EvaluateCommand.BadInput(file + ": not valid UTF-8");
+        }
+        if (e instanceof java.nio.file.NoSuchFileException || e instanceof java.nio.file.AccessDeniedException) {
+            return new EvaluateCommand.BadInput(file + ": cannot read file (" + e.getClass().getSimpleName() + ": "
+                    + e.getMessage() + ")");
+        }
+        return new EvaluateCommand.BadInput(file + ": not valid CSV (" + e.getMessage() + ")");
+    }
+
+    /** In a semicolon-separated file a decimal comma is a decimal point (as in the server's upload). */
+    private static String decimalPoint(String text, boolean semicolon) {
+        return semicolon && text.indexOf(',') >= 0 && text.indexOf('.') < 0 ? text.replace(',', '.') : text;
+    }
+
+    private static Map<String, Integer> header(CSVRecord record) throws EvaluateCommand.BadInput {
+        Map<String, Integer> index = new HashMap<>();
+        for (int i = 0; i < record.size(); i++) {
+            String name = record.get(i).trim();
+            if (!EvaluateCommand.COLUMNS.contains(name)) {
+                throw new EvaluateCommand.BadInput("row 1, column " + (i + 1) + ": unknown column '" + name
+                        + "'; expected " + String.join(",", EvaluateCommand.COLUMNS));
+            }
+            if (index.put(name, i) != null) {
+                throw new EvaluateCommand.BadInput("row 1, column " + (i + 1) + ": column '" + name
+                        + "' appears twice");
+            }
+        }
+        for (String c : EvaluateCommand.COLUMNS) {
+            if (!index.containsKey(c)) {
+                throw new EvaluateCommand.BadInput("row 1: missing column '" + c + "'; expected "
+                        + String.join(",", EvaluateCommand.COLUMNS));
+            }
+        }
+        return index;
+    }
+
+    private static String field(CSVRecord record, Map<String, Integer> index, String column) {
+        return record.get(index.get(column)).trim();
+    }
+
+    private static void requireNonEmpty(long row, String column, String text) throws EvaluateCommand.BadInput {
+        if (text.isEmpty()) {
+            throw new EvaluateCommand.BadInput("row " + row + ", column " + column + ": must not be empty");
+        }
+    }
+
+    private static double parseNumber(long row, String column, String text, String expectation)
+            throws EvaluateCommand.BadInput {
+        if (!NUMBER.matcher(text).matches()) {
+            throw new EvaluateCommand.BadInput("row " + row + ", column " + column + ": '" + text
+                    + "' is not a number (" + expectation + ", '.' as decimal point)");
+        }
+        double v = Double.parseDouble(text);
+        if (!Double.isFinite(v)) {
+            throw new EvaluateCommand.BadInput("row " + row + ", column " + column + ": '" + text
+                    + "' is out of range");
+        }
+        return v;
+    }
+
+    /**
+     * The first row of each (participant, measurand) pair: an open-addressing table of primitive keys (16 bytes a
+     * pair at most), so that a million results need no million boxed keys.
+     */
+    private static final class FirstRows {
+        private long[] keys = new long[1 << 10];
+        private int[] rows = new int[1 << 10];
+        private int size;
+
+        FirstRows() {
+            Arrays.fill(rows, -1);
+        }
+
+        /** Stores {@code row} for {@code key} unless present; returns the earlier row, or −1. */
+        int putIfAbsent(long key, int row) {
+            if (2 * (size + 1) > keys.length) {
+                grow();
+            }
+            int mask = keys.length - 1;
+            for (int i = slot(key, mask); ; i = (i + 1) & mask) {
+                if (rows[i] < 0) {
+                    keys[i] = key;
+                    rows[i] = row;
+                    size++;
+                    return -1;
+                }
+                if (keys[i] == key) {
+                    return rows[i];
+                }
+            }
+        }
+
+        private static int slot(long key, int mask) {
+            long h = key * 0x9E3779B97F4A7C15L;
+            return (int) (h ^ (h >>> 32)) & mask;
+        }
+
+        private void grow() {
+            long[] oldKeys = keys;
+            int[] oldRows = rows;
+            keys = new long[oldKeys.length * 2];
+            rows = new int[oldRows.length * 2];
+            Arrays.fill(rows, -1);
+            int mask = keys.length - 1;
+            for (int j = 0; j < oldKeys.length; j++) {
+                if (oldRows[j] >= 0) {
+                    int i = slot(oldKeys[j], mask);
+                    while (rows[i] >= 0) {
+                        i = (i + 1) & mask;
+                    }
+                    keys[i] = oldKeys[j];
+                    rows[i] = oldRows[j];
+                }
+            }
+        }
+    }
+}
