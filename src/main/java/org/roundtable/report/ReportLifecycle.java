@@ -86,11 +86,12 @@ public class ReportLifecycle {
     private final CurrentUser currentUser;
     private final Clock clock;
     private final NoticeService notices;
+    private final ReportRenderPool renderPool;
 
     public ReportLifecycle(EntityManager entityManager, ReportAssembler assembler, IssuedDocuments documents,
                            ReportVisibility visibility, RoundService rounds, RoundAccess roundAccess,
                            SchemeService schemes, JobService jobs, AuditorGrantService grants, AuditTrail audit,
-                           CurrentUser currentUser, Clock clock, NoticeService notices) {
+                           CurrentUser currentUser, Clock clock, NoticeService notices, ReportRenderPool renderPool) {
         this.entityManager = entityManager;
         this.assembler = assembler;
         this.documents = documents;
@@ -104,6 +105,7 @@ public class ReportLifecycle {
         this.currentUser = currentUser;
         this.clock = clock;
         this.notices = notices;
+        this.renderPool = renderPool;
     }
 
     // ---- views and requests ------------------------------------------------------------------------------
@@ -500,18 +502,19 @@ public class ReportLifecycle {
                 row.status(), replaces, row.reason(), today, assembler.providerName()));
         ReportAssembler.Assembled assembled = assembler.assemble(row.roundId(), row.runVersion(), identity, signatures,
                 row.comments());
-        // one renderer for every document of the run: it computes the charts' data once per measurand
-        PdfReportRenderer renderer = new PdfReportRenderer();
-        HtmlReportRenderer htmlRenderer = new HtmlReportRenderer();
+        // the laboratory reports are rendered on the pool (each worker's renderers compute a measurand's chart data
+        // once) and written here in order; the round report and the state change come last, in one transaction
+        ReportRenderPool.Renderers own = ReportRenderPool.Renderers.fresh();
         List<String> codes = new ArrayList<>(assembled.laboratories().keySet());
         int total = codes.size() + 1;
         progress.report(0, total);
         Map<Long, IssuedDocument> previous = row.status() == ReportStatus.AMENDED ? latestLaboratoryDocuments(row.roundId())
                 : Map.of();
-        int issuedLabs = 0;
+        int[] issuedLabs = {0};
+        int[] done = {0};
         Map<Long, String> laboratoryReports = new LinkedHashMap<>();
-        for (int i = 0; i < codes.size(); i++) {
-            String code = codes.get(i);
+        List<LaboratoryReport> toRender = new ArrayList<>();
+        for (String code : codes) {
             long laboratory = assembled.laboratories().get(code);
             String reportId = row.roundCode() + "-" + code + "-" + row.suffix();
             Optional<IssuedDocument> existing = documents.byReportId(reportId);
@@ -519,35 +522,44 @@ public class ReportLifecycle {
                 if (!documents.evaluationRunOf(existing.get().id()).orElse(-1L).equals(assembled.evaluationRunId())) {
                     throw new IllegalStateException("report " + reportId + " was issued from another evaluation run");
                 }
-                issuedLabs++;
+                issuedLabs[0]++;
                 laboratoryReports.put(laboratory, reportId);
-            } else {
-                String labReplaces = null;
-                if (row.status() == ReportStatus.AMENDED) {
-                    IssuedDocument before = previous.get(laboratory);
-                    if (before == null) {
-                        // a participant without an earlier report gets none in an amendment (nothing to replace)
-                        progress.report(i + 1, total);
-                        continue;
-                    }
-                    labReplaces = before.reportId();
-                }
-                ReportIdentity labIdentity = identity.withReport(reportId, labReplaces);
-                LaboratoryReport lab = new LaboratoryReport(withIdentity(assembled, labIdentity), code,
-                        row.roundReportId());
-                byte[] bytes = renderer.render(lab);
-                String html = htmlRenderer.render(lab);
-                IssuedDocument issued = documents.issue(new IssuedDocuments.Issue(labIdentity, DocumentKind.LABORATORY,
-                        row.roundId(), laboratory, PDF, bytes, assembled.evaluationRunId()), actor);
-                documents.attachHtml(issued.id(), html);
-                issuedLabs++;
-                laboratoryReports.put(laboratory, reportId);
+                progress.report(++done[0], total);
+                continue;
             }
-            progress.report(i + 1, total);
+            String labReplaces = null;
+            if (row.status() == ReportStatus.AMENDED) {
+                IssuedDocument before = previous.get(laboratory);
+                if (before == null) {
+                    // a participant without an earlier report gets none in an amendment (nothing to replace)
+                    progress.report(++done[0], total);
+                    continue;
+                }
+                labReplaces = before.reportId();
+            }
+            ReportIdentity labIdentity = identity.withReport(reportId, labReplaces);
+            toRender.add(new LaboratoryReport(withIdentity(assembled, labIdentity), code, row.roundReportId()));
         }
+        record Rendered(LaboratoryReport lab, byte[] pdf, String html) {
+        }
+        renderPool.renderInOrder(toRender, own,
+                (lab, renderers) -> new Rendered(lab, renderers.pdf().render(lab), renderers.html().render(lab)),
+                rendered -> {
+                    long laboratory = assembled.laboratories().get(rendered.lab().ownParticipantCode());
+                    ReportIdentity labIdentity = rendered.lab().round().identity();
+                    IssuedDocument issued = documents.issue(new IssuedDocuments.Issue(labIdentity,
+                            DocumentKind.LABORATORY, row.roundId(), laboratory, PDF, rendered.pdf(),
+                            assembled.evaluationRunId()), actor);
+                    documents.attachHtml(issued.id(), rendered.html());
+                    issuedLabs[0]++;
+                    laboratoryReports.put(laboratory, labIdentity.reportId());
+                    progress.report(++done[0], total);
+                });
+        PdfReportRenderer renderer = own.pdf();
+        HtmlReportRenderer htmlRenderer = own.html();
         byte[] roundPdf = renderer.render(assembled.report());
         String roundHtml = htmlRenderer.render(assembled.report());
-        int labs = issuedLabs;
+        int labs = issuedLabs[0];
         QuarkusTransaction.requiringNew().run(() -> {
             RoundState state = rounds.lockState(row.roundId());
             String detail = "report=" + row.roundReportId() + " run=" + row.runVersion() + " laboratoryReports=" + labs;

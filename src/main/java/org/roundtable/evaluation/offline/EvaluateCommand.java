@@ -1,8 +1,8 @@
 package org.roundtable.evaluation.offline;
 
-import com.fasterxml.jackson.databind.ObjectMapper;
-import com.fasterxml.jackson.databind.node.ArrayNode;
-import com.fasterxml.jackson.databind.node.ObjectNode;
+import com.fasterxml.jackson.core.JsonFactory;
+import com.fasterxml.jackson.core.JsonGenerator;
+import java.util.ArrayList;
 import java.io.IOException;
 import java.io.PrintStream;
 import java.nio.file.Files;
@@ -37,7 +37,7 @@ import org.roundtable.statistics.StatisticsWarning;
  * score with the numbers as printed ({@link #CSV_COLUMNS}), for spreadsheets. Warnings go to stderr, and so do
  * progress lines for files of {@value #PROGRESS_ROWS} results or more.
  *
- * <p>Memory: the file is read record by record into primitive columns ({@code ResultColumns}, about 35 bytes a
+ * <p>Memory: the file is read record by record into primitive columns ({@code ResultColumns}, about 45 bytes a
  * result); each measurand is evaluated, written and dropped in turn, so a 1,000,000-row file runs in a 256 MB
  * heap.
  *
@@ -146,54 +146,53 @@ public final class EvaluateCommand {
                     throw new BadInput("option for measurand '" + m + "': it is not in " + file);
                 }
             }
-            ObjectMapper mapper = new ObjectMapper();
             boolean csv = format[0].equals("csv");
             if (csv) {
                 out.println(String.join(",", CSV_COLUMNS));
             }
             int total = input.measurands().size();
-            int done = 0;
             boolean progress = input.rows() >= PROGRESS_ROWS;
-            // one measurand at a time: its results are built, evaluated, written and dropped
-            for (java.util.Iterator<Map.Entry<String, ResultColumns>> it = input.measurands().entrySet().iterator();
-                    it.hasNext(); ) {
-                Map.Entry<String, ResultColumns> e = it.next();
-                String m = e.getKey();
-                List<MeasurandEvaluation.ParticipantResult> results = e.getValue().results(input.participants());
-                it.remove();
-                Assigned a = assigned.get(m);
-                Choices c = choices.getOrDefault(m, new Choices());
-                MeasurandEvaluation.Rules rules = new MeasurandEvaluation.Rules(QuartileRule.DEFAULT,
-                        AlgorithmA.StoppingRule.FULL_CONVERGENCE, BoundaryRule.DEFAULT,
-                        c.scoreDecimals == null ? NumberFormats.DEFAULT_SCORE_DECIMALS : c.scoreDecimals,
-                        c.coverageFactor == null ? MeasurandEvaluation.DEFAULT_COVERAGE_FACTOR
-                                : c.coverageFactor.doubleValue());
-                MeasurandEvaluation.SmallRounds small = new MeasurandEvaluation.SmallRounds(
-                        c.minimumParticipants == null ? MeasurandEvaluation.MINIMUM_PARTICIPANTS : c.minimumParticipants,
-                        c.minimumForSigma == null ? MeasurandEvaluation.MINIMUM_PARTICIPANTS : c.minimumForSigma,
-                        c.informationOnly, null);
-                MeasurandEvaluation.Decimals decimals = new MeasurandEvaluation.Decimals(
-                        a == null ? null : a.decimalU(), a == null ? null : a.decimalK(), c.sigmaDecimal);
-                // U(x_pt) at k = 2 for the statistics core (u = U/k)
-                Double bigU = a == null ? null : a.expandedUncertainty() / a.decimalK().doubleValue()
-                        * MeasurandEvaluation.DEFAULT_COVERAGE_FACTOR;
-                MeasurandEvaluation.Result r = MeasurandEvaluation.evaluate(new MeasurandEvaluation.Input(
-                        m, input.units().get(m), results, a == null ? null : a.value(), bigU, sigmas.get(m), rules,
-                        decimals, small));
-                int digits = c.digits != null ? c.digits : decimalsOf(results);
-                if (csv) {
-                    writeCsv(out, r, digits);
-                } else {
-                    out.println(mapper.writeValueAsString(toJson(mapper, r, digits)));
+            // one measurand at a time per worker: its results are built, evaluated and written to text, then
+            // dropped; the texts are printed in the file's order, at most two per worker waiting
+            int workers = Math.max(1, Math.min(Runtime.getRuntime().availableProcessors(), total));
+            java.util.concurrent.ExecutorService pool = java.util.concurrent.Executors.newFixedThreadPool(workers,
+                    task -> {
+                        Thread t = new Thread(task, "evaluate");
+                        t.setDaemon(true);
+                        return t;
+                    });
+            try {
+                java.util.ArrayDeque<java.util.concurrent.Future<Chunk>> ahead = new java.util.ArrayDeque<>();
+                java.util.Iterator<Map.Entry<String, ResultColumns>> it = input.measurands().entrySet().iterator();
+                int done = 0;
+                while (it.hasNext() || !ahead.isEmpty()) {
+                    while (it.hasNext() && ahead.size() < 2 * workers) {
+                        Map.Entry<String, ResultColumns> e = it.next();
+                        it.remove();
+                        String m = e.getKey();
+                        ResultColumns columns = e.getValue();
+                        ahead.add(pool.submit(() -> evaluateOne(m, columns, input, assigned.get(m),
+                                choices.getOrDefault(m, new Choices()), sigmas.get(m), csv)));
+                    }
+                    Chunk chunk = ahead.removeFirst().get();
+                    out.print(chunk.text());
+                    out.flush();
+                    chunk.warnings().forEach(err::println);
+                    done++;
+                    if (progress) {
+                        err.println("progress: " + done + " of " + total + " measurands evaluated");
+                    }
                 }
-                out.flush();
-                for (StatisticsWarning w : r.warnings()) {
-                    err.println("warning: " + m + ": " + w.code() + ": " + w.message());
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+                throw new IOException("interrupted", e);
+            } catch (java.util.concurrent.ExecutionException e) {
+                if (e.getCause() instanceof RuntimeException runtime) {
+                    throw runtime;
                 }
-                done++;
-                if (progress) {
-                    err.println("progress: " + done + " of " + total + " measurands evaluated");
-                }
+                throw new IOException(e.getCause());
+            } finally {
+                pool.shutdownNow();
             }
             out.flush();
             return OK;
@@ -369,7 +368,7 @@ public final class EvaluateCommand {
 
 
 
-    private static void writeCsv(PrintStream out, MeasurandEvaluation.Result r, int digits) {
+    private static void writeCsv(java.io.Writer out, MeasurandEvaluation.Result r, int digits) throws IOException {
         StringBuilder line = new StringBuilder(160);
         String assignedValue = NumberFormats.plainStatistic(r.assignedValue(), digits);
         String sigmaPt = NumberFormats.plainStatistic(r.sigmaPt(), digits);
@@ -395,69 +394,122 @@ public final class EvaluateCommand {
                 line.append(fromFile ? org.roundtable.platform.CsvText.cell(cells[i])
                         : cells[i] == null ? "" : cells[i]);
             }
-            out.println(line);
+            line.append('\n');
+            out.append(line);
         }
     }
 
-    private static ObjectNode toJson(ObjectMapper mapper, MeasurandEvaluation.Result r, int digits) {
-        ObjectNode n = mapper.createObjectNode();
-        n.put("measurand", r.measurand());
-        n.put("unit", r.unit());
-        n.put("n", r.n());
-        n.put("censored", r.censored());
-        n.put("median", r.median());
-        n.put("madE", r.madE());
-        n.put("nIqr", r.nIqr());
-        n.put("robustMean", r.robustMean());
-        n.put("robustSd", r.robustSd());
-        n.put("iterations", r.iterations());
-        n.put("converged", r.converged());
-        n.put("assignedValue", r.assignedValue());
-        n.put("assignedValueUncertainty", r.assignedValueUncertainty());
-        n.put("sigmaPt", r.sigmaPt());
-        n.put("sigmaPtSource", r.sigmaPtSource() == null ? null
-                : r.sigmaPtSource() == MeasurandEvaluation.SigmaPtSource.GIVEN ? "given" : "robustSd");
-        n.put("scoreUsed", r.scoreUsed() == null ? null : r.scoreUsed().jsonName());
-        n.put("scoreUsedReason", r.scoreUsedReason());
-        n.put("reportingDigits", digits);
-        n.put("scoreDecimals", r.scoreDecimals());
-        n.put("coverageFactor", NumberFormats.full(r.coverageFactor()));
-        n.put("informationOnly", r.informationOnly());
-        // the numbers as printed (platform.NumberFormats), beside the full-precision JSON numbers
-        ObjectNode printed = n.putObject("printed");
-        printed.put("median", NumberFormats.plainStatistic(r.median(), digits));
-        printed.put("madE", NumberFormats.plainStatistic(r.madE(), digits));
-        printed.put("nIqr", NumberFormats.plainStatistic(r.nIqr(), digits));
-        printed.put("robustMean", NumberFormats.plainStatistic(r.robustMean(), digits));
-        printed.put("robustSd", NumberFormats.plainStatistic(r.robustSd(), digits));
-        printed.put("assignedValue", NumberFormats.plainStatistic(r.assignedValue(), digits));
-        printed.put("assignedValueUncertainty", NumberFormats.plainStatistic(r.assignedValueUncertainty(), digits));
-        printed.put("sigmaPt", NumberFormats.plainStatistic(r.sigmaPt(), digits));
-        ArrayNode warnings = n.putArray("warnings");
+    /** One measurand's output text (a JSON line or CSV rows) and its warning lines for stderr. */
+    private record Chunk(String text, List<String> warnings) {
+    }
+
+    private static final JsonFactory JSON = new JsonFactory();
+
+    private static Chunk evaluateOne(String m, ResultColumns columns, ResultColumns.File input, Assigned a,
+            Choices c, Double sigma, boolean csv) throws IOException {
+        List<MeasurandEvaluation.ParticipantResult> results = columns.results(input.participants());
+        MeasurandEvaluation.Rules rules = new MeasurandEvaluation.Rules(QuartileRule.DEFAULT,
+                AlgorithmA.StoppingRule.FULL_CONVERGENCE, BoundaryRule.DEFAULT,
+                c.scoreDecimals == null ? NumberFormats.DEFAULT_SCORE_DECIMALS : c.scoreDecimals,
+                c.coverageFactor == null ? MeasurandEvaluation.DEFAULT_COVERAGE_FACTOR
+                        : c.coverageFactor.doubleValue());
+        MeasurandEvaluation.SmallRounds small = new MeasurandEvaluation.SmallRounds(
+                c.minimumParticipants == null ? MeasurandEvaluation.MINIMUM_PARTICIPANTS : c.minimumParticipants,
+                c.minimumForSigma == null ? MeasurandEvaluation.MINIMUM_PARTICIPANTS : c.minimumForSigma,
+                c.informationOnly, null);
+        MeasurandEvaluation.Decimals decimals = new MeasurandEvaluation.Decimals(
+                a == null ? null : a.decimalU(), a == null ? null : a.decimalK(), c.sigmaDecimal);
+        // U(x_pt) at k = 2 for the statistics core (u = U/k)
+        Double bigU = a == null ? null : a.expandedUncertainty() / a.decimalK().doubleValue()
+                * MeasurandEvaluation.DEFAULT_COVERAGE_FACTOR;
+        MeasurandEvaluation.Result r = MeasurandEvaluation.evaluate(new MeasurandEvaluation.Input(
+                m, input.units().get(m), results, a == null ? null : a.value(), bigU, sigma, rules,
+                decimals, small));
+        int digits = c.digits != null ? c.digits : decimalsOf(results);
+        java.io.StringWriter text = new java.io.StringWriter(64 + 160 * r.scores().size());
+        if (csv) {
+            writeCsv(text, r, digits);
+        } else {
+            try (JsonGenerator g = JSON.createGenerator(text)) {
+                writeJson(g, r, digits);
+            }
+            text.write('\n');
+        }
+        List<String> warnings = new ArrayList<>();
         for (StatisticsWarning w : r.warnings()) {
-            warnings.addObject().put("code", w.code()).put("message", w.message());
+            warnings.add("warning: " + m + ": " + w.code() + ": " + w.message());
         }
-        ArrayNode scores = n.putArray("scores");
+        return new Chunk(text.toString(), warnings);
+    }
+
+    /** A measurand as one JSON object: full-precision numbers and, under "printed", the numbers as printed. */
+    private static void writeJson(JsonGenerator g, MeasurandEvaluation.Result r, int digits) throws IOException {
+        g.writeStartObject();
+        g.writeStringField("measurand", r.measurand());
+        g.writeObjectField("unit", r.unit());
+        g.writeObjectField("n", r.n());
+        g.writeObjectField("censored", r.censored());
+        g.writeObjectField("median", r.median());
+        g.writeObjectField("madE", r.madE());
+        g.writeObjectField("nIqr", r.nIqr());
+        g.writeObjectField("robustMean", r.robustMean());
+        g.writeObjectField("robustSd", r.robustSd());
+        g.writeObjectField("iterations", r.iterations());
+        g.writeObjectField("converged", r.converged());
+        g.writeObjectField("assignedValue", r.assignedValue());
+        g.writeObjectField("assignedValueUncertainty", r.assignedValueUncertainty());
+        g.writeObjectField("sigmaPt", r.sigmaPt());
+        g.writeObjectField("sigmaPtSource", r.sigmaPtSource() == null ? null
+                : r.sigmaPtSource() == MeasurandEvaluation.SigmaPtSource.GIVEN ? "given" : "robustSd");
+        g.writeObjectField("scoreUsed", r.scoreUsed() == null ? null : r.scoreUsed().jsonName());
+        g.writeObjectField("scoreUsedReason", r.scoreUsedReason());
+        g.writeNumberField("reportingDigits", digits);
+        g.writeObjectField("scoreDecimals", r.scoreDecimals());
+        g.writeObjectField("coverageFactor", NumberFormats.full(r.coverageFactor()));
+        g.writeBooleanField("informationOnly", r.informationOnly());
+        g.writeObjectFieldStart("printed");
+        g.writeObjectField("median", NumberFormats.plainStatistic(r.median(), digits));
+        g.writeObjectField("madE", NumberFormats.plainStatistic(r.madE(), digits));
+        g.writeObjectField("nIqr", NumberFormats.plainStatistic(r.nIqr(), digits));
+        g.writeObjectField("robustMean", NumberFormats.plainStatistic(r.robustMean(), digits));
+        g.writeObjectField("robustSd", NumberFormats.plainStatistic(r.robustSd(), digits));
+        g.writeObjectField("assignedValue", NumberFormats.plainStatistic(r.assignedValue(), digits));
+        g.writeObjectField("assignedValueUncertainty", NumberFormats.plainStatistic(r.assignedValueUncertainty(),
+                digits));
+        g.writeObjectField("sigmaPt", NumberFormats.plainStatistic(r.sigmaPt(), digits));
+        g.writeEndObject();
+        g.writeArrayFieldStart("warnings");
+        for (StatisticsWarning w : r.warnings()) {
+            g.writeStartObject();
+            g.writeStringField("code", w.code());
+            g.writeStringField("message", w.message());
+            g.writeEndObject();
+        }
+        g.writeEndArray();
+        g.writeArrayFieldStart("scores");
         for (MeasurandEvaluation.ParticipantScore s : r.scores()) {
-            ObjectNode o = scores.addObject();
-            o.put("participant", s.participant());
-            o.put("reported", s.reported());
-            o.put("value", s.value());
-            o.put("z", s.z());
-            o.put("zPrime", s.zPrime());
-            o.put("zeta", s.zeta());
-            o.put("en", s.en());
-            o.put("classification", s.classification());
-            o.put("informationOnly", r.informationOnly() && s.value() != null
+            g.writeStartObject();
+            g.writeStringField("participant", s.participant());
+            g.writeStringField("reported", s.reported());
+            g.writeObjectField("value", s.value());
+            g.writeObjectField("z", s.z());
+            g.writeObjectField("zPrime", s.zPrime());
+            g.writeObjectField("zeta", s.zeta());
+            g.writeObjectField("en", s.en());
+            g.writeObjectField("classification", s.classification());
+            g.writeBooleanField("informationOnly", r.informationOnly() && s.value() != null
                     && (s.z() != null || s.zPrime() != null || s.zeta() != null || s.en() != null));
-            ObjectNode p = o.putObject("printed");
-            p.put("value", NumberFormats.plainResult(s.value(), digits));
-            p.put("z", NumberFormats.plainScore(s.z(), r.scoreDecimals()));
-            p.put("zPrime", NumberFormats.plainScore(s.zPrime(), r.scoreDecimals()));
-            p.put("zeta", NumberFormats.plainScore(s.zeta(), r.scoreDecimals()));
-            p.put("en", NumberFormats.plainScore(s.en(), r.scoreDecimals()));
+            g.writeObjectFieldStart("printed");
+            g.writeObjectField("value", NumberFormats.plainResult(s.value(), digits));
+            g.writeObjectField("z", NumberFormats.plainScore(s.z(), r.scoreDecimals()));
+            g.writeObjectField("zPrime", NumberFormats.plainScore(s.zPrime(), r.scoreDecimals()));
+            g.writeObjectField("zeta", NumberFormats.plainScore(s.zeta(), r.scoreDecimals()));
+            g.writeObjectField("en", NumberFormats.plainScore(s.en(), r.scoreDecimals()));
+            g.writeEndObject();
+            g.writeEndObject();
         }
-        return n;
+        g.writeEndArray();
+        g.writeEndObject();
     }
 
 }

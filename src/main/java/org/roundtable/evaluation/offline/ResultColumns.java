@@ -27,7 +27,7 @@ import org.roundtable.statistics.MeasurandEvaluation;
 import org.roundtable.submission.intake.ResultRanges;
 
 /**
- * One measurand's results of an {@code evaluate} input file, held as primitive columns (about 35 bytes a result),
+ * One measurand's results of an {@code evaluate} input file, held as primitive columns (about 45 bytes a result),
  * and the streaming reader that fills them.
  *
  * <p>The file is read record by record (never as one string); participant codes and method names are kept once;
@@ -49,6 +49,7 @@ final class ResultColumns {
     private double[] coverageFactor = new double[16];
     private int[] method = new int[16];
     private byte[] decimals = new byte[16];
+    private long[] unscaled = new long[16];
     private boolean[] lessThan = new boolean[16];
     private final Map<Integer, String> oddReported = new HashMap<>();
     private final List<String> methods;
@@ -71,8 +72,7 @@ final class ResultColumns {
         for (int i = 0; i < size; i++) {
             String reported = oddReported.get(i);
             if (reported == null) {
-                String number = new BigDecimal(Double.toString(value[i])).setScale(decimals[i],
-                        java.math.RoundingMode.HALF_EVEN).toPlainString();
+                String number = plain(unscaled[i], decimals[i]);
                 reported = lessThan[i] ? "<" + number : number;
             }
             out.add(new MeasurandEvaluation.ParticipantResult(participants.get(participant[i]), reported, value[i],
@@ -93,6 +93,7 @@ final class ResultColumns {
             coverageFactor = Arrays.copyOf(coverageFactor, grown);
             method = Arrays.copyOf(method, grown);
             decimals = Arrays.copyOf(decimals, grown);
+            unscaled = Arrays.copyOf(unscaled, grown);
             lessThan = Arrays.copyOf(lessThan, grown);
         }
         participant[size] = participantIndex;
@@ -103,14 +104,30 @@ final class ResultColumns {
         method[size] = methodIndex;
         int dot = numberText.indexOf('.');
         int places = dot < 0 ? 0 : numberText.length() - dot - 1;
-        boolean rebuilt = PLAIN_DECIMAL.matcher(numberText).matches() && places <= 30
-                && reported.equals((below ? "<" : "") + new BigDecimal(Double.toString(v))
-                        .setScale(places, java.math.RoundingMode.HALF_EVEN).toPlainString());
+        boolean rebuilt = false;
+        // a plain decimal of at most 18 digits is kept as its digits and decimal places, and given back exactly
+        if (numberText.length() <= 19 && PLAIN_DECIMAL.matcher(numberText).matches()) {
+            long digits = Long.parseLong(dot < 0 ? numberText : numberText.substring(0, dot) + numberText.substring(dot + 1));
+            rebuilt = reported.equals((below ? "<" : "") + plain(digits, places));
+            unscaled[size] = digits;
+        }
         decimals[size] = (byte) places;
         if (!rebuilt) {
             oddReported.put(size, reported);
         }
         size++;
+    }
+
+    /** {@code digits} with {@code places} decimal places as plain text: (1500, 3) is 1.500, (5, 2) is 0.05. */
+    static String plain(long digits, int places) {
+        String text = Long.toString(digits);
+        if (places == 0) {
+            return text;
+        }
+        if (text.length() <= places) {
+            text = "0".repeat(places - text.length() + 1) + text;
+        }
+        return text.substring(0, text.length() - places) + "." + text.substring(text.length() - places);
     }
 
     /**
@@ -128,6 +145,7 @@ final class ResultColumns {
         List<String> methods = new ArrayList<>();
         Map<String, Integer> measurandIndex = new HashMap<>();
         FirstRows firstRows = new FirstRows();
+        Map<String, String> measurandNames = new HashMap<>();
         long rows = 0;
         try (BufferedReader reader = new BufferedReader(new InputStreamReader(Files.newInputStream(file),
                 StandardCharsets.UTF_8.newDecoder().onMalformedInput(CodingErrorAction.REPORT)
@@ -167,7 +185,8 @@ final class ResultColumns {
                                 + " fields, the header has " + EvaluateCommand.COLUMNS.size());
                     }
                     String participant = field(record, index, "participant");
-                    String measurand = EvaluateCommand.measurandName(field(record, index, "measurand"));
+                    String measurand = measurandNames.computeIfAbsent(field(record, index, "measurand"),
+                            EvaluateCommand::measurandName);
                     String unit = field(record, index, "unit");
                     String reported = decimalPoint(field(record, index, "value"), semicolon);
                     String uText = decimalPoint(field(record, index, "expanded_uncertainty"), semicolon);

@@ -22,6 +22,8 @@ public final class ChemicalElements {
             "Pa", "U");
 
     private static final Set<String> SYMBOL_SET = Set.copyOf(SYMBOLS);
+    private static final java.util.Map<String, String> BY_LOWER_CASE = SYMBOLS.stream()
+            .collect(java.util.stream.Collectors.toUnmodifiableMap(s -> s.toLowerCase(Locale.ROOT), s -> s));
 
     private ChemicalElements() {
     }
@@ -33,11 +35,7 @@ public final class ChemicalElements {
 
     /** The correctly spelled symbol when {@code text} differs from one only in case, e.g. {@code MN} → {@code Mn}. */
     public static Optional<String> symbolIgnoringCase(String text) {
-        for (String symbol : SYMBOLS) {
-            if (symbol.toLowerCase(Locale.ROOT).equals(text.toLowerCase(Locale.ROOT))) {
-                return Optional.of(symbol);
-            }
-        }
-        return Optional.empty();
+        return text.length() > 2 ? Optional.empty()
+                : Optional.ofNullable(BY_LOWER_CASE.get(text.toLowerCase(Locale.ROOT)));
     }
 }
