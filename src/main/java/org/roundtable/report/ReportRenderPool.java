@@ -98,8 +98,9 @@ public class ReportRenderPool {
         R render(T task, Renderers renderers);
     }
 
+    /** Stops the workers (at shutdown). */
     @PreDestroy
-    void stop() {
+    public void stop() {
         if (pool != null) {
             pool.shutdownNow();
         }

@@ -48,6 +48,7 @@ public final class ReportPdfBenchmark {
     static final int WARMUPS = 2;
     static final int RUNS = 3;
     static final int BATCH = 20;
+    static final int POOL_BATCH = 40;
 
     private static final ThreadMXBean THREADS = ManagementFactory.getThreadMXBean();
 
@@ -98,6 +99,17 @@ public final class ReportPdfBenchmark {
                 first.wall(), first.cpu(), RUNS, laboratory.wall(), laboratory.cpu(), BATCH, batch.wall(), batch.cpu(),
                 participants, all.wall(), all.cpu());
 
+        // issuing on the render pool (PDF and HTML of each laboratory report, as the issue job does): a batch on
+        // one worker and on two, fresh renderers each, the same reports
+        List<String> pooled = codes.subList(from + BATCH, from + BATCH + POOL_BATCH);
+        Timing oneWorker = timePool(1, large, pooled);
+        Timing twoWorkers = timePool(2, large, pooled);
+        double speedup = oneWorker.wall() / twoWorkers.wall();
+        double issueRoundSeconds = largeRound.wall() + participants * twoWorkers.wall() / POOL_BATCH;
+        System.out.printf(Locale.ROOT, "%d laboratory reports (PDF + HTML): one worker %.2f s, two workers %.2f s,"
+                + " speed-up %.2f; issuing the 1000 x 50 round estimated at %.0f s%n", POOL_BATCH, oneWorker.wall(),
+                twoWorkers.wall(), speedup, issueRoundSeconds);
+
         Files.createDirectories(output.toAbsolutePath().getParent());
         String json = String.format(Locale.ROOT, "{\"smallPdfSeconds\": %.3f, \"largePdfSeconds\": %.3f, "
                         + "\"smallPdfCpuSeconds\": %.3f, \"largePdfCpuSeconds\": %.3f, "
@@ -105,11 +117,31 @@ public final class ReportPdfBenchmark {
                         + "\"largeLaboratoryBatch\": %d, \"largeLaboratoryBatchSeconds\": %.3f, "
                         + "\"largeLaboratoryBatchCpuSeconds\": %.3f, \"largeAllLaboratoryReports\": %d, "
                         + "\"largeAllLaboratoryReportsEstimatedSeconds\": %.1f, "
-                        + "\"largeAllLaboratoryReportsEstimatedCpuSeconds\": %.1f}%n",
+                        + "\"largeAllLaboratoryReportsEstimatedCpuSeconds\": %.1f, "
+                        + "\"poolBatch\": %d, \"poolOneWorkerSeconds\": %.2f, \"poolTwoWorkersSeconds\": %.2f, "
+                        + "\"issueRoundSpeedup\": %.2f, \"issueRoundSeconds\": %.0f}%n",
                 smallRound.wall(), largeRound.wall(), smallRound.cpu(), largeRound.cpu(), laboratory.wall(),
-                laboratory.cpu(), BATCH, batch.wall(), batch.cpu(), participants, all.wall(), all.cpu());
+                laboratory.cpu(), BATCH, batch.wall(), batch.cpu(), participants, all.wall(), all.cpu(), POOL_BATCH,
+                oneWorker.wall(), twoWorkers.wall(), speedup, issueRoundSeconds);
         Files.writeString(output, json, StandardCharsets.UTF_8);
         System.out.print(json);
+    }
+
+    /** Renders the laboratory reports (PDF and HTML) of {@code codes} on a pool of {@code workers}. */
+    private static Timing timePool(int workers, RoundReport round, List<String> codes) {
+        org.roundtable.report.ReportRenderPool pool = new org.roundtable.report.ReportRenderPool(workers);
+        try {
+            long start = System.nanoTime();
+            long[] bytes = {0};
+            pool.renderInOrder(codes, org.roundtable.report.ReportRenderPool.Renderers.fresh(),
+                    (code, renderers) -> {
+                        LaboratoryReport lab = new LaboratoryReport(round, code);
+                        return renderers.pdf().render(lab).length + renderers.html().render(lab).length();
+                    }, size -> bytes[0] += size);
+            return new Timing((System.nanoTime() - start) / 1e9, Double.NaN);
+        } finally {
+            pool.stop();
+        }
     }
 
     private static void renderLaboratory(PdfReportRenderer renderer, RoundReport round, String code) {
