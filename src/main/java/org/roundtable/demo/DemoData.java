@@ -1,23 +1,30 @@
 package org.roundtable.demo;
 
 import io.quarkus.runtime.StartupEvent;
+import io.quarkus.scheduler.Scheduler;
 import jakarta.enterprise.context.ApplicationScoped;
-import org.roundtable.evaluation.EvaluationService;
-import org.roundtable.job.JobService;
 import jakarta.enterprise.context.control.ActivateRequestContext;
 import jakarta.enterprise.event.Observes;
 import jakarta.persistence.EntityManager;
 import jakarta.transaction.Transactional;
+import java.time.Clock;
+import java.time.Instant;
+import java.util.List;
 import org.eclipse.microprofile.config.inject.ConfigProperty;
 import org.jboss.logging.Logger;
 import org.roundtable.account.DemoAccounts;
-import org.roundtable.scheme.DemoSchemes;
-import org.roundtable.submission.DemoSubmissions;
+import org.roundtable.platform.LoaderClock;
 
 /**
- * Loads the demo scenario into an empty database when {@code roundtable.demo.enabled} is true (set by
- * rounds-demo/start.sh). Everything in it is invented: the scheme office, the laboratories, the people.
- * Two instances starting together load it once (advisory lock, then the emptiness check).
+ * Loads the demo scenario ({@link DemoScenario}) into an empty database when {@code roundtable.demo.enabled} is
+ * true (set by rounds-demo/start.sh). Everything in it is invented: the scheme office, the laboratories, the people.
+ *
+ * <p>The scenario is a list of steps, each with its moment relative to the first start; they run in time order on
+ * this thread with the loader's clock ({@link LoaderClock}) at that moment, through the same services the API uses,
+ * while the schedulers wait. So receipts, deadlines, audit entries and issue dates agree with each other, the open
+ * round is open whatever the day of the first start, and nothing is moved by SQL afterwards. Later starts leave the
+ * data alone. Two instances starting together load it once (advisory lock, then the emptiness check, in the
+ * transaction that creates the accounts).
  */
 @ApplicationScoped
 public class DemoData {
@@ -28,67 +35,68 @@ public class DemoData {
     private final boolean enabled;
     private final EntityManager entityManager;
     private final DemoAccounts accounts;
-    private final DemoSchemes schemes;
-    private final DemoSubmissions submissions;
-    private final EvaluationService evaluations;
-    private final JobService jobs;
+    private final DemoScenario scenario;
+    private final Scheduler scheduler;
+    private final Clock clock;
 
     public DemoData(@ConfigProperty(name = "roundtable.demo.enabled", defaultValue = "false") boolean enabled,
-                    EntityManager entityManager, DemoAccounts accounts, DemoSchemes schemes,
-                    DemoSubmissions submissions, EvaluationService evaluations, JobService jobs) {
+                    EntityManager entityManager, DemoAccounts accounts, DemoScenario scenario, Scheduler scheduler,
+                    Clock clock) {
         this.enabled = enabled;
         this.entityManager = entityManager;
         this.accounts = accounts;
-        this.schemes = schemes;
-        this.submissions = submissions;
-        this.evaluations = evaluations;
-        this.jobs = jobs;
+        this.scenario = scenario;
+        this.scheduler = scheduler;
+        this.clock = clock;
     }
 
     void onStart(@Observes StartupEvent event) {
         if (!enabled) {
             return;
         }
-        boolean loaded = load();
-        if (loaded) {
-            loadSubmissions();
-            publishPastRound();
+        Instant firstStart = clock.instant();
+        scheduler.pause();
+        boolean loaded;
+        long started = System.nanoTime();
+        try {
+            List<DemoAccounts.Loaded> laboratories = LoaderClock.at(DemoScenario.accountsAt(firstStart),
+                    this::loadAccounts);
+            loaded = laboratories != null;
+            if (loaded) {
+                runSteps(scenario.steps(firstStart, laboratories));
+            }
+        } finally {
+            scheduler.resume();
         }
         String logins = accounts.describeLogins();
-        String banner = (loaded ? "Demo data loaded." : "Demo data already present.") + " Demo sign-ins (password for all: "
-                + DemoAccounts.DEMO_PASSWORD + "):\n" + logins;
+        String banner = (loaded ? "Demo data loaded in " + (System.nanoTime() - started) / 1_000_000_000 + " s."
+                : "Demo data already present.") + " Demo sign-ins (password for all: " + DemoAccounts.DEMO_PASSWORD
+                + "):\n" + logins;
         LOG.info(banner);
     }
 
-    /** Demo results go through the submission service, each in its own transaction, after the round is committed. */
+    /** The steps in time order, each at its moment on the loader's clock. */
     @ActivateRequestContext
-    void loadSubmissions() {
-        submissions.load();
-        submissions.loadPastRound();
+    void runSteps(List<DemoScenario.Step> steps) {
+        for (DemoScenario.Step step : steps) {
+            try {
+                LoaderClock.at(step.at(), step.work());
+            } catch (RuntimeException e) {
+                throw new IllegalStateException("demo step '" + step.what() + "' at " + step.at() + " failed: "
+                        + e.getMessage(), e);
+            }
+        }
     }
 
-    /**
-     * The earlier round is closed and evaluated now; its preliminary and final reports are issued by the
-     * {@link DemoPublication} job after start-up (rendering a dozen PDFs would otherwise hold up the start).
-     */
-    @ActivateRequestContext
-    void publishPastRound() {
-        long round = schemes.closePastRound();
-        int version = evaluations.run(round, false, DemoPublication.COORDINATOR).run().version();
-        jobs.enqueue(DemoPublication.KIND, "{\"round\":" + round + ",\"version\":" + version + "}",
-                DemoPublication.COORDINATOR.name());
-    }
-
+    /** The accounts, in the transaction that claims the empty database; null when data are present already. */
     @Transactional
     @ActivateRequestContext
-    boolean load() {
+    List<DemoAccounts.Loaded> loadAccounts() {
         entityManager.createNativeQuery("SELECT pg_advisory_xact_lock(:key)").setParameter("key", LOAD_LOCK).getSingleResult();
         long users = ((Number) entityManager.createNativeQuery("SELECT count(*) FROM app_user").getSingleResult()).longValue();
         if (users > 0) {
-            return false;
+            return null;
         }
-        accounts.load();
-        schemes.load();
-        return true;
+        return accounts.load();
     }
 }

@@ -126,7 +126,14 @@ public class CorrectiveActions {
     /** Opens an entry for one of the laboratory's questionable or unsatisfactory published results. */
     @Transactional
     public Entry create(long roundId, String element, String itemLabel, Draft draft) {
-        long lab = currentUser.requireLaboratoryId();
+        return createFor(currentUser.requireLaboratoryId(), currentUser.username(), currentUser.actor(), roundId,
+                element, itemLabel, draft);
+    }
+
+    /** As {@link #create}, for a laboratory and its member named by the caller: only the demo loader. */
+    @Transactional
+    public Entry createFor(long lab, String who, org.roundtable.audit.Actor actor, long roundId, String element,
+                           String itemLabel, Draft draft) {
         HistoryService.Entry result = history.entries(lab, new HistoryService.Reader(HistoryService.TO_LABORATORIES, null))
                 .stream().filter(e -> e.roundId() == roundId && e.element().equalsIgnoreCase(String.valueOf(element))
                         && e.itemLabel().equalsIgnoreCase(itemLabel == null ? "A" : itemLabel))
@@ -137,7 +144,6 @@ public class CorrectiveActions {
         }
         Draft d = checked(lab, draft);
         OffsetDateTime now = Timestamps.now(clock);
-        String who = currentUser.username();
         Number id = (Number) entityManager.createNativeQuery("""
                 INSERT INTO corrective_action (laboratory_id, round_id, element, item_label, round_code, verdict, cause,
                        action_taken, evidence, effectiveness_round_id, effectiveness_note, created_by, created_at,
@@ -152,7 +158,7 @@ public class CorrectiveActions {
                 .setParameter("eff", d.effectivenessRoundId()).setParameter("note", d.effectivenessNote())
                 .setParameter("who", who).setParameter("at", now).getSingleResult();
         Entry created = find(id.longValue(), lab, false).orElseThrow();
-        audit.record(new AuditTrail.Event(currentUser.actor(), "corrective-action.created", "corrective-action",
+        audit.record(new AuditTrail.Event(actor, "corrective-action.created", "corrective-action",
                 id.toString(), null, hash(created), created.roundCode() + " " + created.element()));
         return created;
     }

@@ -7,7 +7,10 @@ import jakarta.inject.Singleton;
 
 import java.time.Clock;
 
-/** The one source of "now". Tests and the demo replace it to place rounds in the past. */
+/**
+ * The one source of "now": the system clock in UTC, which a loader's thread may set to another time
+ * ({@link LoaderClock}). Tests replace the bean.
+ */
 @ApplicationScoped
 public class ClockProducer {
 
@@ -15,6 +18,6 @@ public class ClockProducer {
     @DefaultBean
     @Singleton
     Clock clock() {
-        return Clock.systemUTC();
+        return new LoaderClock(Clock.systemUTC());
     }
 }

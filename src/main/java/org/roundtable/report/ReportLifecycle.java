@@ -695,10 +695,18 @@ public class ReportLifecycle {
      * Takes a round from closed to a final report without background jobs: preliminary issue from run
      * {@code version}, comment period, sign-off and final issue, all by {@code signer}. Resumable: each step is
      * taken according to the round's state, and an issue request left unfinished is carried out rather than made
-     * again. For the demo loader (which runs it as its own job after start-up); the API and pages always issue
-     * through the report job.
+     * again. For the demo loader; the API and pages always issue through the report job.
      */
     public void publishWithoutJobs(long roundId, int version, String comments, Signer signer) {
+        publishWithoutJobs(roundId, version, comments, signer, null);
+    }
+
+    /**
+     * As {@link #publishWithoutJobs(long, int, String, Signer)}, the sign-off and the final issue taken at
+     * {@code finalAt} on the loader's clock ({@link org.roundtable.platform.LoaderClock}) when given, so that the
+     * demo's comment periods last as long as a real one.
+     */
+    public void publishWithoutJobs(long roundId, int version, String comments, Signer signer, java.time.Instant finalAt) {
         JobProgress none = (done, total) -> {
         };
         for (int step = 0; step < 6; step++) {
@@ -708,13 +716,21 @@ public class ReportLifecycle {
                         () -> requestPreliminary(roundId, new IssueRequest(version, comments, null), signer, false)), none);
                 case PRELIMINARY_ISSUED -> QuarkusTransaction.requiringNew().run(() -> openCommentPeriod(roundId, signer));
                 case COMMENT_PERIOD -> {
-                    QuarkusTransaction.requiringNew().run(() -> {
-                        if (signOffs(roundId).stream().noneMatch(s -> s.sequence() == 0)) {
-                            signOff(roundId, new SignOffRequest(version), signer);
-                        }
-                    });
-                    execute(pendingOrNew(roundId, ReportStatus.FINAL,
-                            () -> requestFinal(roundId, new IssueRequest(version, comments, null), signer, false)), none);
+                    Runnable finalIssue = () -> {
+                        QuarkusTransaction.requiringNew().run(() -> {
+                            if (signOffs(roundId).stream().noneMatch(s -> s.sequence() == 0)) {
+                                signOff(roundId, new SignOffRequest(version), signer);
+                            }
+                        });
+                        execute(pendingOrNew(roundId, ReportStatus.FINAL,
+                                () -> requestFinal(roundId, new IssueRequest(version, comments, null), signer, false)),
+                                none);
+                    };
+                    if (finalAt == null) {
+                        finalIssue.run();
+                    } else {
+                        org.roundtable.platform.LoaderClock.at(finalAt, finalIssue);
+                    }
                 }
                 default -> {
                     return;

@@ -337,6 +337,13 @@ public class EnrolmentService {
     @Transactional
     public MyRound acknowledgeReceipt(long roundId, Receipt receipt) {
         long lab = currentUser.requireLaboratoryId();
+        acknowledgeReceiptFor(lab, currentUser.actor(), roundId, receipt);
+        return myRound(roundId);
+    }
+
+    /** As {@link #acknowledgeReceipt}, for a laboratory named by the caller: only the demo loader. */
+    @Transactional
+    public void acknowledgeReceiptFor(long lab, org.roundtable.audit.Actor actor, long roundId, Receipt receipt) {
         ownCode(roundId, lab);
         gate.enterShared(roundId, RoundAction.ACKNOWLEDGE_RECEIPT);
         if (receipt == null || receipt.itemLabel() == null || receipt.itemLabel().isBlank()) {
@@ -370,11 +377,10 @@ public class EnrolmentService {
         entityManager.createNativeQuery("""
                 UPDATE item_dispatch SET status = 'RECEIVED', received_at = :now, received_by = :by,
                        item_condition = :c, condition_note = :note, version = version + 1 WHERE id = :id
-                """).setParameter("now", now()).setParameter("by", currentUser.actor().name()).setParameter("c", condition)
+                """).setParameter("now", now()).setParameter("by", actor.name()).setParameter("c", condition)
                 .setParameter("note", note).setParameter("id", itemId).executeUpdate();
-        audit.record(new AuditTrail.Event(currentUser.actor(), "item.received", "item-dispatch", Long.toString(itemId),
+        audit.record(new AuditTrail.Event(actor, "item.received", "item-dispatch", Long.toString(itemId),
                 null, ObjectHash.of(Map.of("condition", condition, "note", note == null ? "" : note)), "condition=" + condition));
-        return myRound(roundId);
     }
 
     // ---- internals ---------------------------------------------------------------------------------------
