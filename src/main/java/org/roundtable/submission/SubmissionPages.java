@@ -236,7 +236,7 @@ public class SubmissionPages {
             }
             String droppedText = shown.dropped().isEmpty() ? null : "This replaces your " + shown.replacedCount()
                     + (shown.replacedCount() == 1 ? " result" : " results") + "; " + String.join(", ", shown.dropped())
-                    + (shown.dropped().size() == 1 ? " would" : " would") + " no longer be reported.";
+                    + " would no longer be reported.";
             ToConfirm confirm = new ToConfirm(file, tokens.issue(roundId, shown), warnings, shown.dropped(),
                     shown.replacedCount(), droppedText);
             Map<String, Marks> marks = new HashMap<>();
@@ -250,7 +250,7 @@ public class SubmissionPages {
                     }
                 }
             }
-            String summary = shown.warnings().isEmpty() ? "Please confirm before anything is saved."
+            String summary = !shown.dropped().isEmpty() ? "Please check and confirm. Nothing was saved yet."
                     : "Please check " + (shown.warnings().size() == 1 ? "this value" : "these values")
                     + " and confirm. Nothing was saved yet.";
             return Response.status(e.status()).entity(page(roundId, new Outcome(null, summary, List.of(), confirm), form,
