@@ -51,8 +51,8 @@ public class SubmissionPages {
 
     /** The values of one form row as entered (empty strings when nothing was entered). */
     public record Entered(String value, String unit, String uncertainty, String coverageFactor, String method,
-                          String replicates) {
-        static final Entered NOTHING = new Entered("", null, "", "2", null, "1");
+                          String replicates, String replicateValues) {
+        static final Entered NOTHING = new Entered("", null, "", "2", null, "1", "");
     }
 
     /** Problems (and warnings) beside the fields of one form row, in plain words; null where there is none. */
@@ -306,7 +306,7 @@ public class SubmissionPages {
     private TemplateInstance page(long roundId, Outcome outcome, MultivaluedMap<String, String> form,
                                   Map<String, Marks> marks) {
         SubmissionViews.MySubmission mine = queries.mine(roundId);
-        List<FormRow> rows = mine.roundState().equals("OPEN_FOR_RESULTS") ? rows(roundId, form, marks) : List.of();
+        List<FormRow> rows = mine.roundState().equals("OPEN_FOR_RESULTS") ? rows(roundId, form, marks, mine.current()) : List.of();
         List<SubmissionViews.Result> shown = mine.current() == null ? List.of() : inSchemeOrder(roundId, mine.current().results());
         return Templates.results(mine, rows, outcome, messages.ownThread(roundId), shown);
     }
@@ -321,13 +321,33 @@ public class SubmissionPages {
     }
 
     private List<FormRow> rows(long roundId, MultivaluedMap<String, String> form, Map<String, Marks> marks) {
+        return rows(roundId, form, marks, null);
+    }
+
+    /**
+     * The form's rows: what was just typed when a submit was refused, else the current revision's values (so that
+     * correcting one value sends the others again instead of leaving them out), else nothing.
+     */
+    private List<FormRow> rows(long roundId, MultivaluedMap<String, String> form, Map<String, Marks> marks,
+                               SubmissionViews.Revision current) {
+        Map<String, Entered> reported = new HashMap<>();
+        if (form == null && current != null) {
+            for (SubmissionViews.Result r : current.results()) {
+                reported.put(r.measurand() + "." + r.item(), new Entered(r.valueAsReported(), r.unitAsReported(),
+                        r.expandedUncertaintyAsReported() == null ? "" : r.expandedUncertaintyAsReported(),
+                        r.coverageFactor() == null ? "2" : r.coverageFactor().stripTrailingZeros().toPlainString(),
+                        r.method(), r.replicates() == null ? "1" : String.valueOf(r.replicates()),
+                        r.replicateValues() == null ? "" : r.replicateValues()));
+            }
+        }
         RoundAccess.SubmissionWindow window = rounds.window(roundId);
         return rounds.openMeasurands(roundId).stream()
                 .flatMap(m -> window.itemLabels().stream().map(item -> {
                     String key = m.element() + "." + item;
                     return new FormRow(m.element(), item, m.unit(), "%".equals(m.unit()) ? "mg/kg" : "%",
                             m.methodGroups().stream().map(g -> g.toLowerCase().replace('_', '-')).toList(),
-                            m.reportingDigits(), key, entered(form, key), marks.getOrDefault(key, Marks.NONE));
+                            m.reportingDigits(), key, reported.getOrDefault(key, entered(form, key)),
+                            marks.getOrDefault(key, Marks.NONE));
                 }))
                 .toList();
     }
@@ -338,7 +358,7 @@ public class SubmissionPages {
         }
         return new Entered(text(form.getFirst("value." + key)), form.getFirst("unit." + key),
                 text(form.getFirst("u." + key)), text(form.getFirst("k." + key)), form.getFirst("method." + key),
-                text(form.getFirst("replicates." + key)));
+                text(form.getFirst("replicates." + key)), text(form.getFirst("replicateValues." + key)));
     }
 
     private static String text(String value) {
@@ -370,6 +390,14 @@ public class SubmissionPages {
             result.put("method", orDefault(form.getFirst("method." + row.fieldKey()), row.methods().get(0)));
             String replicates = trimmed(form.getFirst("replicates." + row.fieldKey()));
             result.put("replicates", replicates == null ? 1 : parseReplicates(replicates));
+            // replicate values come from a file revision shown in the form; they are sent again unchanged
+            String replicateValues = trimmed(form.getFirst("replicateValues." + row.fieldKey()));
+            if (replicateValues != null) {
+                ArrayNode values = result.putArray("replicateValues");
+                for (String v : replicateValues.split("\\|", -1)) {
+                    values.add(v.strip());
+                }
+            }
         }
         try {
             return new FormJson(mapper.writeValueAsBytes(root), keys);

@@ -88,6 +88,11 @@ class LaboratoryJourneyBrowserTest {
         assertThat(Browser.waitFor(browser, By.id("receipt")).getText()).contains("revision 1");
         assertThat(browser.findElement(By.id("current-results")).getText()).contains("1.81").contains("0.812");
 
+        // the form now shows revision 1's values; sending them again is "no change", not a new revision
+        assertThat(browser.findElement(By.name("value.Cr.A")).getAttribute("value")).isEqualTo("1.81");
+        Browser.submit(browser, By.id("submit-results"));
+        assertThat(Browser.waitFor(browser, By.id("receipt")).getText()).contains("No change").contains("revision 1");
+
         // a file with Cr only: refused until the analyst says yes to leaving Mn out
         Path csv = Files.createTempFile("partial", ".csv");
         Files.writeString(csv, "measurand,value,unit,expanded_uncertainty,method,replicates\nCr,18.12,%,0.08,spark-oes,2\n",
