@@ -274,7 +274,12 @@ public class SubmissionPages {
                 summary = e.detail();
             } else if (formKeys != null) {
                 int count = e.details().size();
-                summary = (count == 1 ? "One value needs" : count + " values need") + " correcting. Nothing was saved.";
+                List<String> where = marks.keySet().stream().sorted(Comparator.comparingInt(formKeys::indexOf))
+                        .map(k -> k.endsWith(".A") && formKeys.stream().noneMatch(o -> !o.endsWith(".A"))
+                                ? k.substring(0, k.length() - 2) : k.replace(".", ", item "))
+                        .toList();
+                summary = (count == 1 ? "One value needs" : count + " values need") + " correcting"
+                        + (where.isEmpty() ? "" : " (" + String.join("; ", where) + ")") + ". Nothing was saved.";
             } else {
                 int count = e.details().size();
                 summary = "The file was not accepted: " + (count == 1 ? "one problem" : count + " problems")
