@@ -127,9 +127,9 @@ public class SignInPage {
         String target = currentUser.role().map(role -> switch (role) {
             case ADMIN -> "/admin/users";
             case COORDINATOR -> "/laboratories";
-            case LAB_MANAGER -> "/my-laboratory";
+            case LAB_MANAGER -> "/laboratory";
             case AUDITOR -> "/auditor";
-            case LAB_MEMBER -> "/account";
+            case LAB_MEMBER -> "/laboratory";
         }).orElse("/");
         return Response.seeOther(URI.create(target)).build();
     }

@@ -113,7 +113,7 @@ public class EnrolmentService {
     }
 
     public record MyRoundSummary(long roundId, String roundCode, String schemeName, String state,
-                                 String participantCode, OffsetDateTime resultDeadline) {
+                                 String participantCode, OffsetDateTime resultDeadline, String timeZone) {
     }
 
     // ---- coordinators ------------------------------------------------------------------------------
@@ -302,12 +302,12 @@ public class EnrolmentService {
         long lab = currentUser.requireLaboratoryId();
         @SuppressWarnings("unchecked")
         List<Object[]> rows = entityManager.createNativeQuery("""
-                SELECT r.id, r.code, s.name, r.state, p.participant_code, r.result_deadline
+                SELECT r.id, r.code, s.name, r.state, p.participant_code, r.result_deadline, r.deadline_time_zone
                   FROM round_participant p JOIN round r ON r.id = p.round_id JOIN scheme s ON s.id = r.scheme_id
                  WHERE p.laboratory_id = :l ORDER BY r.result_deadline DESC, r.id DESC
                 """).setParameter("l", lab).getResultList();
         return rows.stream().map(r -> new MyRoundSummary(((Number) r[0]).longValue(), (String) r[1], (String) r[2],
-                (String) r[3], (String) r[4], Timestamps.utc(r[5]))).toList();
+                (String) r[3], (String) r[4], Timestamps.utc(r[5]), (String) r[6])).toList();
     }
 
     @Transactional

@@ -178,6 +178,16 @@ public class RoundAccess {
                 .toList();
     }
 
+    /** The elements of the round's scheme in the catalogue's order (how the scheme lists its measurands). */
+    @Transactional
+    public List<String> measurandOrder(long roundId) {
+        Round round = entityManager.find(Round.class, roundId);
+        if (round == null) {
+            throw new DomainException.NotFound("The round");
+        }
+        return schemes.catalogue(round.schemeId).stream().map(m -> m.element).toList();
+    }
+
     /** Rounds still open for results whose deadline has passed and which refuse late results. */
     @Transactional
     public List<Long> dueForClosing(OffsetDateTime now) {

@@ -28,7 +28,13 @@ import org.roundtable.submission.intake.UploadFormat;
 import java.io.IOException;
 import java.io.UncheckedIOException;
 import java.nio.file.Files;
+import java.util.ArrayList;
+import java.util.Comparator;
+import java.util.HashMap;
+import java.util.HashSet;
 import java.util.List;
+import java.util.Map;
+import java.util.Set;
 
 /** Pages: a laboratory enters or uploads its results and talks to the coordinator; the coordinator follows them. */
 @Path("/")
@@ -37,27 +43,50 @@ public class SubmissionPages {
 
     /**
      * One input row of the results form: a measurand and item, with what the laboratory entered last (kept when a
-     * submit is refused, so nothing has to be typed twice).
+     * submit is refused, so nothing has to be typed twice) and the problems and warnings of its fields.
      */
     public record FormRow(String element, String item, String unit, String otherUnit, List<String> methods, int digits,
-                          String fieldKey, Entered entered) {
+                          String fieldKey, Entered entered, Marks marks) {
     }
 
     /** The values of one form row as entered (empty strings when nothing was entered). */
     public record Entered(String value, String unit, String uncertainty, String coverageFactor, String method,
-                          String replicates) {
-        static final Entered NOTHING = new Entered("", null, "", "2", null, "1");
+                          String replicates, String replicateValues) {
+        static final Entered NOTHING = new Entered("", null, "", "2", null, "1", "");
+    }
+
+    /** Problems (and warnings) beside the fields of one form row, in plain words; null where there is none. */
+    public record Marks(String value, String unit, String uncertainty, String coverageFactor, String method,
+                        String replicates, String row, String warning) {
+        static final Marks NONE = new Marks(null, null, null, null, null, null, null, null);
+
+        boolean any() {
+            return value != null || unit != null || uncertainty != null || coverageFactor != null || method != null
+                    || replicates != null || row != null;
+        }
+    }
+
+    /** A warning to confirm: its box's number and its words. */
+    public record WarningToConfirm(int index, String message) {
+    }
+
+    /**
+     * What the laboratory must agree to before anything is saved, shown before it can agree: the warnings, the
+     * measurands that would no longer be reported, and the token bound to them ({@link ConfirmationTokens}).
+     */
+    public record ToConfirm(boolean forFile, String token, List<WarningToConfirm> warnings, List<String> dropped,
+                            int replacedCount, String droppedText) {
     }
 
     /** Outcome shown on the page after a submit. */
-    public record Outcome(SubmissionViews.Receipt receipt, String error, List<DomainException.Detail> details,
-                          boolean warningsToConfirm) {
+    public record Outcome(SubmissionViews.Receipt receipt, String error, List<String> problems, ToConfirm confirm) {
     }
 
     @CheckedTemplate(basePath = "submission")
     static class Templates {
         static native TemplateInstance results(SubmissionViews.MySubmission submission, List<FormRow> rows,
-                                               Outcome outcome, List<SubmissionViews.Message> messages);
+                                               Outcome outcome, List<SubmissionViews.Message> messages,
+                                               List<SubmissionViews.Result> shownResults);
 
         static native TemplateInstance roundSubmissions(RoundAccess.SubmissionWindow round,
                                                         List<SubmissionViews.Participation> participations,
@@ -73,10 +102,13 @@ public class SubmissionPages {
     private final HttpServerRequest request;
 
     private final Admission admission;
+    private final ConfirmationTokens tokens;
 
     public SubmissionPages(SubmissionService submissions, SubmissionQueries queries, SubmissionMessages messages,
-                           RoundAccess rounds, ObjectMapper mapper, HttpServerRequest request, Admission admission) {
+                           RoundAccess rounds, ObjectMapper mapper, HttpServerRequest request, Admission admission,
+                           ConfirmationTokens tokens) {
         this.admission = admission;
+        this.tokens = tokens;
         this.submissions = submissions;
         this.queries = queries;
         this.messages = messages;
@@ -91,34 +123,44 @@ public class SubmissionPages {
     @Path("my-rounds/{roundId}/results")
     @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
     public TemplateInstance results(@PathParam("roundId") long roundId) {
-        return page(roundId, null, null);
+        return page(roundId, null, null, Map.of());
     }
 
+    /**
+     * The form: one row per measurand and item. Warnings and measurands left out that the current revision reports
+     * are shown first; they are agreed to only by ticking the boxes shown with them, which carry a token bound to
+     * them and to the values ({@code confirmationToken}); a {@code confirmWarnings} box sent in advance counts for
+     * nothing here.
+     */
     @POST
     @Path("my-rounds/{roundId}/results/form")
     @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
     public Response submitForm(@PathParam("roundId") long roundId, MultivaluedMap<String, String> form) {
-        byte[] json = formAsJson(rows(roundId, null), form);
-        boolean confirm = "on".equals(form.getFirst("confirmWarnings")) || "true".equals(form.getFirst("confirmWarnings"));
-        return attempt(roundId, form, () -> submissions.submit(roundId, new SubmissionService.Upload(SubmissionService.Channel.FORM,
-                UploadFormat.JSON, json, null, null), confirm, null, clientAddress()));
+        FormJson json = formAsJson(rows(roundId, null, Map.of()), form);
+        SubmissionService.Consent consent = tokens.consent(roundId, form.getFirst("confirmationToken"),
+                ticked(form.get("confirm")), "yes".equals(form.getFirst("replaceAll")));
+        return attempt(roundId, form, json.keys(), false, () -> submissions.submit(roundId,
+                new SubmissionService.Upload(SubmissionService.Channel.FORM, UploadFormat.JSON, json.json(), null, null),
+                consent, null, clientAddress()));
     }
 
+    /** A CSV or XLSX file; its warnings and left-out measurands are agreed to as on the form, by sending it again. */
     @POST
     @Path("my-rounds/{roundId}/results/upload")
     @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
     @Consumes(MediaType.MULTIPART_FORM_DATA)
     public Response upload(@PathParam("roundId") long roundId, @RestForm("file") FileUpload file,
-                           @RestForm("confirmWarnings") String confirmWarnings) {
-        if (file == null || file.uploadedFile() == null) {
-            return attempt(roundId, () -> {
+                           @RestForm("confirmationToken") String token, @RestForm("confirm") List<String> confirm,
+                           @RestForm("replaceAll") String replaceAll) {
+        if (file == null || file.uploadedFile() == null || file.size() == 0 && (file.fileName() == null || file.fileName().isBlank())) {
+            return attempt(roundId, null, null, true, () -> {
                 throw new DomainException.BadRequest("Choose a CSV or XLSX file to upload.");
             });
         }
         UploadFormat format = UploadFormat.fromFileName(file.fileName()).filter(f -> f != UploadFormat.JSON).orElse(null);
-        boolean confirm = "on".equals(confirmWarnings) || "true".equals(confirmWarnings);
-        return attempt(roundId, () -> {
+        SubmissionService.Consent consent = tokens.consent(roundId, token, ticked(confirm), "yes".equals(replaceAll));
+        return attempt(roundId, null, null, true, () -> {
             if (format == null) {
                 throw new DomainException.BadRequest("Upload a .csv or .xlsx file.");
             }
@@ -126,9 +168,13 @@ public class SubmissionPages {
             try (Admission.Slot ignored = admission.uploadSlot()) {
                 return submissions.submit(roundId, new SubmissionService.Upload(
                         format == UploadFormat.XLSX ? SubmissionService.Channel.XLSX : SubmissionService.Channel.CSV, format,
-                        read(file), file.fileName(), file.contentType()), confirm, null, clientAddress());
+                        read(file), file.fileName(), file.contentType()), consent, null, clientAddress());
             }
         });
+    }
+
+    private static Set<String> ticked(List<String> values) {
+        return values == null ? Set.of() : new HashSet<>(values);
     }
 
     @POST
@@ -165,38 +211,148 @@ public class SubmissionPages {
     // ---- helpers ------------------------------------------------------------------------------------------------
 
     private Response attempt(long roundId, java.util.function.Supplier<SubmissionViews.Receipt> action) {
-        return attempt(roundId, null, action);
+        return attempt(roundId, null, null, false, action);
     }
 
-    /** Runs a submit; on a refusal the page shows every problem and keeps what was entered in the form. */
-    private Response attempt(long roundId, MultivaluedMap<String, String> form,
+    /**
+     * Runs a submit; on a refusal the page shows every problem in plain words — beside its field on the form — and
+     * keeps what was entered. Warnings and left-out measurands come back with the boxes and token to agree to them.
+     *
+     * @param formKeys the form row (field key) of each result sent, in order; null for a file
+     */
+    private Response attempt(long roundId, MultivaluedMap<String, String> form, List<String> formKeys, boolean file,
                              java.util.function.Supplier<SubmissionViews.Receipt> action) {
         try {
             SubmissionViews.Receipt receipt = action.get();
-            return Response.ok(page(roundId, receipt == null ? null : new Outcome(receipt, null, List.of(), false), null)).build();
+            return Response.ok(page(roundId, receipt == null ? null : new Outcome(receipt, null, List.of(), null), null,
+                    Map.of())).build();
         } catch (DomainException.NotFound | DomainException.Forbidden | Admission.Unavailable e) {
             throw e; // answered by the error mapper (503 with Retry-After for Unavailable)
+        } catch (SubmissionService.NeedsConfirmation e) {
+            SubmissionService.Shown shown = e.shown();
+            List<WarningToConfirm> warnings = new ArrayList<>();
+            for (int i = 0; i < shown.warnings().size(); i++) {
+                warnings.add(new WarningToConfirm(i, shown.warnings().get(i).message()));
+            }
+            String droppedText = shown.dropped().isEmpty() ? null : "This replaces your " + shown.replacedCount()
+                    + (shown.replacedCount() == 1 ? " result" : " results") + "; " + String.join(", ", shown.dropped())
+                    + " would no longer be reported.";
+            ToConfirm confirm = new ToConfirm(file, tokens.issue(roundId, shown), warnings, shown.dropped(),
+                    shown.replacedCount(), droppedText);
+            Map<String, Marks> marks = new HashMap<>();
+            if (formKeys != null) {
+                for (SubmissionViews.Warning w : shown.warnings()) {
+                    if (w.row() > 0 && w.row() <= formKeys.size()) {
+                        String key = formKeys.get(w.row() - 1);
+                        Marks m = marks.getOrDefault(key, Marks.NONE);
+                        marks.put(key, new Marks(m.value(), m.unit(), m.uncertainty(), m.coverageFactor(), m.method(),
+                                m.replicates(), m.row(), m.warning() == null ? w.message() : m.warning() + " " + w.message()));
+                    }
+                }
+            }
+            String summary = !shown.dropped().isEmpty() ? "Please check and confirm. Nothing was saved yet."
+                    : "Please check " + (shown.warnings().size() == 1 ? "this value" : "these values")
+                    + " and confirm. Nothing was saved yet.";
+            return Response.status(e.status()).entity(page(roundId, new Outcome(null, summary, List.of(), confirm), form,
+                    marks)).build();
         } catch (DomainException e) {
-            boolean warnings = !e.details().isEmpty() && e.details().stream().allMatch(d -> d.key().startsWith("warning."));
-            return Response.status(e.status())
-                    .entity(page(roundId, new Outcome(null, e.detail(), e.details(), warnings), form)).build();
+            Map<String, Marks> marks = new HashMap<>();
+            List<String> problems = new ArrayList<>();
+            for (DomainException.Detail d : e.details()) {
+                if (formKeys != null && d.row() != null && d.row() > 0 && d.row() <= formKeys.size()) {
+                    String key = formKeys.get(d.row() - 1);
+                    marks.put(key, mark(marks.getOrDefault(key, Marks.NONE), d.column(), d.message()));
+                } else if (file && d.row() != null && d.row() > 0) {
+                    problems.add("Line " + d.row() + " of the file" + (d.column() == null ? "" : ", " + d.column())
+                            + ": " + d.message());
+                } else {
+                    problems.add(d.message());
+                }
+            }
+            String summary;
+            if (e.details().isEmpty()) {
+                summary = e.detail();
+            } else if (formKeys != null) {
+                int count = e.details().size();
+                List<String> where = marks.keySet().stream().sorted(Comparator.comparingInt(formKeys::indexOf))
+                        .map(k -> k.endsWith(".A") && formKeys.stream().noneMatch(o -> !o.endsWith(".A"))
+                                ? k.substring(0, k.length() - 2) : k.replace(".", ", item "))
+                        .toList();
+                summary = (count == 1 ? "One value needs" : count + " values need") + " correcting"
+                        + (where.isEmpty() ? "" : " (" + String.join("; ", where) + ")") + ". Nothing was saved.";
+            } else {
+                int count = e.details().size();
+                summary = "The file was not accepted: " + (count == 1 ? "one problem" : count + " problems")
+                        + ". Nothing was saved.";
+            }
+            return Response.status(e.status()).entity(page(roundId, new Outcome(null, summary, problems, null), form,
+                    marks)).build();
         }
     }
 
-    private TemplateInstance page(long roundId, Outcome outcome, MultivaluedMap<String, String> form) {
-        SubmissionViews.MySubmission mine = queries.mine(roundId);
-        List<FormRow> rows = mine.roundState().equals("OPEN_FOR_RESULTS") ? rows(roundId, form) : List.of();
-        return Templates.results(mine, rows, outcome, messages.ownThread(roundId));
+    /** Adds a problem to the field of a form row that {@code column} (the JSON field of the result) names. */
+    private static Marks mark(Marks m, String column, String message) {
+        String field = column == null ? "" : column;
+        return switch (field) {
+            case "value" -> new Marks(join(m.value(), message), m.unit(), m.uncertainty(), m.coverageFactor(), m.method(), m.replicates(), m.row(), m.warning());
+            case "unit" -> new Marks(m.value(), join(m.unit(), message), m.uncertainty(), m.coverageFactor(), m.method(), m.replicates(), m.row(), m.warning());
+            case "expandedUncertainty" -> new Marks(m.value(), m.unit(), join(m.uncertainty(), message), m.coverageFactor(), m.method(), m.replicates(), m.row(), m.warning());
+            case "coverageFactor" -> new Marks(m.value(), m.unit(), m.uncertainty(), join(m.coverageFactor(), message), m.method(), m.replicates(), m.row(), m.warning());
+            case "method" -> new Marks(m.value(), m.unit(), m.uncertainty(), m.coverageFactor(), join(m.method(), message), m.replicates(), m.row(), m.warning());
+            case "replicates", "replicateValues" -> new Marks(m.value(), m.unit(), m.uncertainty(), m.coverageFactor(), m.method(), join(m.replicates(), message), m.row(), m.warning());
+            default -> new Marks(m.value(), m.unit(), m.uncertainty(), m.coverageFactor(), m.method(), m.replicates(), join(m.row(), message), m.warning());
+        };
     }
 
-    private List<FormRow> rows(long roundId, MultivaluedMap<String, String> form) {
+    private static String join(String earlier, String message) {
+        return earlier == null ? message : earlier + " " + message;
+    }
+
+    private TemplateInstance page(long roundId, Outcome outcome, MultivaluedMap<String, String> form,
+                                  Map<String, Marks> marks) {
+        SubmissionViews.MySubmission mine = queries.mine(roundId);
+        List<FormRow> rows = mine.roundState().equals("OPEN_FOR_RESULTS") ? rows(roundId, form, marks, mine.current()) : List.of();
+        List<SubmissionViews.Result> shown = mine.current() == null ? List.of() : inSchemeOrder(roundId, mine.current().results());
+        return Templates.results(mine, rows, outcome, messages.ownThread(roundId), shown);
+    }
+
+    /** Results in the order the scheme lists its measurands, then by item. */
+    private List<SubmissionViews.Result> inSchemeOrder(long roundId, List<SubmissionViews.Result> results) {
+        List<String> order = rounds.measurandOrder(roundId);
+        return results.stream().sorted(Comparator.<SubmissionViews.Result>comparingInt(r -> order.contains(r.measurand())
+                        ? order.indexOf(r.measurand()) : order.size())
+                .thenComparing(SubmissionViews.Result::measurand).thenComparing(r -> r.item() == null ? "" : r.item()))
+                .toList();
+    }
+
+    private List<FormRow> rows(long roundId, MultivaluedMap<String, String> form, Map<String, Marks> marks) {
+        return rows(roundId, form, marks, null);
+    }
+
+    /**
+     * The form's rows: what was just typed when a submit was refused, else the current revision's values (so that
+     * correcting one value sends the others again instead of leaving them out), else nothing.
+     */
+    private List<FormRow> rows(long roundId, MultivaluedMap<String, String> form, Map<String, Marks> marks,
+                               SubmissionViews.Revision current) {
+        Map<String, Entered> reported = new HashMap<>();
+        if (form == null && current != null) {
+            for (SubmissionViews.Result r : current.results()) {
+                reported.put(r.measurand() + "." + r.item(), new Entered(r.valueAsReported(), r.unitAsReported(),
+                        r.expandedUncertaintyAsReported() == null ? "" : r.expandedUncertaintyAsReported(),
+                        r.coverageFactor() == null ? "2" : r.coverageFactor().stripTrailingZeros().toPlainString(),
+                        r.method(), r.replicates() == null ? "1" : String.valueOf(r.replicates()),
+                        r.replicateValues() == null ? "" : r.replicateValues()));
+            }
+        }
         RoundAccess.SubmissionWindow window = rounds.window(roundId);
         return rounds.openMeasurands(roundId).stream()
                 .flatMap(m -> window.itemLabels().stream().map(item -> {
                     String key = m.element() + "." + item;
                     return new FormRow(m.element(), item, m.unit(), "%".equals(m.unit()) ? "mg/kg" : "%",
                             m.methodGroups().stream().map(g -> g.toLowerCase().replace('_', '-')).toList(),
-                            m.reportingDigits(), key, entered(form, key));
+                            m.reportingDigits(), key, reported.getOrDefault(key, entered(form, key)),
+                            marks.getOrDefault(key, Marks.NONE));
                 }))
                 .toList();
     }
@@ -207,22 +363,28 @@ public class SubmissionPages {
         }
         return new Entered(text(form.getFirst("value." + key)), form.getFirst("unit." + key),
                 text(form.getFirst("u." + key)), text(form.getFirst("k." + key)), form.getFirst("method." + key),
-                text(form.getFirst("replicates." + key)));
+                text(form.getFirst("replicates." + key)), text(form.getFirst("replicateValues." + key)));
     }
 
     private static String text(String value) {
         return value == null ? "" : value.strip();
     }
 
+    /** The form as the JSON upload format, and the form row (field key) of each result in it, in order. */
+    record FormJson(byte[] json, List<String> keys) {
+    }
+
     /** The form's fields as the JSON upload format, so that the form goes through the same validation as files. */
-    byte[] formAsJson(List<FormRow> rows, MultivaluedMap<String, String> form) {
+    FormJson formAsJson(List<FormRow> rows, MultivaluedMap<String, String> form) {
         ObjectNode root = mapper.createObjectNode();
+        List<String> keys = new ArrayList<>();
         ArrayNode results = root.putArray("results");
         for (FormRow row : rows) {
             String value = trimmed(form.getFirst("value." + row.fieldKey()));
             if (value == null) {
                 continue; // a measurand left empty is not reported
             }
+            keys.add(row.fieldKey());
             ObjectNode result = results.addObject();
             result.put("measurand", row.element());
             result.put("item", row.item());
@@ -233,9 +395,17 @@ public class SubmissionPages {
             result.put("method", orDefault(form.getFirst("method." + row.fieldKey()), row.methods().get(0)));
             String replicates = trimmed(form.getFirst("replicates." + row.fieldKey()));
             result.put("replicates", replicates == null ? 1 : parseReplicates(replicates));
+            // replicate values come from a file revision shown in the form; they are sent again unchanged
+            String replicateValues = trimmed(form.getFirst("replicateValues." + row.fieldKey()));
+            if (replicateValues != null) {
+                ArrayNode values = result.putArray("replicateValues");
+                for (String v : replicateValues.split("\\|", -1)) {
+                    values.add(v.strip());
+                }
+            }
         }
         try {
-            return mapper.writeValueAsBytes(root);
+            return new FormJson(mapper.writeValueAsBytes(root), keys);
         } catch (com.fasterxml.jackson.core.JsonProcessingException e) {
             throw new IllegalStateException(e);
         }

@@ -56,7 +56,9 @@ public class SubmissionResource {
     /**
      * Submits results as JSON: {@code {"results":[{"measurand":"Cr","item":"A","value":"18.12","unit":"%",...}]}}.
      * Send an {@code Idempotency-Key} header to make retries safe; add {@code ?confirmWarnings=true} once the
-     * warnings of a first attempt were checked.
+     * warnings of a first attempt were checked, and {@code ?replaceAll=true} to leave out measurands the current
+     * revision reports (else 409 listing them). Values identical to the current revision answer 200 with its
+     * receipt, {@code "unchanged": true}, and store nothing; a new revision answers 201.
      */
     @POST
     @Path("{roundId}/submission")
@@ -64,15 +66,17 @@ public class SubmissionResource {
     @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
     public Response submitJson(@PathParam("roundId") long roundId, InputStream body,
                                @QueryParam("confirmWarnings") boolean confirmWarnings,
+                               @QueryParam("replaceAll") boolean replaceAll,
                                @HeaderParam("Idempotency-Key") String idempotencyKey) {
         // the body is read only once an upload slot is free: a waiting upload holds no memory
         SubmissionViews.Receipt receipt = admission.withUpload(body, Limits.defaults().maxFileBytes(), content ->
                 submissions.submit(roundId, new SubmissionService.Upload(SubmissionService.Channel.JSON, UploadFormat.JSON,
-                        content, null, MediaType.APPLICATION_JSON), confirmWarnings, idempotencyKey, clientAddress()));
-        return Response.status(201).entity(receipt).build();
+                        content, null, MediaType.APPLICATION_JSON),
+                        SubmissionService.Consent.flags(confirmWarnings, replaceAll), idempotencyKey, clientAddress()));
+        return Response.status(receipt.unchanged() ? 200 : 201).entity(receipt).build();
     }
 
-    /** Submits a CSV ({@code text/csv}) or XLSX file as the request body. */
+    /** Submits a CSV ({@code text/csv}) or XLSX file as the request body; answers as {@link #submitJson}. */
     @POST
     @Path("{roundId}/submission/file")
     @Consumes({"text/csv", XLSX_TYPE})
@@ -80,15 +84,16 @@ public class SubmissionResource {
     public Response submitFile(@PathParam("roundId") long roundId, InputStream body,
                                @HeaderParam("Content-Type") String contentType,
                                @QueryParam("confirmWarnings") boolean confirmWarnings,
+                               @QueryParam("replaceAll") boolean replaceAll,
                                @HeaderParam("Idempotency-Key") String idempotencyKey) {
         boolean xlsx = contentType != null && contentType.startsWith(XLSX_TYPE);
         SubmissionViews.Receipt receipt = admission.withUpload(body, Limits.defaults().maxFileBytes(), content ->
                 submissions.submit(roundId, new SubmissionService.Upload(
                         xlsx ? SubmissionService.Channel.XLSX : SubmissionService.Channel.CSV,
                         xlsx ? UploadFormat.XLSX : UploadFormat.CSV, content,
-                        xlsx ? "api-upload.xlsx" : "api-upload.csv", contentType), confirmWarnings, idempotencyKey,
-                        clientAddress()));
-        return Response.status(201).entity(receipt).build();
+                        xlsx ? "api-upload.xlsx" : "api-upload.csv", contentType),
+                        SubmissionService.Consent.flags(confirmWarnings, replaceAll), idempotencyKey, clientAddress()));
+        return Response.status(receipt.unchanged() ? 200 : 201).entity(receipt).build();
     }
 
     @GET

@@ -31,7 +31,6 @@ import java.time.Clock;
 import java.time.Duration;
 import java.time.OffsetDateTime;
 import java.time.ZoneOffset;
-import java.time.format.DateTimeFormatter;
 import java.util.HexFormat;
 import java.util.List;
 import java.util.Optional;
@@ -53,7 +52,6 @@ public class SubmissionService {
 
     /** How close two submissions from one client address must be to be flagged. */
     static final Duration NEAR_SIMULTANEOUS = Duration.ofMinutes(2);
-    private static final DateTimeFormatter DEADLINE = DateTimeFormatter.ofPattern("yyyy-MM-dd HH:mm");
 
     public enum Channel { FORM, CSV, XLSX, JSON, CORRECTION }
 
@@ -75,10 +73,12 @@ public class SubmissionService {
 
     /**
      * What a validated upload stores, whatever the kind of round: the canonical payload and its hash, the hash of the
-     * values alone, the warnings, how the file was read, how many results, and the writer of its result rows.
+     * values alone, the warnings, how the file was read, how many results, what it reports (element, item; none for
+     * a precision experiment), and the writer of its result rows.
      */
     private record Payload(String canonicalJson, String sha256, String valuesHash, List<IntakeWarning> warnings,
-                           Detection detection, int count, java.util.function.LongConsumer rows) {
+                           Detection detection, int count, List<String[]> keys,
+                           java.util.function.LongConsumer rows) {
     }
 
     public SubmissionService(RoundAccess rounds, SubmissionRules rules, IdempotencyStore idempotency, AuditTrail audit,
@@ -96,6 +96,64 @@ public class SubmissionService {
     }
 
     /**
+     * What a laboratory is shown before a revision is stored, and must agree to: the warnings of the upload and the
+     * measurands its current revision reports that the new one would no longer report.
+     *
+     * @param payloadSha256 SHA-256 of the canonical payload the agreement is about
+     * @param dropped       the measurands (with the item where a round has several) no longer reported, in the
+     *                      scheme's order, e.g. {@code Ni, Mo}
+     * @param replacedCount how many results the current revision reports
+     */
+    public record Shown(String payloadSha256, List<SubmissionViews.Warning> warnings, List<String> dropped,
+                        int replacedCount) {
+    }
+
+    /**
+     * How a laboratory agrees to what it was {@link Shown}: the API's flags ({@code confirmWarnings=true},
+     * {@code replaceAll=true}) for a LIMS; on the pages a signed token bound to exactly what was shown
+     * ({@link ConfirmationTokens}).
+     */
+    public interface Consent {
+        boolean confirmsWarnings(Shown shown);
+
+        boolean replacesAll(Shown shown);
+
+        static Consent flags(boolean confirmWarnings, boolean replaceAll) {
+            return new Consent() {
+                @Override
+                public boolean confirmsWarnings(Shown shown) {
+                    return confirmWarnings;
+                }
+
+                @Override
+                public boolean replacesAll(Shown shown) {
+                    return replaceAll;
+                }
+            };
+        }
+    }
+
+    /**
+     * A submit that needs the laboratory's agreement first: 422 with the warnings ({@code warning.} keys), or 409
+     * listing the measurands it would no longer report ({@code replace.not-reported}). Nothing was saved.
+     */
+    public static final class NeedsConfirmation extends DomainException {
+        private final Shown shown;
+
+        NeedsConfirmation(int status, String title, String detail, List<Detail> details, Shown shown) {
+            super(status, title, detail, details);
+            this.shown = shown;
+        }
+
+        public Shown shown() {
+            return shown;
+        }
+    }
+
+    /** Key of the detail that names a measurand a submit would no longer report. */
+    public static final String NOT_REPORTED_KEY = "replace.not-reported";
+
+    /**
      * A laboratory submits results for a round it is enrolled in.
      *
      * @param confirmWarnings the laboratory has seen and confirms the warnings (values outside the expected range…)
@@ -109,14 +167,33 @@ public class SubmissionService {
      */
     public SubmissionViews.Receipt submit(long roundId, Upload upload, boolean confirmWarnings, String idempotencyKey,
                                           String clientAddress) {
-        return submitFor(currentUser.requireLaboratoryId(), roundId, upload, confirmWarnings, idempotencyKey, clientAddress);
+        return submit(roundId, upload, Consent.flags(confirmWarnings, false), idempotencyKey, clientAddress);
+    }
+
+    /**
+     * As {@link #submit(long, Upload, boolean, String, String)}, with the laboratory's agreement to warnings and to
+     * results no longer reported given by {@code consent}. Values identical to the current revision's store nothing
+     * and answer that revision's receipt marked {@code unchanged}.
+     *
+     * @throws NeedsConfirmation warnings not confirmed (422), or measurands of the current revision left out
+     *                           without {@code replaceAll} (409)
+     */
+    public SubmissionViews.Receipt submit(long roundId, Upload upload, Consent consent, String idempotencyKey,
+                                          String clientAddress) {
+        return submitFor(currentUser.requireLaboratoryId(), roundId, upload, consent, idempotencyKey, clientAddress);
     }
 
     /** As {@link #submit}, for a laboratory named by the caller: only the demo loader, which acts for the laboratories. */
     SubmissionViews.Receipt submitFor(long laboratoryId, long roundId, Upload upload, boolean confirmWarnings,
                                       String idempotencyKey, String clientAddress) {
+        return submitFor(laboratoryId, roundId, upload, Consent.flags(confirmWarnings, false), idempotencyKey,
+                clientAddress);
+    }
+
+    private SubmissionViews.Receipt submitFor(long laboratoryId, long roundId, Upload upload, Consent consent,
+                                              String idempotencyKey, String clientAddress) {
         rounds.participantCode(roundId, laboratoryId).orElseThrow(() -> new DomainException.NotFound("The round"));
-        Payload accepted = validate(roundId, upload, confirmWarnings);
+        Payload accepted = validate(roundId, upload);
         String requestHash = Secrets.sha256Hex(roundId + "\n" + upload.channel() + "\n" + Secrets.sha256Hex(upload.content()));
         return QuarkusTransaction.requiringNew().call(() -> {
             RoundAccess.SubmissionWindow window = rounds.lockForSubmission(roundId);
@@ -137,15 +214,112 @@ public class SubmissionService {
                 throw new DomainException.Conflict("The result deadline passed at " + deadlineText(window)
                         + ". This round does not accept late results.");
             }
-            boolean late = timing != ResultTiming.ON_TIME;
-            // only browser sessions are compared by address: LIMS integrations of many laboratories often share one host
-            SubmissionViews.Receipt receipt = store(roundId, laboratoryId, upload, accepted, late, now, null, null,
-                    currentUser.viaApiToken() ? null : fingerprint(clientAddress));
+            Current current = current(roundId, laboratoryId);
+            SubmissionViews.Receipt receipt;
+            if (current != null && current.sha256().equals(accepted.sha256())) {
+                // the same values again: no new revision, the current one's receipt
+                receipt = current.receipt();
+            } else {
+                agree(roundId, window, accepted, current, consent);
+                boolean late = timing != ResultTiming.ON_TIME;
+                // only browser sessions are compared by address: LIMS integrations of many laboratories often share one host
+                receipt = store(roundId, laboratoryId, upload, accepted, late, now, null, null,
+                        currentUser.viaApiToken() ? null : fingerprint(clientAddress));
+            }
             if (idempotencyKey != null) {
-                idempotency.complete(scope(laboratoryId), idempotencyKey, 201, write(receipt));
+                idempotency.complete(scope(laboratoryId), idempotencyKey, receipt.unchanged() ? 200 : 201, write(receipt));
             }
             return receipt;
         });
+    }
+
+    /** Refuses the submit unless the laboratory agreed to its warnings and to the measurands it would drop. */
+    private void agree(long roundId, RoundAccess.SubmissionWindow window, Payload accepted, Current current,
+                       Consent consent) {
+        List<String> dropped = current == null ? List.of() : dropped(roundId, window, current.keys(), accepted.keys());
+        List<SubmissionViews.Warning> warnings = accepted.warnings().stream()
+                .map(w -> new SubmissionViews.Warning(w.row(), w.column(), w.value(), w.key(), w.message())).toList();
+        Shown shown = new Shown(accepted.sha256(), warnings, dropped, current == null ? 0 : current.keys().size());
+        if (!warnings.isEmpty() && !consent.confirmsWarnings(shown)) {
+            List<DomainException.Detail> details = warnings.stream()
+                    .map(w -> new DomainException.Detail(w.row() == 0 ? null : w.row(), w.column(), w.value(),
+                            "warning." + w.key(), w.message()))
+                    .toList();
+            throw new NeedsConfirmation(422, "Unprocessable",
+                    "Please check these values and confirm them. Nothing was saved yet.", details, shown);
+        }
+        if (!dropped.isEmpty() && !consent.replacesAll(shown)) {
+            List<DomainException.Detail> details = dropped.stream()
+                    .map(m -> new DomainException.Detail(null, "measurand", m, NOT_REPORTED_KEY,
+                            m + " would no longer be reported."))
+                    .toList();
+            throw new NeedsConfirmation(409, "Not possible now", "This replaces your " + shown.replacedCount()
+                    + (shown.replacedCount() == 1 ? " result" : " results") + "; " + String.join(", ", dropped)
+                    + " would no longer be reported. Send them again, or confirm that they are to be left out"
+                    + " (replaceAll=true). Nothing was saved.", details, shown);
+        }
+    }
+
+    /** The measurands of {@code before} missing from {@code after}, in the scheme's order, with the item where needed. */
+    private List<String> dropped(long roundId, RoundAccess.SubmissionWindow window, List<String[]> before,
+                                 List<String[]> after) {
+        java.util.Set<String> kept = after.stream().map(k -> k[0] + "|" + k[1]).collect(Collectors.toSet());
+        List<String> order = rounds.measurandOrder(roundId);
+        boolean paired = window.itemLabels().size() > 1;
+        return before.stream().filter(k -> !kept.contains(k[0] + "|" + k[1]))
+                .sorted(java.util.Comparator.<String[]>comparingInt(k -> order.contains(k[0]) ? order.indexOf(k[0]) : order.size())
+                        .thenComparing(k -> k[0]).thenComparing(k -> k[1]))
+                .map(k -> paired ? k[0] + " (item " + k[1] + ")" : k[0])
+                .toList();
+    }
+
+    /** The laboratory's current revision: payload hash, what it reports (element, item) and its receipt. */
+    private record Current(String sha256, List<String[]> keys, SubmissionViews.Receipt receipt) {
+    }
+
+    private Current current(long roundId, long laboratoryId) {
+        @SuppressWarnings("unchecked")
+        List<Object[]> heads = entityManager.createNativeQuery("""
+                SELECT v.id, s.id, v.revision, v.receipt_id, v.payload_sha256, v.submitted_at, v.late, v.channel,
+                       v.warnings_json, v.detection_json
+                  FROM submission s JOIN submission_revision v ON v.submission_id = s.id AND v.revision = s.current_revision
+                 WHERE s.round_id = :r AND s.laboratory_id = :l
+                """).setParameter("r", roundId).setParameter("l", laboratoryId).getResultList();
+        if (heads.isEmpty()) {
+            return null;
+        }
+        Object[] h = heads.get(0);
+        @SuppressWarnings("unchecked")
+        List<Object[]> rows = entityManager.createNativeQuery(
+                        "SELECT element, item_label FROM reported_result WHERE revision_id = :id ORDER BY element, item_label")
+                .setParameter("id", ((Number) h[0]).longValue()).getResultList();
+        List<String[]> keys = rows.stream().map(r -> new String[]{(String) r[0], (String) r[1]}).toList();
+        String sha = h[4].toString().strip();
+        List<SubmissionViews.Warning> warnings = readWarnings((String) h[8]);
+        String detected = h[9] == null ? null : describe(readDetection((String) h[9]));
+        SubmissionViews.Receipt receipt = new SubmissionViews.Receipt(((Number) h[1]).longValue(),
+                ((Number) h[2]).intValue(), (String) h[3], sha, org.roundtable.platform.Timestamps.utc(h[5]),
+                (Boolean) h[6], (String) h[7], warnings, detected, true);
+        return new Current(sha, keys, receipt);
+    }
+
+    private List<SubmissionViews.Warning> readWarnings(String json) {
+        if (json == null || json.isBlank()) {
+            return List.of();
+        }
+        try {
+            return List.of(mapper.readValue(json, SubmissionViews.Warning[].class));
+        } catch (JsonProcessingException e) {
+            return List.of();
+        }
+    }
+
+    private Detection readDetection(String json) {
+        try {
+            return mapper.readValue(json, Detection.class);
+        } catch (JsonProcessingException e) {
+            throw new IllegalStateException("stored detection unreadable", e);
+        }
     }
 
     /**
@@ -158,7 +332,7 @@ public class SubmissionService {
         }
         rounds.participantCode(roundId, laboratoryId).orElseThrow(() -> new DomainException.NotFound("The laboratory's submission"));
         Upload upload = new Upload(Channel.CORRECTION, UploadFormat.JSON, json, null, null);
-        Payload accepted = validate(roundId, upload, true);
+        Payload accepted = validate(roundId, upload);
         return QuarkusTransaction.requiringNew().call(() -> {
             RoundAccess.SubmissionWindow window = rounds.lockForSubmission(roundId);
             if (!window.closedBeforeIssue()) {
@@ -169,7 +343,8 @@ public class SubmissionService {
         });
     }
 
-    private Payload validate(long roundId, Upload upload, boolean confirmWarnings) {
+    /** Parses and validates the upload (errors refuse it at once); warnings are agreed to later, under the lock. */
+    private Payload validate(long roundId, Upload upload) {
         Optional<PrecisionIntake.Rules> precision = rules.forPrecisionExperiment(roundId);
         if (precision.isPresent()) {
             PrecisionIntake.Outcome outcome = precisionIntake.read(upload.content(), upload.format(), precision.get());
@@ -177,11 +352,11 @@ public class SubmissionService {
                 throw refused(rejected.problems(), rejected.detection());
             }
             PrecisionIntake.Accepted ok = (PrecisionIntake.Accepted) outcome;
-            confirm(ok.warnings(), confirmWarnings);
             return new Payload(ok.canonicalJson(), ok.sha256(), Secrets.sha256Hex(ok.replicates().stream()
                     .map(r -> r.measurand() + "|" + r.level() + "|" + r.replicate() + "|"
                             + r.value().stripTrailingZeros().toPlainString()).sorted().collect(Collectors.joining("\n"))),
-                    ok.warnings(), ok.detection(), ok.replicates().size(), id -> insertReplicates(id, ok.replicates()));
+                    ok.warnings(), ok.detection(), ok.replicates().size(), List.of(),
+                    id -> insertReplicates(id, ok.replicates()));
         }
         UploadRules uploadRules = rules.forRound(roundId);
         IntakeResult result = intake.read(upload.content(), upload.format(), uploadRules);
@@ -189,9 +364,9 @@ public class SubmissionService {
             throw refused(rejected.problems(), rejected.detection());
         }
         IntakeResult.Accepted accepted = (IntakeResult.Accepted) result;
-        confirm(accepted.warnings(), confirmWarnings);
         return new Payload(accepted.canonicalJson(), accepted.sha256(), valuesHash(accepted.results()),
                 accepted.warnings(), accepted.detection(), accepted.results().size(),
+                accepted.results().stream().map(r -> new String[]{r.measurand(), r.item()}).toList(),
                 id -> insertResults(id, accepted.results()));
     }
 
@@ -202,17 +377,6 @@ public class SubmissionService {
         return new DomainException.Unprocessable("The upload was not accepted: " + details.size()
                 + (details.size() == 1 ? " problem" : " problems") + ". Nothing was saved. Read as "
                 + describe(detection) + ".", details);
-    }
-
-    private static void confirm(List<IntakeWarning> warnings, boolean confirmWarnings) {
-        if (!warnings.isEmpty() && !confirmWarnings) {
-            List<DomainException.Detail> details = warnings.stream()
-                    .map(w -> new DomainException.Detail(w.row() == 0 ? null : w.row(), w.column(), w.value(),
-                            "warning." + w.key(), w.message()))
-                    .toList();
-            throw new DomainException.Unprocessable("Please check these values and confirm them. Nothing was saved yet.",
-                    details);
-        }
     }
 
     private SubmissionViews.Receipt store(long roundId, long laboratoryId, Upload upload, Payload accepted,
@@ -272,7 +436,7 @@ public class SubmissionService {
                         + " results=" + accepted.count() + (late ? " late" : "")
                         + (correctionReason == null ? "" : " reason=" + correctionReason)));
         return new SubmissionViews.Receipt(submissionId, revision, receiptId, accepted.sha256(), now, late,
-                upload.channel().name(), warnings, describe(accepted.detection()));
+                upload.channel().name(), warnings, describe(accepted.detection()), false);
     }
 
     /** One batched insert for all replicate results of a precision experiment's revision. */
@@ -404,8 +568,9 @@ public class SubmissionService {
     }
 
     private static String deadlineText(RoundAccess.SubmissionWindow window) {
-        java.time.ZoneId zone = java.time.ZoneId.of(window.deadlineTimeZone());
-        return DEADLINE.format(window.resultDeadline().atZoneSameInstant(zone)) + " " + window.deadlineTimeZone();
+        // the one format for people (platform.TimeDisplay), in the round's zone, named
+        return org.roundtable.platform.TimeDisplay.at(window.resultDeadline().toInstant(),
+                java.time.ZoneId.of(window.deadlineTimeZone()));
     }
 
     static String safeFileName(String name) {

@@ -18,10 +18,13 @@ public final class SubmissionViews {
      * Proof that a revision was stored: given only after its transaction committed.
      *
      * @param sha256   SHA-256 of the canonical payload (the accepted results as canonical JSON)
-     * @param detected how the upload was read, e.g. "CSV, UTF-8 with byte order mark, delimiter ';', decimal ','"
+     * @param detected  how the upload was read, e.g. "CSV, UTF-8 with byte order mark, delimiter ';', decimal ','"
+     * @param unchanged the values sent were those of the current revision: nothing new was stored, and this is
+     *                  the current revision's receipt
      */
     public record Receipt(long submissionId, int revision, String receiptId, String sha256, OffsetDateTime serverTime,
-                          boolean late, String channel, List<Warning> confirmedWarnings, String detected) {
+                          boolean late, String channel, List<Warning> confirmedWarnings, String detected,
+                          boolean unchanged) {
     }
 
     /** One result as the laboratory reported it, with the value converted exactly to the measurand's unit. */

@@ -65,7 +65,6 @@ class ResultsPageBrowserTest {
         assertThat(browser.findElement(By.name("u.Cr.A")).getAttribute("value")).isEqualTo("0.05");
         browser.findElement(By.name("value.Cr.A")).clear();
         browser.findElement(By.name("value.Cr.A")).sendKeys("18.12");
-        browser.findElement(By.cssSelector("form[action$='/results/form'] input[name='confirmWarnings']")).click();
         browser.findElement(By.cssSelector("form[action$='/results/form'] button")).click();
         assertThat(Browser.waitFor(browser, By.id("receipt")).getText()).contains("revision 1").contains("SHA-256");
         assertThat(browser.findElement(By.id("current-results")).getText()).contains("18.12");
@@ -76,7 +75,7 @@ class ResultsPageBrowserTest {
         Files.writeString(csv, "measurand,value,unit,method,replicates\nCr,18.20,%,spark-oes,2\nCr,18.30,%,laser,2\n",
                 StandardCharsets.UTF_8);
         browser.findElement(By.id("file")).sendKeys(csv.toString());
-        browser.findElement(By.cssSelector("form[action$='/results/upload'] button")).click();
+        browser.findElement(By.cssSelector("#upload-form button")).click();
         String problems = Browser.waitFor(browser, By.id("problems")).getText();
         assertThat(problems).contains("3").contains("method");
         assertThat(browser.findElement(By.id("current-results")).getText()).as("revision 1 is still the one in force")

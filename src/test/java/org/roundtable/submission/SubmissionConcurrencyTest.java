@@ -56,8 +56,10 @@ class SubmissionConcurrencyTest {
         long lab = world.laboratory();
         long round = world.round(RoundState.OPEN_FOR_RESULTS, lab);
         String token = world.apiToken(lab);
+        // two different sets of values: identical ones would be "no change" and make no second revision
+        java.util.concurrent.atomic.AtomicInteger next = new java.util.concurrent.atomic.AtomicInteger();
         List<Response> answers = race(2, () -> given().header("Authorization", "Bearer " + token)
-                .contentType("application/json").body(cr("18.1" + (int) (Math.random() * 10)))
+                .contentType("application/json").body(cr("18.1" + next.incrementAndGet()))
                 .post("/api/v1/my-rounds/" + round + "/submission"));
         assertThat(answers).allSatisfy(r -> assertThat(r.statusCode()).isEqualTo(201));
         assertThat(answers.stream().map(r -> (Integer) r.path("revision")).sorted().toList()).containsExactly(1, 2);
