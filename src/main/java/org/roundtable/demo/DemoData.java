@@ -79,8 +79,13 @@ public class DemoData {
     @ActivateRequestContext
     void runSteps(List<DemoScenario.Step> steps) {
         for (DemoScenario.Step step : steps) {
+            long started = System.nanoTime();
             try {
                 LoaderClock.at(step.at(), step.work());
+                long ms = (System.nanoTime() - started) / 1_000_000;
+                if (ms > 5_000) {
+                    LOG.infof("Demo: %s took %d s.", step.what(), ms / 1000);
+                }
             } catch (RuntimeException e) {
                 throw new IllegalStateException("demo step '" + step.what() + "' at " + step.at() + " failed: "
                         + e.getMessage(), e);
