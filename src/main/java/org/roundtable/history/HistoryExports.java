@@ -1,6 +1,10 @@
 package org.roundtable.history;
 
 import com.openhtmltopdf.pdfboxout.PdfRendererBuilder;
+import java.util.LinkedHashMap;
+import java.util.Map;
+import org.roundtable.report.chart.ReportChart;
+import org.roundtable.report.render.PdfReportRenderer;
 import com.openhtmltopdf.outputdevice.helper.BaseRendererBuilder;
 import jakarta.enterprise.context.ApplicationScoped;
 import jakarta.persistence.EntityManager;
@@ -159,8 +163,15 @@ public class HistoryExports {
             }
             x.append("</ul><p>").append(e(EarlyWarnings.BASIS)).append("</p>");
         }
+        Map<String, ReportChart> charts = new LinkedHashMap<>();
         for (HistoryService.Series s : h.series()) {
             x.append("<h2>").append(e(s.element())).append(" — ").append(e(s.schemeName())).append("</h2>");
+            ReportChart chart = scoreChart(s, charts.size());
+            if (chart != null) {
+                charts.put(chart.key(), chart);
+                x.append("<div>").append(PdfReportRenderer.chartPlaceholder(chart)).append("</div><p>")
+                        .append(e(chart.caption())).append("</p>");
+            }
             x.append("<table><tr><th>Round</th><th>Reported on</th><th>Item</th><th>Result</th><th>x_pt</th><th>σpt</th>")
                     .append("<th>Score used</th><th>Score</th><th>ζ</th><th>En</th><th>Verdict</th></tr>");
             for (HistoryService.Entry en : s.entries()) {
@@ -216,7 +227,47 @@ public class HistoryExports {
             }
         }
         x.append("</table><p>End of export ").append(e(pdfId)).append(".</p></body></html>");
-        return render(x.toString());
+        return charts.isEmpty() ? render(x.toString()) : new PdfReportRenderer().renderDocument(x.toString(), charts);
+    }
+
+    /**
+     * The series' score used (z or z′) over rounds, with the ±2 and ±3 lines, as the history page draws it; null
+     * when no result of the series was scored.
+     */
+    static ReportChart scoreChart(HistoryService.Series s, int index) {
+        List<HistoryService.Entry> scored = s.entries().stream()
+                .filter(en -> en.zLike() != null && Double.isFinite(en.zLike())).toList();
+        if (scored.isEmpty()) {
+            return null;
+        }
+        String caption = s.element() + " (" + s.schemeName() + "): score used (z or z′) over rounds; lines at ±2"
+                + " (questionable) and ±3 (unsatisfactory)";
+        return new ReportChart("history-chart-" + index, caption, 640, 200, scored.size(), () -> {
+            org.jfree.data.category.DefaultCategoryDataset data = new org.jfree.data.category.DefaultCategoryDataset();
+            double top = 4;
+            for (HistoryService.Entry en : scored) {
+                data.addValue(en.zLike(), "score", en.roundCode() + ("A".equals(en.itemLabel()) ? "" : " " + en.itemLabel()));
+                top = Math.max(top, Math.ceil(Math.abs(en.zLike())) + 0.5);
+            }
+            org.jfree.chart.JFreeChart chart = org.jfree.chart.ChartFactory.createLineChart(null, "Round", "Score",
+                    data, org.jfree.chart.plot.PlotOrientation.VERTICAL, false, false, false);
+            org.jfree.chart.plot.CategoryPlot plot = chart.getCategoryPlot();
+            plot.setBackgroundPaint(java.awt.Color.WHITE);
+            org.jfree.chart.renderer.category.LineAndShapeRenderer renderer =
+                    (org.jfree.chart.renderer.category.LineAndShapeRenderer) plot.getRenderer();
+            renderer.setDefaultShapesVisible(true);
+            renderer.setSeriesPaint(0, new java.awt.Color(0x3d, 0x6e, 0x9e));
+            for (double line : new double[] {2, -2, 3, -3}) {
+                boolean action = Math.abs(line) == 3;
+                plot.addRangeMarker(new org.jfree.chart.plot.ValueMarker(line, action ? new java.awt.Color(0xb0, 0x30, 0x30)
+                        : new java.awt.Color(0xc0, 0x80, 0x20), new java.awt.BasicStroke(1.2f,
+                        java.awt.BasicStroke.CAP_BUTT, java.awt.BasicStroke.JOIN_MITER, 10f,
+                        action ? null : new float[] {4f, 3f}, 0f)));
+            }
+            plot.addRangeMarker(new org.jfree.chart.plot.ValueMarker(0, java.awt.Color.GRAY, new java.awt.BasicStroke(0.6f)));
+            plot.getRangeAxis().setRange(-top, top);
+            return chart;
+        });
     }
 
     private static String score(Double v) {

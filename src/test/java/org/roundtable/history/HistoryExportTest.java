@@ -32,7 +32,7 @@ class HistoryExportTest {
     }
 
     @Test
-    void theExportIsIssuedAsAPdfAndACsvThatVerifyAndAOneByteChangeDoesNot() {
+    void theExportIsIssuedAsAPdfAndACsvThatVerifyAndAOneByteChangeDoesNot() throws java.io.IOException {
         long lab = world.laboratory();
         long scheme = rounds.scheme();
         rounds.published(scheme, lab, "18.10", ReportStatus.FINAL);
@@ -56,6 +56,11 @@ class HistoryExportTest {
         byte[] pdf = member.request().get("/my-laboratory/history/exports/" + pdfId).then().statusCode(200).extract().asByteArray();
         byte[] csv = member.request().get("/my-laboratory/history/exports/" + csvId).then().statusCode(200).extract().asByteArray();
         assertThat(new String(pdf, 0, 5, StandardCharsets.US_ASCII)).isEqualTo("%PDF-");
+        // the scores over rounds are drawn in the PDF, as on the history page, with their caption
+        try (org.apache.pdfbox.pdmodel.PDDocument document = org.apache.pdfbox.Loader.loadPDF(pdf)) {
+            assertThat(new org.apache.pdfbox.text.PDFTextStripper().getText(document))
+                    .contains("score used (z or z′) over rounds");
+        }
         String text = new String(csv, StandardCharsets.UTF_8);
         assertThat(text).startsWith(String.join(",", HistoryExports.COLUMNS));
         assertThat(text.lines()).hasSize(3);
