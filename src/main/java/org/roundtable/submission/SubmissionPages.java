@@ -76,7 +76,7 @@ public class SubmissionPages {
                                                         boolean deadlinePassed, boolean remindable,
                                                         List<SubmissionViews.Flag> flags,
                                                         List<SubmissionViews.Message> messages, String message,
-                                                        String error);
+                                                        String error, String reminderText, String reminderProblem);
 
         static native TemplateInstance participant(RoundAccess.SubmissionWindow round,
                                                    LaboratoryService.LaboratoryView laboratory, String participantCode,
@@ -237,6 +237,8 @@ public class SubmissionPages {
             throw e;
         } catch (DomainException e) {
             return Response.status(e.status()).entity(secondStep ? confirmations.page(step, e.detail())
+                    : e instanceof DomainException.BadRequest
+                    ? submissionsPage(roundId, null, null, null, null, null, message, e.detail())
                     : submissionsPage(roundId, null, null, null, null, e.detail())).build();
         }
     }
@@ -253,6 +255,11 @@ public class SubmissionPages {
 
     private TemplateInstance submissionsPage(long roundId, String statusName, String query, Integer page, String message,
                                              String error) {
+        return submissionsPage(roundId, statusName, query, page, message, error, null, null);
+    }
+
+    private TemplateInstance submissionsPage(long roundId, String statusName, String query, Integer page, String message,
+                                             String error, String reminderText, String reminderProblem) {
         RoundAccess.SubmissionWindow round = rounds.window(roundId);
         SubmissionStatus status = null;
         if (statusName != null && !statusName.isBlank()) {
@@ -272,7 +279,8 @@ public class SubmissionPages {
         String pagerQuery = (status == null ? "" : "&status=" + status.name())
                 + (q.isEmpty() ? "" : "&q=" + java.net.URLEncoder.encode(q, java.nio.charset.StandardCharsets.UTF_8));
         return Templates.roundSubmissions(round, rows, paging, List.of(SubmissionStatus.values()), status == null ? "" : status.name(), q, pagerQuery,
-                deadlinePassed, remindable, queries.flags(roundId), messages.allOfRound(roundId), message, error);
+                deadlinePassed, remindable, queries.flags(roundId), messages.allOfRound(roundId), message, error,
+                reminderText, reminderProblem);
     }
 
     // ---- helpers ------------------------------------------------------------------------------------------------
