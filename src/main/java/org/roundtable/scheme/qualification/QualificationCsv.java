@@ -126,7 +126,7 @@ public final class QualificationCsv {
         }
         if (named.size() != header.size() || java.util.Arrays.stream(at).anyMatch(i -> i < 0)) {
             throw new DomainException.BadRequest(place(format) + " " + read.headerRow() + ": the header must be "
-                    + String.join(",", header) + " (in any order), found '" + clip(String.join(",", named)) + "'.");
+                    + String.join(",", header) + " (in any order), found '" + clip(String.join(",", named), 80) + "'.");
         }
         List<Line> out = new ArrayList<>();
         for (GridIntake.GridRow row : read.rows()) {
@@ -184,6 +184,10 @@ public final class QualificationCsv {
     }
 
     private static String clip(String text) {
-        return text.length() <= 30 ? text : text.substring(0, 30) + "…";
+        return clip(text, 30);
+    }
+
+    private static String clip(String text, int length) {
+        return text.length() <= length ? text : text.substring(0, length) + "…";
     }
 }

@@ -87,7 +87,7 @@ public class QualificationPages {
             throw e;
         } catch (DomainException e) {
             return Response.status(e.status()).entity(page(roundId,
-                    new Form(text, e.detail(), "", null, null, null, "", null), null)).build();
+                    new Form(text, inFile(file, e.detail()), "", null, null, null, "", null), null)).build();
         }
     }
 
@@ -112,7 +112,7 @@ public class QualificationPages {
             throw e;
         } catch (DomainException e) {
             return Response.status(e.status()).entity(page(roundId,
-                    new Form("", null, text, e.detail(), null, null, "", null), null)).build();
+                    new Form("", null, text, inFile(file, e.detail()), null, null, "", null), null)).build();
         }
     }
 
@@ -137,6 +137,16 @@ public class QualificationPages {
     private TemplateInstance page(long roundId, Form form, String message) {
         return Templates.qualification(rounds.get(roundId), qualification.status(roundId),
                 Arrays.stream(QualificationService.Decision.values()).map(Enum::name).toList(), form, message);
+    }
+
+    /** A refusal of a chosen file names the file, which the browser does not show again. */
+    private static String inFile(FileUpload file, String detail) {
+        boolean chosen = file != null && file.fileName() != null && !file.fileName().isBlank();
+        if (!chosen || detail.startsWith("Choose a file") || detail.startsWith("Upload a")) {
+            return detail;
+        }
+        String name = file.fileName().length() > 80 ? file.fileName().substring(0, 80) + "…" : file.fileName();
+        return name + ": " + detail + " Correct the file and choose it again.";
     }
 
     /** The chosen file, or null when none was chosen (then the pasted text is read). */
