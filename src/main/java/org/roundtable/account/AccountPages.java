@@ -20,6 +20,7 @@ import org.roundtable.platform.DisplaySettings;
 import org.roundtable.platform.DomainException;
 import org.roundtable.platform.Paging;
 import org.roundtable.platform.FormActions;
+import org.roundtable.platform.Labels;
 
 import java.time.LocalDate;
 import java.time.LocalTime;
@@ -40,8 +41,9 @@ public class AccountPages {
 
     @CheckedTemplate(basePath = "account")
     static class Templates {
-        static native TemplateInstance users(LaboratoryService.Page<AccountService.UserView> users, Paging paging,
-                                             String query, AccountService.UserWithLink link, String error, String baseUrl);
+        static native TemplateInstance users(List<UserRow> users, Paging paging, String query,
+                                             AccountService.UserWithLink link, String error, String message,
+                                             NewUserForm form, List<RoleChoice> roles, String baseUrl);
 
         static native TemplateInstance laboratories(LaboratoryService.Page<LaboratoryService.LaboratoryView> laboratories,
                                                     Paging paging, String query,
@@ -57,6 +59,31 @@ public class AccountPages {
 
         static native TemplateInstance auditor(List<AuditorGrantService.GrantedLaboratory> laboratories);
     }
+
+    /** A user on the users page: the account, its laboratory (or null) and whether it is the viewer's own. */
+    public record UserRow(AccountService.UserView user, LaboratoryService.LaboratoryView laboratory, boolean self) {
+    }
+
+    /** A role as offered in the forms. */
+    public record RoleChoice(String name, String label, boolean laboratoryRole) {
+    }
+
+    /**
+     * The new-user form as typed, with the laboratories found by its search and the problem beside each field.
+     *
+     * @param matches the laboratories found for {@code laboratoryQuery} (a few; the search narrows them), or empty
+     * @param chosen  the laboratory chosen so far, or null
+     */
+    public record NewUserForm(String username, String displayName, String email, String role, String laboratoryQuery,
+                              List<LaboratoryService.LaboratoryView> matches, long matchesTotal,
+                              LaboratoryService.LaboratoryView chosen, String usernameProblem, String nameProblem,
+                              String emailProblem, String roleProblem, String laboratoryProblem, String problem) {
+        static final NewUserForm EMPTY = new NewUserForm("", "", "", "lab-member", "", List.of(), 0, null, null, null,
+                null, null, null, null);
+    }
+
+    /** Laboratories offered at once by the new-user form's search; more narrow the search. */
+    static final int LABORATORY_MATCHES = 8;
 
     private final AccountService accounts;
     private final LaboratoryService laboratories;
@@ -88,19 +115,117 @@ public class AccountPages {
     @Path("admin/users")
     @RolesAllowed(Role.ADMIN_NAME)
     public TemplateInstance users(@QueryParam("q") String query, @QueryParam("page") Integer page) {
-        return usersPage(query, page, null, null);
+        return usersPage(query, page, null, null, null, NewUserForm.EMPTY);
     }
 
+    /**
+     * Creates a user; with {@code find} set, only looks up laboratories for the form's laboratory search and shows
+     * the form again with what was typed, so that the laboratory is chosen from the search, not typed as an id.
+     */
     @POST
     @Path("admin/users")
     @RolesAllowed(Role.ADMIN_NAME)
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
     public Response createUser(@FormParam("username") String username, @FormParam("displayName") String displayName,
                                @FormParam("email") String email, @FormParam("role") String role,
-                               @FormParam("laboratoryId") String laboratoryId) {
-        return FormActions.attempt(() -> usersPage(accounts.create(new AccountService.NewUser(username, displayName, email, role,
-                Role.fromName(role).map(Role::belongsToLaboratory).orElse(false) ? parseId(laboratoryId) : null)), null),
-                e -> usersPage(null, e));
+                               @FormParam("laboratoryId") String laboratoryId,
+                               @FormParam("laboratoryQuery") String laboratoryQuery, @FormParam("find") String find) {
+        Long chosenId = null;
+        LaboratoryService.LaboratoryView chosen = null;
+        String idProblem = null;
+        try {
+            chosenId = parseId(laboratoryId);
+            chosen = chosenId == null ? null : laboratories.get(chosenId);
+        } catch (DomainException e) {
+            idProblem = "Choose the laboratory again from the search.";
+            chosenId = null;
+        }
+        String query = laboratoryQuery == null ? "" : laboratoryQuery.strip();
+        boolean labRole = Role.fromName(role).map(Role::belongsToLaboratory).orElse(false);
+        List<LaboratoryService.LaboratoryView> matches = List.of();
+        long matchesTotal = 0;
+        if (find != null || (!query.isEmpty() && chosen == null)) {
+            LaboratoryService.Page<LaboratoryService.LaboratoryView> found = laboratories.search(query, LABORATORY_MATCHES);
+            matches = found.items();
+            matchesTotal = found.total();
+        }
+        NewUserForm typed = new NewUserForm(text(username), text(displayName), text(email), role == null ? "" : role,
+                query, matches, matchesTotal, chosen, null, null, null, null, idProblem, null);
+        if (find != null) {
+            String problem = matchesTotal == 0 ? "No laboratory's name or organisation contains '" + query + "'." : null;
+            return Response.ok(usersPage(null, null, null, null, null, withLaboratoryProblem(typed, problem))).build();
+        }
+        if (labRole && chosen == null) {
+            return Response.status(400).entity(usersPage(null, null, null, null, null, withLaboratoryProblem(typed,
+                    idProblem != null ? idProblem : "A laboratory role needs its laboratory: find it by name and choose it."))).build();
+        }
+        Long labId = labRole ? chosenId : null;
+        try {
+            AccountService.UserWithLink created = accounts.create(new AccountService.NewUser(username, displayName, email,
+                    role, labId));
+            return Response.ok(usersPage(null, null, created, null, "User " + created.user().username() + " created.",
+                    NewUserForm.EMPTY)).build();
+        } catch (DomainException.NotFound | DomainException.Forbidden e) {
+            throw e;
+        } catch (DomainException e) {
+            return Response.status(e.status()).entity(usersPage(null, null, null, null, null, beside(typed, e.detail())))
+                    .build();
+        }
+    }
+
+    /**
+     * Changes a user's role: first the confirmation naming what the user loses and gains (the user is signed out
+     * everywhere), then the change (audited by the service). One's own role cannot be changed.
+     */
+    @POST
+    @Path("admin/users/{userId}/role")
+    @RolesAllowed(Role.ADMIN_NAME)
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response changeRole(@PathParam("userId") long userId, @FormParam("role") String roleName,
+                               @FormParam("confirmed") String confirmed) {
+        return FormActions.attempt(() -> {
+            AccountService.UserView user = accounts.get(userId);
+            if (currentUser.userId().map(id -> id == userId).orElse(false)) {
+                throw new DomainException.Conflict("You cannot change your own role: ask another administrator.");
+            }
+            Role to = Role.fromName(roleName).orElseThrow(() -> new DomainException.BadRequest("Choose a role from the list."));
+            Role from = Role.fromName(user.role()).orElseThrow();
+            if (to == from) {
+                throw new DomainException.BadRequest(user.username() + " already has the role " + Labels.of("RoleName", from.roleName()) + ".");
+            }
+            if (to.belongsToLaboratory() && user.laboratoryId() == null) {
+                throw new DomainException.BadRequest(user.username() + " belongs to no laboratory, so a laboratory role"
+                        + " cannot be given here: create a user for the laboratory instead.");
+            }
+            if (!Confirmation.confirmed(confirmed)) {
+                return confirmations.page(new Confirmation("Make " + user.username() + " " + article(to) + " "
+                        + Labels.of("RoleName", to.roleName()).toLowerCase(java.util.Locale.ROOT) + "?",
+                        user.displayName() + " loses what " + article(from) + " "
+                                + Labels.of("RoleName", from.roleName()).toLowerCase(java.util.Locale.ROOT) + " may do: "
+                                + access(from) + " From now on: " + access(to) + " The user is signed out everywhere"
+                                + " and signs in again with the new role.",
+                        "/admin/users/" + userId + "/role", List.of(new Confirmation.Field("role", to.roleName())), null,
+                        false, null, "Change the role", "/admin/users"), null);
+            }
+            accounts.changeRole(userId, to.roleName(), to.belongsToLaboratory() ? user.laboratoryId() : null);
+            return usersPage(null, null, null, null, user.username() + " is now " + article(to) + " "
+                    + Labels.of("RoleName", to.roleName()).toLowerCase(java.util.Locale.ROOT) + ".", NewUserForm.EMPTY);
+        }, e -> usersPage(null, null, null, e, null, NewUserForm.EMPTY));
+    }
+
+    /** What a role may do, in a sentence for the confirmation. */
+    static String access(Role role) {
+        return switch (role) {
+            case ADMIN -> "administers users and their roles.";
+            case COORDINATOR -> "runs schemes and rounds and sees the laboratories behind the participant codes.";
+            case LAB_MANAGER -> "administers its laboratory's members, API tokens and auditors' access, and enters its results.";
+            case LAB_MEMBER -> "enters and reads its own laboratory's results and scores.";
+            case AUDITOR -> "reads issued reports, and a laboratory's history where the laboratory granted it.";
+        };
+    }
+
+    private static String article(Role role) {
+        return role == Role.ADMIN || role == Role.AUDITOR ? "an" : "a";
     }
 
     @POST
@@ -110,12 +235,16 @@ public class AccountPages {
     public Response setEnabled(@PathParam("userId") long userId, @FormParam("enabled") boolean enabled,
                                @FormParam("confirmed") String confirmed) {
         return FormActions.attempt(() -> {
+            if (!enabled && currentUser.userId().map(id -> id == userId).orElse(false)) {
+                throw new DomainException.Conflict("You cannot disable your own account: ask another administrator.");
+            }
             if (!enabled && !Confirmation.confirmed(confirmed)) {
                 return confirmations.page(disabling(accounts.get(userId).username(), "/admin/users/" + userId + "/enabled",
                         "/admin/users"), null);
             }
-            accounts.setEnabled(userId, enabled);
-            return usersPage(null, null);
+            AccountService.UserView changed = accounts.setEnabled(userId, enabled);
+            return usersPage(null, null, null, null, "The account " + changed.username() + " is "
+                    + (enabled ? "enabled" : "disabled") + ".", NewUserForm.EMPTY);
         }, e -> usersPage(null, e));
     }
 
@@ -286,14 +415,45 @@ public class AccountPages {
     // ---- helpers --------------------------------------------------------------------------------------------
 
     private TemplateInstance usersPage(AccountService.UserWithLink link, String error) {
-        return usersPage(null, null, link, error);
+        return usersPage(null, null, link, error, null, NewUserForm.EMPTY);
     }
 
-    private TemplateInstance usersPage(String query, Integer page, AccountService.UserWithLink link, String error) {
+    private TemplateInstance usersPage(String query, Integer page, AccountService.UserWithLink link, String error,
+                                       String message, NewUserForm form) {
         long total = accounts.search(query, 0, 1).total();
         Paging paging = Paging.of(page, pageSize(), total);
-        return Templates.users(accounts.search(query, paging.offset(), paging.size()), paging, query, link, error,
-                FormActions.baseUrl(request));
+        List<AccountService.UserView> users = accounts.search(query, paging.offset(), paging.size()).items();
+        java.util.Map<Long, LaboratoryService.LaboratoryView> labs = laboratories.byIds(users.stream()
+                .map(AccountService.UserView::laboratoryId).filter(java.util.Objects::nonNull).toList());
+        Long self = currentUser.userId().orElse(null);
+        List<UserRow> rows = users.stream().map(u -> new UserRow(u, u.laboratoryId() == null ? null : labs.get(u.laboratoryId()),
+                self != null && self == u.id())).toList();
+        List<RoleChoice> roles = java.util.Arrays.stream(Role.values())
+                .map(r -> new RoleChoice(r.roleName(), Labels.of("RoleName", r.roleName()), r.belongsToLaboratory())).toList();
+        return Templates.users(rows, paging, query, link, error, message, form, roles, FormActions.baseUrl(request));
+    }
+
+    private static NewUserForm withLaboratoryProblem(NewUserForm f, String problem) {
+        return new NewUserForm(f.username(), f.displayName(), f.email(), f.role(), f.laboratoryQuery(), f.matches(),
+                f.matchesTotal(), f.chosen(), null, null, null, null, problem, null);
+    }
+
+    /** Puts the service's refusal beside the field it is about (the form's top when it names none). */
+    private static NewUserForm beside(NewUserForm f, String detail) {
+        String lower = detail == null ? "" : detail.toLowerCase(java.util.Locale.ROOT);
+        boolean username = lower.contains("username");
+        boolean name = !username && lower.contains("display name");
+        boolean email = !username && !name && lower.contains("e-mail");
+        boolean role = !username && !name && !email && lower.contains("role");
+        boolean laboratory = !username && !name && !email && !role && lower.contains("laborator");
+        boolean other = !username && !name && !email && !role && !laboratory;
+        return new NewUserForm(f.username(), f.displayName(), f.email(), f.role(), f.laboratoryQuery(), f.matches(),
+                f.matchesTotal(), f.chosen(), username ? detail : null, name ? detail : null, email ? detail : null,
+                role ? detail : null, laboratory ? detail : null, other ? detail : null);
+    }
+
+    private static String text(String value) {
+        return value == null ? "" : value.strip();
     }
 
     private TemplateInstance laboratoriesPage(String query, Integer page, LaboratoryService.CreatedLaboratory created,

@@ -103,6 +103,17 @@ public class LaboratoryService {
         return new Page<>(items, laboratories.count(where, like));
     }
 
+    /** The laboratories with these ids, in one query (for a page of users). */
+    @Transactional
+    public java.util.Map<Long, LaboratoryView> byIds(java.util.Collection<Long> ids) {
+        if (ids.isEmpty()) {
+            return java.util.Map.of();
+        }
+        java.util.Map<Long, LaboratoryView> out = new java.util.HashMap<>();
+        laboratories.list("id in ?1", java.util.Set.copyOf(ids)).forEach(l -> out.put(l.id, LaboratoryView.of(l)));
+        return out;
+    }
+
     /** One laboratory, if the caller may see it; otherwise "not found". */
     @Transactional
     public LaboratoryView get(long laboratoryId) {

@@ -328,40 +328,6 @@ public class RoundPages {
         }, e -> secondStep ? confirmations.page(step, e) : roundPage(roundId, e, null, null));
     }
 
-    @POST
-    @Path("rounds/{roundId}/qualification/homogeneity")
-    @RolesAllowed(Role.COORDINATOR_NAME)
-    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
-    public Response homogeneity(@PathParam("roundId") long roundId, @FormParam("csv") String csv) {
-        return FormActions.attempt(() -> {
-            qualification.uploadHomogeneity(roundId, new QualificationService.Upload(csv));
-            return roundPage(roundId, null, "Homogeneity data checked.", null);
-        }, e -> roundPage(roundId, e, null, null));
-    }
-
-    @POST
-    @Path("rounds/{roundId}/qualification/stability")
-    @RolesAllowed(Role.COORDINATOR_NAME)
-    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
-    public Response stability(@PathParam("roundId") long roundId, @FormParam("csv") String csv) {
-        return FormActions.attempt(() -> {
-            qualification.uploadStability(roundId, new QualificationService.Upload(csv));
-            return roundPage(roundId, null, "Stability data checked.", null);
-        }, e -> roundPage(roundId, e, null, null));
-    }
-
-    @POST
-    @Path("rounds/{roundId}/qualification/decisions")
-    @RolesAllowed(Role.COORDINATOR_NAME)
-    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
-    public Response decide(@PathParam("roundId") long roundId, @FormParam("element") String element,
-                           @FormParam("decision") String decision, @FormParam("reason") String reason) {
-        return FormActions.attempt(() -> {
-            qualification.decide(roundId, new QualificationService.DecisionRequest(element, decision, reason));
-            return roundPage(roundId, null, "Decision recorded for " + element + ".", null);
-        }, e -> roundPage(roundId, e, null, null));
-    }
-
     // ---- laboratories -------------------------------------------------------------------------------
 
     @GET

@@ -19,7 +19,16 @@ import jakarta.ws.rs.core.MultivaluedMap;
 import jakarta.ws.rs.core.Response;
 import org.jboss.resteasy.reactive.RestForm;
 import org.jboss.resteasy.reactive.multipart.FileUpload;
+import jakarta.ws.rs.QueryParam;
+import org.roundtable.account.CurrentUser;
+import org.roundtable.account.LaboratoryService;
 import org.roundtable.account.Role;
+import org.roundtable.notice.NoticeService;
+import org.roundtable.platform.Confirmation;
+import org.roundtable.platform.Confirmations;
+import org.roundtable.platform.DisplaySettings;
+import org.roundtable.platform.Paging;
+import org.roundtable.scheme.RoundState;
 import org.roundtable.platform.Admission;
 import org.roundtable.platform.DomainException;
 import org.roundtable.scheme.RoundAccess;
@@ -28,6 +37,7 @@ import org.roundtable.submission.intake.UploadFormat;
 import java.io.IOException;
 import java.io.UncheckedIOException;
 import java.nio.file.Files;
+import java.time.Clock;
 import java.util.ArrayList;
 import java.util.Comparator;
 import java.util.HashMap;
@@ -89,9 +99,17 @@ public class SubmissionPages {
                                                List<SubmissionViews.Result> shownResults);
 
         static native TemplateInstance roundSubmissions(RoundAccess.SubmissionWindow round,
-                                                        List<SubmissionViews.Participation> participations,
+                                                        SubmissionViews.StatusPage participations, Paging paging,
+                                                        List<SubmissionStatus> statuses, String status,
+                                                        String query, String pagerQuery,
+                                                        boolean deadlinePassed, boolean remindable,
                                                         List<SubmissionViews.Flag> flags,
-                                                        List<SubmissionViews.Message> messages);
+                                                        List<SubmissionViews.Message> messages, String message,
+                                                        String error, String reminderText, String reminderProblem);
+
+        static native TemplateInstance participant(RoundAccess.SubmissionWindow round,
+                                                   LaboratoryService.LaboratoryView laboratory, String participantCode,
+                                                   List<SubmissionViews.Revision> revisions);
     }
 
     private final SubmissionService submissions;
@@ -103,12 +121,25 @@ public class SubmissionPages {
 
     private final Admission admission;
     private final ConfirmationTokens tokens;
+    private final NoticeService notices;
+    private final LaboratoryService laboratories;
+    private final CurrentUser currentUser;
+    private final Confirmations confirmations;
+    private final DisplaySettings display;
+    private final Clock clock;
 
     public SubmissionPages(SubmissionService submissions, SubmissionQueries queries, SubmissionMessages messages,
                            RoundAccess rounds, ObjectMapper mapper, HttpServerRequest request, Admission admission,
-                           ConfirmationTokens tokens) {
+                           ConfirmationTokens tokens, NoticeService notices, LaboratoryService laboratories,
+                           CurrentUser currentUser, Confirmations confirmations, DisplaySettings display, Clock clock) {
         this.admission = admission;
         this.tokens = tokens;
+        this.notices = notices;
+        this.laboratories = laboratories;
+        this.currentUser = currentUser;
+        this.confirmations = confirmations;
+        this.display = display;
+        this.clock = clock;
         this.submissions = submissions;
         this.queries = queries;
         this.messages = messages;
@@ -193,9 +224,68 @@ public class SubmissionPages {
     @GET
     @Path("rounds/{roundId}/submissions")
     @RolesAllowed(Role.COORDINATOR_NAME)
-    public TemplateInstance roundSubmissions(@PathParam("roundId") long roundId) {
-        return Templates.roundSubmissions(rounds.window(roundId), queries.participations(roundId), queries.flags(roundId),
-                messages.allOfRound(roundId));
+    public TemplateInstance roundSubmissions(@PathParam("roundId") long roundId, @QueryParam("status") String status,
+                                             @QueryParam("q") String query, @QueryParam("page") Integer page) {
+        return submissionsPage(roundId, status, query, page, null, null);
+    }
+
+    /** The coordinator's view of one laboratory's submission in a round: every revision with its values. */
+    @GET
+    @Path("rounds/{roundId}/submissions/{laboratoryId}")
+    @RolesAllowed(Role.COORDINATOR_NAME)
+    public TemplateInstance participant(@PathParam("roundId") long roundId, @PathParam("laboratoryId") long laboratoryId) {
+        String code = rounds.participantCode(roundId, laboratoryId)
+                .orElseThrow(() -> new DomainException.NotFound("The laboratory's submission"));
+        List<SubmissionViews.Revision> revisions = new java.util.ArrayList<>(queries.revisionsOf(roundId, laboratoryId));
+        java.util.Collections.reverse(revisions);
+        return Templates.participant(rounds.window(roundId), laboratories.get(laboratoryId), code, revisions);
+    }
+
+    /**
+     * A reminder to the laboratories that have sent no results, through the notices (and the e-mail of those
+     * members who chose it): first the confirmation naming how many it reaches, then the reminder itself.
+     */
+    @POST
+    @Path("rounds/{roundId}/submissions/reminders")
+    @RolesAllowed(Role.COORDINATOR_NAME)
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response remindMissing(@PathParam("roundId") long roundId, @FormParam("reason") String message,
+                                  @FormParam("confirmed") String confirmed) {
+        boolean secondStep = Confirmation.confirmed(confirmed);
+        RoundAccess.SubmissionWindow round = rounds.window(roundId);
+        long missing = queries.statusPage(roundId, SubmissionStatus.MISSING, null, 0, 1).missing();
+        Confirmation step = new Confirmation("Remind the " + missing + (missing == 1 ? " laboratory" : " laboratories")
+                + " without results in round " + round.roundCode() + "?",
+                "Every active member of " + (missing == 1 ? "the laboratory" : "these laboratories") + " gets your "
+                        + "message as a notice in Roundtable, and by e-mail where they chose e-mail for reminders. "
+                        + "Laboratories that have sent results get nothing.",
+                "/rounds/" + roundId + "/submissions/reminders", List.of(), "Message to the laboratories", true,
+                message, "Send the reminder", "/rounds/" + roundId + "/submissions");
+        try {
+            if (!round.openForResults() && !RoundState.DISPATCHED.name().equals(round.state())) {
+                throw new DomainException.Conflict("The round does not take results now: there is nothing to remind of.");
+            }
+            if (missing == 0) {
+                throw new DomainException.Conflict("Every laboratory has sent results: nobody to remind.");
+            }
+            if (message == null || message.isBlank()) {
+                throw new DomainException.BadRequest("Write the reminder's message.");
+            }
+            if (!secondStep) {
+                return Response.ok(confirmations.page(step, null)).build();
+            }
+            int reached = notices.remind(roundId, message, true, currentUser.actor());
+            return Response.ok(submissionsPage(roundId, null, null, null, "Reminder sent to " + missing
+                    + (missing == 1 ? " laboratory" : " laboratories") + " without results (" + reached
+                    + (reached == 1 ? " person" : " people") + ").", null)).build();
+        } catch (DomainException.NotFound | DomainException.Forbidden e) {
+            throw e;
+        } catch (DomainException e) {
+            return Response.status(e.status()).entity(secondStep ? confirmations.page(step, e.detail())
+                    : e instanceof DomainException.BadRequest
+                    ? submissionsPage(roundId, null, null, null, null, null, message, e.detail())
+                    : submissionsPage(roundId, null, null, null, null, e.detail())).build();
+        }
     }
 
     @POST
@@ -205,7 +295,37 @@ public class SubmissionPages {
     public TemplateInstance reply(@PathParam("roundId") long roundId, @PathParam("laboratoryId") long laboratoryId,
                                   @FormParam("body") String body) {
         messages.replyAsCoordinator(roundId, laboratoryId, body);
-        return roundSubmissions(roundId);
+        return submissionsPage(roundId, null, null, null, "Answer sent.", null);
+    }
+
+    private TemplateInstance submissionsPage(long roundId, String statusName, String query, Integer page, String message,
+                                             String error) {
+        return submissionsPage(roundId, statusName, query, page, message, error, null, null);
+    }
+
+    private TemplateInstance submissionsPage(long roundId, String statusName, String query, Integer page, String message,
+                                             String error, String reminderText, String reminderProblem) {
+        RoundAccess.SubmissionWindow round = rounds.window(roundId);
+        SubmissionStatus status = null;
+        if (statusName != null && !statusName.isBlank()) {
+            try {
+                status = SubmissionStatus.valueOf(statusName.strip().toUpperCase(java.util.Locale.ROOT));
+            } catch (IllegalArgumentException e) {
+                throw new DomainException.BadRequest("The status is submitted, late or missing.");
+            }
+        }
+        String q = query == null ? "" : query.strip();
+        long total = queries.statusPage(roundId, status, q, 0, 1).total();
+        Paging paging = Paging.of(page, display.pageSize(), total);
+        SubmissionViews.StatusPage rows = queries.statusPage(roundId, status, q, paging.offset(), paging.size());
+        boolean deadlinePassed = round.resultDeadline() != null && !round.resultDeadline().toInstant().isAfter(clock.instant());
+        boolean remindable = rows.missing() > 0
+                && (round.openForResults() || RoundState.DISPATCHED.name().equals(round.state()));
+        String pagerQuery = (status == null ? "" : "&status=" + status.name())
+                + (q.isEmpty() ? "" : "&q=" + java.net.URLEncoder.encode(q, java.nio.charset.StandardCharsets.UTF_8));
+        return Templates.roundSubmissions(round, rows, paging, List.of(SubmissionStatus.values()), status == null ? "" : status.name(), q, pagerQuery,
+                deadlinePassed, remindable, queries.flags(roundId), messages.allOfRound(roundId), message, error,
+                reminderText, reminderProblem);
     }
 
     // ---- helpers ------------------------------------------------------------------------------------------------

@@ -73,6 +73,76 @@ public class SubmissionQueries {
         return out;
     }
 
+    /**
+     * Coordinators: one page of the laboratories enrolled in a round with where they stand (submitted, late,
+     * missing), filtered by status (null: all) and by part of the laboratory's name, organisation or participant
+     * code; missing first, then late, then submitted, each by laboratory name. One query for the rows, one for the
+     * counts, whatever the number of laboratories.
+     */
+    @Transactional
+    public SubmissionViews.StatusPage statusPage(long roundId, SubmissionStatus status, String query, int offset,
+                                                 int limit) {
+        rounds.window(roundId);
+        String like = like(query);
+        String filter = status == null ? "" : status.name();
+        @SuppressWarnings("unchecked")
+        List<Object[]> rows = entityManager.createNativeQuery(STATUS_ROWS + """
+                SELECT laboratory_id, laboratory_name, organisation, participant_code, current_revision, submitted_at,
+                       channel, status, revisions
+                  FROM rows
+                 WHERE (:status = '' OR status = :status)
+                   AND (lower(laboratory_name) LIKE :q ESCAPE '\\' OR lower(organisation) LIKE :q ESCAPE '\\'
+                        OR lower(participant_code) LIKE :q ESCAPE '\\')
+                 ORDER BY CASE status WHEN 'MISSING' THEN 0 WHEN 'LATE' THEN 1 ELSE 2 END, lower(laboratory_name),
+                          participant_code
+                 LIMIT :limit OFFSET :offset
+                """).setParameter("r", roundId).setParameter("status", filter).setParameter("q", like)
+                .setParameter("limit", limit).setParameter("offset", offset).getResultList();
+        List<SubmissionViews.StatusRow> items = rows.stream().map(r -> new SubmissionViews.StatusRow(
+                ((Number) r[0]).longValue(), (String) r[1], (String) r[2], (String) r[3], ((Number) r[4]).intValue(),
+                r[5] == null ? null : Timestamps.utc(r[5]), (String) r[6], SubmissionStatus.valueOf((String) r[7]),
+                ((Number) r[8]).intValue())).toList();
+        Object[] counts = (Object[]) entityManager.createNativeQuery(STATUS_ROWS + """
+                SELECT count(*) FILTER (WHERE (:status = '' OR status = :status)
+                         AND (lower(laboratory_name) LIKE :q ESCAPE '\\' OR lower(organisation) LIKE :q ESCAPE '\\'
+                              OR lower(participant_code) LIKE :q ESCAPE '\\')),
+                       count(*) FILTER (WHERE status = 'SUBMITTED'),
+                       count(*) FILTER (WHERE status = 'LATE'),
+                       count(*) FILTER (WHERE status = 'MISSING')
+                  FROM rows
+                """).setParameter("r", roundId).setParameter("status", filter).setParameter("q", like).getSingleResult();
+        return new SubmissionViews.StatusPage(items, ((Number) counts[0]).longValue(), ((Number) counts[1]).longValue(),
+                ((Number) counts[2]).longValue(), ((Number) counts[3]).longValue());
+    }
+
+    /**
+     * Each enrolled laboratory of round {@code :r} with its current revision and status: MISSING without a revision,
+     * LATE when its first revision came after the deadline, SUBMITTED otherwise.
+     */
+    private static final String STATUS_ROWS = """
+            WITH rows AS (
+              SELECT p.laboratory_id, l.name AS laboratory_name, l.organisation, p.participant_code,
+                     COALESCE(s.current_revision, 0) AS current_revision, v.submitted_at, v.channel,
+                     CASE WHEN COALESCE(s.current_revision, 0) = 0 THEN 'MISSING'
+                          WHEN first.late THEN 'LATE' ELSE 'SUBMITTED' END AS status,
+                     COALESCE(s.current_revision, 0) AS revisions
+                FROM round_participant p
+                JOIN laboratory l ON l.id = p.laboratory_id
+                LEFT JOIN submission s ON s.round_id = p.round_id AND s.laboratory_id = p.laboratory_id
+                LEFT JOIN submission_revision v ON v.submission_id = s.id AND v.revision = s.current_revision
+                LEFT JOIN submission_revision first ON first.submission_id = s.id AND first.revision = 1
+               WHERE p.round_id = :r
+            )
+            """;
+
+    private static String like(String query) {
+        String clean = query == null ? "" : query.strip().toLowerCase(java.util.Locale.ROOT);
+        if (clean.length() > 100) {
+            clean = clean.substring(0, 100);
+        }
+        return "%" + clean.replace("\\", "\\\\").replace("%", "\\%").replace("_", "\\_") + "%";
+    }
+
     /** Coordinators: every revision of one laboratory's submission, oldest first. */
     @Transactional
     public List<SubmissionViews.Revision> revisionsOf(long roundId, long laboratoryId) {

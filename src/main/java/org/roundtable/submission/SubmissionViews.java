@@ -53,6 +53,24 @@ public final class SubmissionViews {
                                 OffsetDateTime lastSubmittedAt, boolean late, String channel) {
     }
 
+    /**
+     * The coordinator's line per enrolled laboratory on the submissions page.
+     *
+     * @param currentRevision 0 when the laboratory has sent nothing
+     * @param submittedAt     when the current revision came, or null
+     */
+    public record StatusRow(long laboratoryId, String laboratoryName, String organisation, String participantCode,
+                            int currentRevision, OffsetDateTime submittedAt, String channel, SubmissionStatus status,
+                            int revisions) {
+    }
+
+    /** One page of {@link StatusRow}s, the number of rows the filter finds, and the round's count per status. */
+    public record StatusPage(List<StatusRow> rows, long total, long submitted, long late, long missing) {
+        public long enrolled() {
+            return submitted + late + missing;
+        }
+    }
+
     public record Flag(String kind, long laboratoryId, String participantCode, long otherLaboratoryId,
                        String otherParticipantCode, String detail, OffsetDateTime raisedAt) {
     }

@@ -54,17 +54,20 @@ class RoundPageBrowserTest {
         browser.get(home + "rounds/" + round);
         assertThat(browser.getTitle()).as(browser.getPageSource()).contains("Round");
         assertThat(browser.findElement(By.id("round-state")).getText()).isEqualTo("Enrolling");
-        browser.findElement(By.id("homogeneity-csv")).sendKeys(HomogeneityWorkedExampleTest.csv());
-        browser.findElement(By.xpath("//button[text()='Check homogeneity']")).click();
+        browser.findElement(By.id("qualification-link")).click();
+        Browser.waitFor(browser, By.id("homogeneity-csv")).sendKeys(HomogeneityWorkedExampleTest.csv());
+        Browser.submit(browser, By.id("check-homogeneity"));
         new org.openqa.selenium.support.ui.WebDriverWait(browser, java.time.Duration.ofSeconds(20))
-                .until(d -> d.findElement(By.id("qualification")).getText().contains("0.0166333"));
-        String table = browser.findElement(By.id("qualification")).getText();
-        // statistics reference §14.8 (CALC): s_x 0.0166333, s_w 0.0167332, s_s 0.0116905 to 6 significant digits
-        assertThat(table).contains("0.0166333").contains("0.0167332").contains("0.0116905").contains("sufficient");
+                .until(d -> d.findElement(By.id("checks-Cr")).getText().contains("sufficient"));
+        String table = browser.findElement(By.id("checks-Cr")).getText();
+        // statistics reference §14.8 (CALC): s_w 0.0167332, s_s 0.0116905, √c 0.0444382 — at Cr's 2 digits + 1
+        assertThat(table).contains("0.017").contains("0.012").contains("0.044").contains("sufficient");
         // the decision select offers every decision, the one adding u_hom and u_stab among them
-        assertThat(browser.findElements(By.cssSelector("#decision option")).stream()
+        assertThat(browser.findElements(By.cssSelector("#decision-choice-Cr option")).stream()
                 .map(o -> o.getAttribute("value")).toList())
                 .contains("ADD_HOMOGENEITY_UNCERTAINTY", "ADD_HOMOGENEITY_AND_STABILITY_UNCERTAINTY");
+        browser.findElement(By.id("round-link")).click();
+        Browser.waitFor(browser, By.id("round-state"));
 
         browser.findElement(By.cssSelector("button[data-action=CONFIRM_QUALIFICATION]")).click();
         waitForState("Items qualified");

@@ -2,6 +2,9 @@ package org.roundtable.scheme.qualification;
 
 import org.roundtable.platform.DomainException;
 import org.roundtable.scheme.ChemicalElement;
+import org.roundtable.submission.intake.GridIntake;
+import org.roundtable.submission.intake.Limits;
+import org.roundtable.submission.intake.UploadFormat;
 
 import java.util.ArrayList;
 import java.util.HashSet;
@@ -11,18 +14,25 @@ import java.util.Set;
 import java.util.regex.Pattern;
 
 /**
- * Reads the qualification uploads. Both are plain comma-separated text with a header line:
+ * Reads the qualification uploads, typed or pasted as CSV text or sent as a CSV or XLSX file, through the result
+ * intake's readers ({@link GridIntake}). Both have a header line naming these columns in any order:
  * <ul>
  *   <li>homogeneity: {@code item,replicate,measurand,value} — one line per measurement;</li>
  *   <li>stability: {@code item,measurand,value} — one line per measurement at or after the round's end.</li>
  * </ul>
  * The measurand is the element symbol; values are decimal numbers with a point ({@code 18.12}, {@code 1.2e-3}).
- * Quoting is not needed and not accepted. Any error is reported with its line, column and reason, and
- * nothing of the upload is kept.
+ * CSV: UTF-8, comma or semicolon delimiter, quotes as in RFC 4180 (not needed). XLSX: the first sheet. Any error
+ * is reported with its line (a workbook's row), column and reason, and nothing of the upload is kept.
  */
 public final class QualificationCsv {
 
-    public static final int MAX_LINES = 100_000;
+    /** At most this many data lines per upload. */
+    public static final int MAX_LINES = 50_000;
+    private static final List<String> HOMOGENEITY_HEADER = List.of("item", "replicate", "measurand", "value");
+    private static final List<String> STABILITY_HEADER = List.of("item", "measurand", "value");
+    /** The intake's file rules with more rows (a homogeneity study has items × replicates × measurands lines). */
+    private static final GridIntake READER = new GridIntake(new Limits(4 * Limits.MEBIBYTE, MAX_LINES, 4_096, 256, 32,
+            200, 20 * Limits.MEBIBYTE, 0.01, 100 * 1024L));
     private static final Pattern ITEM = Pattern.compile("[A-Za-z0-9._-]{1,40}");
     private static final Pattern NUMBER = Pattern.compile("[-+]?[0-9]+(\\.[0-9]+)?([eE][-+]?[0-9]{1,3})?");
 
@@ -35,19 +45,37 @@ public final class QualificationCsv {
     public record StabilityRow(int line, String item, String element, double value, String valueText) {
     }
 
+    /** Homogeneity data typed or pasted as CSV text. */
     public static List<HomogeneityRow> homogeneity(String csv) {
-        List<String[]> lines = lines(csv, List.of("item", "replicate", "measurand", "value"));
+        return homogeneity(lines(csv, null, UploadFormat.CSV, HOMOGENEITY_HEADER));
+    }
+
+    /** Homogeneity data from a CSV or XLSX file. */
+    public static List<HomogeneityRow> homogeneity(byte[] file, UploadFormat format) {
+        return homogeneity(lines(null, file, format, HOMOGENEITY_HEADER));
+    }
+
+    /** Stability data typed or pasted as CSV text. */
+    public static List<StabilityRow> stability(String csv) {
+        return stability(lines(csv, null, UploadFormat.CSV, STABILITY_HEADER));
+    }
+
+    /** Stability data from a CSV or XLSX file. */
+    public static List<StabilityRow> stability(byte[] file, UploadFormat format) {
+        return stability(lines(null, file, format, STABILITY_HEADER));
+    }
+
+    private static List<HomogeneityRow> homogeneity(List<Line> lines) {
         List<HomogeneityRow> rows = new ArrayList<>();
         Set<String> seen = new HashSet<>();
-        for (int i = 0; i < lines.size(); i++) {
-            String[] c = lines.get(i);
-            int line = i + 2;
+        for (Line l : lines) {
+            String[] c = l.cells();
+            int line = l.line();
             String item = item(c[0], line);
-            int replicate;
             if (!c[1].matches("[1-9][0-9]{0,2}")) {
                 throw error(line, "replicate", "a replicate number of 1 or more is expected, found '" + clip(c[1]) + "'");
             }
-            replicate = Integer.parseInt(c[1]);
+            int replicate = Integer.parseInt(c[1]);
             String element = element(c[2], line);
             double value = value(c[3], line);
             if (!seen.add(item + "\u0000" + replicate + "\u0000" + element)) {
@@ -58,63 +86,71 @@ public final class QualificationCsv {
         return rows;
     }
 
-    public static List<StabilityRow> stability(String csv) {
-        List<String[]> lines = lines(csv, List.of("item", "measurand", "value"));
+    private static List<StabilityRow> stability(List<Line> lines) {
         List<StabilityRow> rows = new ArrayList<>();
-        for (int i = 0; i < lines.size(); i++) {
-            String[] c = lines.get(i);
-            int line = i + 2;
+        for (Line l : lines) {
+            String[] c = l.cells();
+            int line = l.line();
             rows.add(new StabilityRow(line, item(c[0], line), element(c[1], line), value(c[2], line), c[2]));
         }
         return rows;
     }
 
-    private static List<String[]> lines(String csv, List<String> header) {
-        if (csv == null || csv.isBlank()) {
+    private record Line(int line, String[] cells) {
+    }
+
+    /**
+     * Reads text or a file through the intake's readers ({@link GridIntake}: encoding, delimiter, quotes, workbook
+     * safety and size limits) and returns the data lines with their cells in the order of {@code header}. The
+     * header names its columns in any order, without regard to case.
+     */
+    private static List<Line> lines(String text, byte[] file, UploadFormat format, List<String> header) {
+        if (file == null && (text == null || text.isBlank())) {
             throw new DomainException.BadRequest("The upload is empty. The first line is the header: " + String.join(",", header) + ".");
         }
-        String[] raw = csv.replace("\uFEFF", "").split("\r?\n|\r");
-        List<String[]> out = new ArrayList<>();
-        boolean headerSeen = false;
-        for (int i = 0; i < raw.length; i++) {
-            String text = raw[i].strip();
-            int line = i + 1;
-            if (!headerSeen) {
-                List<String> found = List.of(text.toLowerCase(Locale.ROOT).split("\\s*,\\s*", -1));
-                if (!found.equals(header)) {
-                    throw new DomainException.BadRequest("Line 1: the header must be " + String.join(",", header)
-                            + ", found '" + clip(text) + "'.");
-                }
-                headerSeen = true;
-                continue;
+        GridIntake.Outcome outcome = file == null ? READER.readText(text) : READER.read(file, format);
+        if (outcome instanceof GridIntake.Rejected rejected) {
+            throw new DomainException.BadRequest(String.join(" ", rejected.problems().stream().limit(3)
+                    .map(p -> (p.row() > 0 ? place(format) + " " + p.row() + ": " : "") + p.message()).toList()));
+        }
+        GridIntake.Read read = (GridIntake.Read) outcome;
+        int[] at = new int[header.size()];
+        java.util.Arrays.fill(at, -1);
+        List<String> found = read.header().stream().map(h -> h.strip().toLowerCase(Locale.ROOT)).toList();
+        List<String> named = found.stream().filter(h -> !h.isEmpty()).toList();
+        for (int i = 0; i < found.size(); i++) {
+            int column = header.indexOf(found.get(i));
+            if (column >= 0 && at[column] < 0) {
+                at[column] = i;
             }
-            if (text.isEmpty()) {
-                if (i == raw.length - 1) {
-                    continue;
-                }
-                throw new DomainException.BadRequest("Line " + line + ": empty line.");
+        }
+        if (named.size() != header.size() || java.util.Arrays.stream(at).anyMatch(i -> i < 0)) {
+            throw new DomainException.BadRequest(place(format) + " " + read.headerRow() + ": the header must be "
+                    + String.join(",", header) + " (in any order), found '" + clip(String.join(",", named), 80) + "'.");
+        }
+        List<Line> out = new ArrayList<>();
+        for (GridIntake.GridRow row : read.rows()) {
+            List<String> cells = row.cells();
+            boolean extra = cells.size() > found.size()
+                    && cells.subList(found.size(), cells.size()).stream().anyMatch(c -> !c.isBlank());
+            if (extra || (format == UploadFormat.CSV && cells.size() != found.size())) {
+                throw new DomainException.BadRequest(place(format) + " " + row.row() + ": " + header.size()
+                        + " columns expected (" + String.join(",", header) + "), found " + cells.size() + ".");
             }
-            if (text.indexOf('"') >= 0) {
-                throw new DomainException.BadRequest("Line " + line + ": quotes are not used in this file.");
+            String[] ordered = new String[header.size()];
+            for (int c = 0; c < header.size(); c++) {
+                ordered[c] = at[c] < cells.size() ? cells.get(at[c]).strip() : "";
             }
-            String[] cells = text.split(",", -1);
-            if (cells.length != header.size()) {
-                throw new DomainException.BadRequest("Line " + line + ": " + header.size() + " columns expected ("
-                        + String.join(",", header) + "), found " + cells.length + ".");
-            }
-            for (int c = 0; c < cells.length; c++) {
-                cells[c] = cells[c].strip();
-            }
-            out.add(cells);
-            if (out.size() > MAX_LINES) {
-                throw new DomainException.BadRequest("At most " + MAX_LINES + " data lines per upload.");
-            }
+            out.add(new Line(row.row(), ordered));
         }
         if (out.isEmpty()) {
             throw new DomainException.BadRequest("The upload has a header but no data lines.");
         }
-        // line numbers in errors count from the file's first line; blank trailing lines are dropped above
         return out;
+    }
+
+    private static String place(UploadFormat format) {
+        return format == UploadFormat.XLSX ? "Row" : "Line";
     }
 
     private static String item(String text, int line) {
@@ -148,6 +184,10 @@ public final class QualificationCsv {
     }
 
     private static String clip(String text) {
-        return text.length() <= 30 ? text : text.substring(0, 30) + "…";
+        return clip(text, 30);
+    }
+
+    private static String clip(String text, int length) {
+        return text.length() <= length ? text : text.substring(0, length) + "…";
     }
 }

@@ -18,6 +18,7 @@ import org.roundtable.scheme.RoundGate;
 import org.roundtable.statistics.StatisticsWarning;
 import org.roundtable.statistics.homogeneity.HomogeneityCheck;
 import org.roundtable.statistics.homogeneity.StabilityCheck;
+import org.roundtable.submission.intake.UploadFormat;
 
 import java.time.Clock;
 import java.time.OffsetDateTime;
@@ -29,6 +30,7 @@ import java.util.Locale;
 import java.util.Map;
 import java.util.Optional;
 import java.util.TreeMap;
+import java.util.function.Supplier;
 
 /**
  * Sample qualification of a round's items: homogeneity and stability uploads, the checks of the statistics
@@ -91,7 +93,12 @@ public class QualificationService {
         WITHDRAW_MEASURAND
     }
 
+    /** Data typed or pasted as CSV text (the JSON API's body and the page's text area). */
     public record Upload(String csv) {
+    }
+
+    /** Data sent as a file: its bytes and its format (CSV or XLSX), read with the intake's file rules. */
+    public record DataFile(byte[] content, UploadFormat format) {
     }
 
     public record DecisionRequest(String element, String decision, String reason) {
@@ -118,17 +125,38 @@ public class QualificationService {
     /** The state of qualification of one planned measurand. */
     public record MeasurandQualification(String element, String unit, HomogeneityFigures homogeneity,
                                          StabilityFigures stability, DecisionView decision, boolean passed,
-                                         boolean cleared) {
+                                         boolean cleared, int reportingDigits) {
     }
 
     // ---- uploads -------------------------------------------------------------------------------------
 
     @Transactional
     public List<MeasurandQualification> uploadHomogeneity(long roundId, Upload upload) {
+        return homogeneity(roundId, () -> QualificationCsv.homogeneity(upload == null ? null : upload.csv()));
+    }
+
+    /** Homogeneity data from a CSV or XLSX file; the same checks as {@link #uploadHomogeneity}. */
+    @Transactional
+    public List<MeasurandQualification> uploadHomogeneityFile(long roundId, DataFile file) {
+        return homogeneity(roundId, () -> QualificationCsv.homogeneity(file.content(), file.format()));
+    }
+
+    @Transactional
+    public List<MeasurandQualification> uploadStability(long roundId, Upload upload) {
+        return stability(roundId, () -> QualificationCsv.stability(upload == null ? null : upload.csv()));
+    }
+
+    /** Stability data from a CSV or XLSX file; the same checks as {@link #uploadStability}. */
+    @Transactional
+    public List<MeasurandQualification> uploadStabilityFile(long roundId, DataFile file) {
+        return stability(roundId, () -> QualificationCsv.stability(file.content(), file.format()));
+    }
+
+    private List<MeasurandQualification> homogeneity(long roundId,
+                                                     Supplier<List<QualificationCsv.HomogeneityRow>> read) {
         gate.enter(roundId, RoundAction.UPLOAD_QUALIFICATION_DATA);
         Map<String, PlannedMeasurand> planned = planned(roundId);
-        String csv = upload == null ? null : upload.csv();
-        List<QualificationCsv.HomogeneityRow> rows = QualificationCsv.homogeneity(csv);
+        List<QualificationCsv.HomogeneityRow> rows = read.get();
         Map<String, List<QualificationCsv.HomogeneityRow>> byElement = new TreeMap<>();
         for (QualificationCsv.HomogeneityRow row : rows) {
             if (!planned.containsKey(row.element())) {
@@ -158,11 +186,10 @@ public class QualificationService {
         return status(roundId);
     }
 
-    @Transactional
-    public List<MeasurandQualification> uploadStability(long roundId, Upload upload) {
+    private List<MeasurandQualification> stability(long roundId, Supplier<List<QualificationCsv.StabilityRow>> read) {
         gate.enter(roundId, RoundAction.UPLOAD_QUALIFICATION_DATA);
         Map<String, PlannedMeasurand> planned = planned(roundId);
-        List<QualificationCsv.StabilityRow> rows = QualificationCsv.stability(upload == null ? null : upload.csv());
+        List<QualificationCsv.StabilityRow> rows = read.get();
         Map<String, List<QualificationCsv.StabilityRow>> byElement = new TreeMap<>();
         for (QualificationCsv.StabilityRow row : rows) {
             if (!planned.containsKey(row.element())) {
@@ -265,7 +292,7 @@ public class QualificationService {
             StabilityFigures s = latestFigures(roundId, m.element(), "STABILITY", StabilityFigures.class).orElse(null);
             DecisionView d = latestDecision(roundId, m.element()).orElse(null);
             boolean passed = h != null && h.sufficientlyHomogeneous() && (s == null || s.stable());
-            out.add(new MeasurandQualification(m.element(), m.unit(), h, s, d, passed, passed || d != null));
+            out.add(new MeasurandQualification(m.element(), m.unit(), h, s, d, passed, passed || d != null, m.digits()));
         }
         return out;
     }
@@ -302,7 +329,8 @@ public class QualificationService {
 
     // ---- internals -------------------------------------------------------------------------------------
 
-    private record PlannedMeasurand(String element, String unit, PlanDocument.QualificationSigma sigma, boolean consensus) {
+    private record PlannedMeasurand(String element, String unit, PlanDocument.QualificationSigma sigma, boolean consensus,
+                                    int digits) {
     }
 
     private record Stored(String element, String kind, PlanDocument.QualificationSigma sigma, String csv, String figures,
@@ -324,24 +352,28 @@ public class QualificationService {
             return out;
         }
         EvaluationPlan plan = PlanDocument.read(version.get().canonicalJson(), mapper);
-        Map<String, String> units = unitsOf(version.get().canonicalJson());
+        Map<String, String> units = unitsOf(version.get().canonicalJson(), "unit");
+        Map<String, String> digits = unitsOf(version.get().canonicalJson(), "reportingDigits");
         for (EvaluationPlan.MeasurandPlan p : plan.measurands()) {
             String unit = units.get(p.element());
+            String digitText = digits.get(p.element());
             PlanDocument.QualificationSigma sigma = PlanDocument.qualificationSigma(p, unit)
                     .orElseThrow(() -> new IllegalStateException("frozen plan without qualification sigma"));
             EvaluationPlan.AssignedValueMethod av = EvaluationPlan.AssignedValueMethod.valueOf(p.assignedValueMethod());
             boolean consensus = av != EvaluationPlan.AssignedValueMethod.CERTIFIED_REFERENCE
                     && av != EvaluationPlan.AssignedValueMethod.REFERENCE_LABORATORY;
-            out.put(p.element(), new PlannedMeasurand(p.element(), unit, sigma, consensus));
+            out.put(p.element(), new PlannedMeasurand(p.element(), unit, sigma, consensus,
+                    digitText == null || digitText.isBlank() ? 2 : Integer.parseInt(digitText)));
         }
         return out;
     }
 
-    private Map<String, String> unitsOf(String canonicalJson) {
+    /** One field of each measurand of the frozen plan's canonical JSON, by element. */
+    private Map<String, String> unitsOf(String canonicalJson, String field) {
         try {
             Map<String, String> units = new LinkedHashMap<>();
             mapper.readTree(canonicalJson).get("measurands")
-                    .forEach(n -> units.put(n.get("element").asText(), n.get("unit").asText()));
+                    .forEach(n -> units.put(n.get("element").asText(), n.path(field).asText()));
             return units;
         } catch (JsonProcessingException e) {
             throw new IllegalStateException(e);
