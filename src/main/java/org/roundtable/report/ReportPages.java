@@ -12,6 +12,7 @@ import jakarta.ws.rs.PathParam;
 import jakarta.ws.rs.Produces;
 import jakarta.ws.rs.core.MediaType;
 import jakarta.ws.rs.core.Response;
+import org.roundtable.account.ApiTokenScope;
 import org.roundtable.account.Role;
 import org.roundtable.platform.Confirmation;
 import org.roundtable.platform.Confirmations;
@@ -37,14 +38,18 @@ public class ReportPages {
         static native TemplateInstance myReports(ReportLifecycle.LaboratoryView view, String error, String message);
 
         static native TemplateInstance auditorReports(List<ReportLifecycle.AuditorRound> rounds);
+
+        static native TemplateInstance myScores(LaboratoryScores.Page page);
     }
 
     private final ReportLifecycle lifecycle;
     private final Confirmations confirmations;
+    private final LaboratoryScores scores;
 
-    public ReportPages(ReportLifecycle lifecycle, Confirmations confirmations) {
+    public ReportPages(ReportLifecycle lifecycle, Confirmations confirmations, LaboratoryScores scores) {
         this.confirmations = confirmations;
         this.lifecycle = lifecycle;
+        this.scores = scores;
     }
 
     // ---- coordinators ------------------------------------------------------------------------------------
@@ -159,6 +164,27 @@ public class ReportPages {
             lifecycle.comment(roundId, new ReportLifecycle.TextRequest(body));
             return Templates.myReports(lifecycle.forLaboratory(roundId), null, "Comment sent to the coordinators.");
         }, e -> Templates.myReports(lifecycle.forLaboratory(roundId), e, null));
+    }
+
+    /** The laboratory's own scores once a report is issued to laboratories (404 before, as for a missing round). */
+    @GET
+    @Path("my-rounds/{roundId}/scores")
+    @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
+    @ApiTokenScope.Required(ApiTokenScope.READ_SCORES)
+    public TemplateInstance myScores(@PathParam("roundId") long roundId) {
+        return Templates.myScores(scores.page(roundId));
+    }
+
+    /** One chart of the scores page (scores, density or uncertainty) with the laboratory's own mark, as SVG. */
+    @GET
+    @Path("my-rounds/{roundId}/scores/{measurandId}/{chart}.svg")
+    @Produces("image/svg+xml")
+    @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
+    @ApiTokenScope.Required(ApiTokenScope.READ_SCORES)
+    public Response myScoreChart(@PathParam("roundId") long roundId, @PathParam("measurandId") String measurandId,
+                                 @PathParam("chart") String chart) {
+        return Response.ok(scores.chartSvg(roundId, measurandId, chart), "image/svg+xml; charset=UTF-8")
+                .header("Cache-Control", "private, max-age=300").build();
     }
 
     // ---- auditors ----------------------------------------------------------------------------------------
