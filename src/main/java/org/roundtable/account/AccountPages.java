@@ -269,6 +269,10 @@ public class AccountPages {
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
     public Response extendGrant(@PathParam("grantId") long grantId, @FormParam("validUntil") String validUntil) {
         return FormActions.attempt(() -> {
+            // another laboratory's grant answers exactly like a missing one, before the date is read
+            if (grants.listOwnLaboratory().stream().noneMatch(g -> g.id() == grantId)) {
+                throw new DomainException.NotFound("The grant");
+            }
             AuditorGrantService.GrantView extended = grants.extend(grantId, endOfDay(validUntil));
             return myLaboratoryPage(null, null, null, null,
                     "The access of " + extended.auditorName() + " now runs until " + validUntil.strip() + ".");

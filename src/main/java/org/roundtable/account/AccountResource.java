@@ -59,7 +59,7 @@ public class AccountResource {
     }
 
     /** A grant's new end. */
-    public record GrantExtension(@NotNull OffsetDateTime validUntil) {
+    public record GrantExtension(OffsetDateTime validUntil) {
     }
 
     public record NewGrant(@NotBlank String auditorUsername, @NotNull OffsetDateTime validUntil) {
@@ -254,9 +254,9 @@ public class AccountResource {
     @POST
     @Path("/my-laboratory/auditor-grants/{grantId}/extend")
     @RolesAllowed(Role.LAB_MANAGER_NAME)
-    public AuditorGrantService.GrantView extendGrant(@PathParam("grantId") long grantId,
-                                                     @Valid @NotNull GrantExtension extension) {
-        return grants.extend(grantId, extension.validUntil());
+    public AuditorGrantService.GrantView extendGrant(@PathParam("grantId") long grantId, GrantExtension extension) {
+        // the grant is looked up before the body is read: another laboratory's grant is "not found"
+        return grants.extend(grantId, extension == null ? null : extension.validUntil());
     }
 
     // ---- auditors ------------------------------------------------------------------------------------------------
