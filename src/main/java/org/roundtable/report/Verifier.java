@@ -37,6 +37,11 @@ public class Verifier {
             return document != null;
         }
 
+        /** Whether the final report replaced this preliminary one (else an amendment replaced it). */
+        public boolean replacedByFinal() {
+            return superseded() && document.status() == org.roundtable.report.model.ReportStatus.PRELIMINARY;
+        }
+
         /** Whether a later document replaced this one. */
         public boolean superseded() {
             return document != null && document.supersededBy() != null;
