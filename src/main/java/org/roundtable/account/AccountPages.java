@@ -285,12 +285,12 @@ public class AccountPages {
     public Response revokeGrant(@PathParam("grantId") long grantId, @FormParam("confirmed") String confirmed) {
         return FormActions.attempt(() -> {
             if (!Confirmation.confirmed(confirmed)) {
-                if (grants.listOwnLaboratory().stream().noneMatch(g -> g.id() == grantId)) {
-                    throw new DomainException.NotFound("The auditor's access");
-                }
-                return confirmations.page(new Confirmation("End this auditor's access?",
-                        "The auditor no longer sees your laboratory's history and reports from now on. To give access "
-                                + "again, grant it anew.",
+                AuditorGrantService.GrantView grant = grants.listOwnLaboratory().stream()
+                        .filter(g -> g.id() == grantId).findFirst()
+                        .orElseThrow(() -> new DomainException.NotFound("The auditor's access"));
+                return confirmations.page(new Confirmation("End the access of " + grant.auditorName() + "?",
+                        grant.auditorName() + " no longer sees your laboratory's history, its laboratory reports or its "
+                                + "name in the library from now on. To give access again, grant it anew.",
                         "/my-laboratory/auditor-grants/" + grantId + "/revoke", List.of(), null, false, null,
                         "End the access", "/my-laboratory"), null);
             }

@@ -186,7 +186,7 @@ public class ReportPages {
     /** One chart of the scores page (scores, density or uncertainty) with the laboratory's own mark, as SVG. */
     @GET
     @Path("my-rounds/{roundId}/scores/{measurandId}/{chart}.svg")
-    @Produces("image/svg+xml")
+    @Produces({"image/svg+xml", MediaType.TEXT_HTML}) // an HTML error page when the chart may not be shown
     @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
     @ApiTokenScope.Required(ApiTokenScope.READ_SCORES)
     public Response myScoreChart(@PathParam("roundId") long roundId, @PathParam("measurandId") String measurandId,

@@ -78,4 +78,26 @@ class LaboratoryScoresTest {
         world.signIn(world.user("lab-member", ids[2])).request().get("/my-rounds/" + round + "/scores")
                 .then().statusCode(200);
     }
+
+    @Test
+    void aScoreForInformationOnlyIsShownWithoutAVerdict() {
+        long[] labs = new long[4];
+        for (int i = 0; i < labs.length; i++) {
+            labs[i] = world.laboratory();
+        }
+        long round = world.round(org.roundtable.scheme.RoundState.CLOSED, new org.roundtable.scheme.EvaluationPlan(
+                java.util.List.of(new org.roundtable.scheme.EvaluationPlan.MeasurandPlan("Mn", "CONSENSUS_ALL", null, null,
+                        null, null, null, "FIXED", "0.010", null, null, null, null, null, null, null, null, null, null, null,
+                        null, null, null, null, "INFORMATION_ONLY"))), org.roundtable.scheme.Round.LatePolicy.REFUSE, labs);
+        String[] values = {"0.742", "0.751", "0.748", "0.790"};
+        for (int i = 0; i < labs.length; i++) {
+            world.reportResult(round, labs[i], "Mn", values[i], null, "spark-oes", false);
+        }
+        evaluations.run(round, false, new org.roundtable.audit.Actor("scores-test", "coordinator", null));
+        publications.issueRoundReport(round, 1, ReportStatus.PRELIMINARY);
+        String html = world.signIn(world.user("lab-member", labs[3])).request().accept("text/html")
+                .get("/my-rounds/" + round + "/scores").then().statusCode(200).extract().asString();
+        String table = html.substring(html.indexOf("id=\"my-scores\""), html.indexOf("</table>", html.indexOf("id=\"my-scores\"")));
+        assertThat(table).contains("for information").doesNotContain("class=\"verdict");
+    }
 }
