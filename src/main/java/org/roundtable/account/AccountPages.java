@@ -55,7 +55,8 @@ public class AccountPages {
                                                     List<ApiTokenService.TokenView> tokens,
                                                     List<AuditorGrantService.GrantView> grants,
                                                     AccountService.UserWithLink link,
-                                                    ApiTokenService.CreatedToken newToken, String error, String baseUrl);
+                                                    ApiTokenService.CreatedToken newToken, String error, String baseUrl,
+                                                    Long extendGrant, String message, List<ApiTokenScope> scopes);
 
         static native TemplateInstance auditor(List<AuditorGrantService.GrantedLaboratory> laboratories);
     }
@@ -340,8 +341,11 @@ public class AccountPages {
     @Path("my-laboratory/tokens")
     @RolesAllowed(Role.LAB_MANAGER_NAME)
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
-    public Response createToken(@FormParam("name") String name) {
-        return FormActions.attempt(() -> myLaboratoryPage(null, tokens.create(name), null), e -> myLaboratoryPage(null, null, e));
+    public Response createToken(@FormParam("name") String name, @FormParam("scope") String scope,
+                                @FormParam("expiresOn") String expiresOn) {
+        return FormActions.attempt(() -> myLaboratoryPage(null, tokens.create(name, ApiTokenScope.parse(scope),
+                        expiresOn == null || expiresOn.isBlank() ? null : endOfDay(expiresOn)), null),
+                e -> myLaboratoryPage(null, null, e));
     }
 
     @POST
@@ -351,12 +355,14 @@ public class AccountPages {
         return FormActions.attempt(() -> {
             if (!Confirmation.confirmed(confirmed)) {
                 // another laboratory's token answers exactly like a missing one, before any second step
-                if (tokens.listOwn().stream().noneMatch(t -> t.id() == tokenId)) {
-                    throw new DomainException.NotFound("The token");
-                }
-                return confirmations.page(new Confirmation("Revoke this API token?",
-                        "Your laboratory's systems that use it can no longer call Roundtable; they need a new token. "
-                                + "A revoked token cannot be turned on again.",
+                ApiTokenService.TokenView token = tokens.listOwn().stream().filter(t -> t.id() == tokenId).findFirst()
+                        .orElseThrow(() -> new DomainException.NotFound("The token"));
+                String stops = token.scope() == ApiTokenScope.READ_SCORES
+                        ? "can no longer read your laboratory's scores"
+                        : "can no longer submit your laboratory's results";
+                return confirmations.page(new Confirmation("Revoke the API token " + token.name() + "?",
+                        "Your laboratory's systems that use it " + stops + " through Roundtable's API; they need a new "
+                                + "token. A revoked token cannot be turned on again.",
                         "/my-laboratory/tokens/" + tokenId + "/revoke", List.of(), null, false, null, "Revoke the token",
                         "/my-laboratory"), null);
             }
@@ -370,10 +376,36 @@ public class AccountPages {
     @RolesAllowed(Role.LAB_MANAGER_NAME)
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
     public Response grant(@FormParam("auditorUsername") String auditorUsername, @FormParam("validUntil") String validUntil) {
-        return FormActions.attempt(() -> {
+        try {
             grants.grant(auditorUsername, endOfDay(validUntil));
-            return myLaboratoryPage(null, null, null);
-        }, e -> myLaboratoryPage(null, null, e));
+            return Response.ok(myLaboratoryPage(null, null, null)).build();
+        } catch (AuditorGrantService.GrantExists e) {
+            // the error names the existing access; the page offers to extend it in place
+            String auditor = auditorUsername == null ? "" : auditorUsername.strip();
+            return Response.status(409).entity(myLaboratoryPage(null, null, "The auditor " + auditor
+                    + " already has access. Extend the existing access instead of granting it twice.",
+                    e.existingGrantId(), null)).build();
+        } catch (DomainException.NotFound | DomainException.Forbidden e) {
+            throw e;
+        } catch (DomainException e) {
+            return Response.status(e.status()).entity(myLaboratoryPage(null, null, e.detail())).build();
+        }
+    }
+
+    @POST
+    @Path("my-laboratory/auditor-grants/{grantId}/extend")
+    @RolesAllowed(Role.LAB_MANAGER_NAME)
+    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
+    public Response extendGrant(@PathParam("grantId") long grantId, @FormParam("validUntil") String validUntil) {
+        return FormActions.attempt(() -> {
+            // another laboratory's grant answers exactly like a missing one, before the date is read
+            if (grants.listOwnLaboratory().stream().noneMatch(g -> g.id() == grantId)) {
+                throw new DomainException.NotFound("The grant");
+            }
+            AuditorGrantService.GrantView extended = grants.extend(grantId, endOfDay(validUntil));
+            return myLaboratoryPage(null, null, null, null,
+                    "The access of " + extended.auditorName() + " now runs until " + validUntil.strip() + ".");
+        }, e -> myLaboratoryPage(null, null, e, grantId, null));
     }
 
     @POST
@@ -382,12 +414,12 @@ public class AccountPages {
     public Response revokeGrant(@PathParam("grantId") long grantId, @FormParam("confirmed") String confirmed) {
         return FormActions.attempt(() -> {
             if (!Confirmation.confirmed(confirmed)) {
-                if (grants.listOwnLaboratory().stream().noneMatch(g -> g.id() == grantId)) {
-                    throw new DomainException.NotFound("The auditor's access");
-                }
-                return confirmations.page(new Confirmation("End this auditor's access?",
-                        "The auditor no longer sees your laboratory's history and reports from now on. To give access "
-                                + "again, grant it anew.",
+                AuditorGrantService.GrantView grant = grants.listOwnLaboratory().stream()
+                        .filter(g -> g.id() == grantId).findFirst()
+                        .orElseThrow(() -> new DomainException.NotFound("The auditor's access"));
+                return confirmations.page(new Confirmation("End the access of " + grant.auditorName() + "?",
+                        grant.auditorName() + " no longer sees your laboratory's history, its laboratory reports or its "
+                                + "name in the library from now on. To give access again, grant it anew.",
                         "/my-laboratory/auditor-grants/" + grantId + "/revoke", List.of(), null, false, null,
                         "End the access", "/my-laboratory"), null);
             }
@@ -466,9 +498,14 @@ public class AccountPages {
 
     private TemplateInstance myLaboratoryPage(AccountService.UserWithLink link, ApiTokenService.CreatedToken newToken,
                                               String error) {
+        return myLaboratoryPage(link, newToken, error, null, null);
+    }
+
+    private TemplateInstance myLaboratoryPage(AccountService.UserWithLink link, ApiTokenService.CreatedToken newToken,
+                                              String error, Long extendGrant, String message) {
         return Templates.myLaboratory(laboratories.get(currentUser.requireLaboratoryId()),
                 accounts.listOwnLaboratoryMembers(), tokens.listOwn(), grants.listOwnLaboratory(), link, newToken,
-                error, FormActions.baseUrl(request));
+                error, FormActions.baseUrl(request), extendGrant, message, List.of(ApiTokenScope.values()));
     }
 
 

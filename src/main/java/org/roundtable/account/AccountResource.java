@@ -54,7 +54,12 @@ public class AccountResource {
                             @Size(max = 254) String email, @NotBlank String role) {
     }
 
-    public record NewToken(@NotBlank @Size(max = 100) String name) {
+    /** A new token: its name, its scope ({@code SUBMIT} when omitted) and an optional expiry. */
+    public record NewToken(@NotBlank @Size(max = 100) String name, String scope, OffsetDateTime expiresAt) {
+    }
+
+    /** A grant's new end. */
+    public record GrantExtension(OffsetDateTime validUntil) {
     }
 
     public record NewGrant(@NotBlank String auditorUsername, @NotNull OffsetDateTime validUntil) {
@@ -215,7 +220,7 @@ public class AccountResource {
     @Path("/my-laboratory/tokens")
     @RolesAllowed(Role.LAB_MANAGER_NAME)
     public ApiTokenService.CreatedToken createToken(@Valid @NotNull NewToken token) {
-        return tokens.create(token.name());
+        return tokens.create(token.name(), ApiTokenScope.parse(token.scope()), token.expiresAt());
     }
 
     @POST
@@ -244,6 +249,14 @@ public class AccountResource {
     @RolesAllowed(Role.LAB_MANAGER_NAME)
     public AuditorGrantService.GrantView revokeGrant(@PathParam("grantId") long grantId) {
         return grants.revoke(grantId);
+    }
+
+    @POST
+    @Path("/my-laboratory/auditor-grants/{grantId}/extend")
+    @RolesAllowed(Role.LAB_MANAGER_NAME)
+    public AuditorGrantService.GrantView extendGrant(@PathParam("grantId") long grantId, GrantExtension extension) {
+        // the grant is looked up before the body is read: another laboratory's grant is "not found"
+        return grants.extend(grantId, extension == null ? null : extension.validUntil());
     }
 
     // ---- auditors ------------------------------------------------------------------------------------------------

@@ -41,6 +41,15 @@ public class ApiToken {
     @Column(name = "last_used_at")
     public OffsetDateTime lastUsedAt;
 
+    /** What the token may do. */
+    @Column(nullable = false)
+    @jakarta.persistence.Enumerated(jakarta.persistence.EnumType.STRING)
+    public ApiTokenScope scope = ApiTokenScope.SUBMIT;
+
+    /** When the token stops working by itself, or null for never. */
+    @Column(name = "expires_at")
+    public OffsetDateTime expiresAt;
+
     @Column(name = "revoked_at")
     public OffsetDateTime revokedAt;
 

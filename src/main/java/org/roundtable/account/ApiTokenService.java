@@ -37,13 +37,41 @@ public class ApiTokenService {
         this.clock = clock;
     }
 
-    public record TokenPrincipal(long tokenId, String name, long laboratoryId) {
+    public record TokenPrincipal(long tokenId, String name, long laboratoryId, ApiTokenScope scope) {
     }
 
-    public record TokenView(long id, String name, String prefix, OffsetDateTime createdAt, OffsetDateTime lastUsedAt,
-                            OffsetDateTime revokedAt) {
-        static TokenView of(ApiToken t) {
-            return new TokenView(t.id, t.name, t.tokenPrefix, t.createdAt, t.lastUsedAt, t.revokedAt);
+    /** The longest a token may live when it is given an expiry. */
+    static final int MAX_EXPIRY_DAYS = 730;
+
+    /**
+     * A token as listed; {@code expired} when its expiry has passed (then it no longer works, like a revoked one).
+     */
+    public record TokenView(long id, String name, String prefix, ApiTokenScope scope, OffsetDateTime createdAt,
+                            OffsetDateTime lastUsedAt, OffsetDateTime expiresAt, OffsetDateTime revokedAt,
+                            boolean expired) {
+        static TokenView of(ApiToken t, OffsetDateTime now) {
+            return new TokenView(t.id, t.name, t.tokenPrefix, t.scope, t.createdAt, t.lastUsedAt, t.expiresAt,
+                    t.revokedAt, t.revokedAt == null && t.expiresAt != null && !t.expiresAt.isAfter(now));
+        }
+
+        /** Whether the token still works. */
+        public boolean active() {
+            return revokedAt == null && !expired;
+        }
+    }
+
+    /** What resolving a presented secret found. */
+    public sealed interface Resolution {
+        /** A working token. */
+        record Valid(TokenPrincipal principal) implements Resolution {
+        }
+
+        /** A token that was issued here but was revoked or has expired. */
+        record NoLongerValid(boolean revoked) implements Resolution {
+        }
+
+        /** Nothing issued here matches. */
+        record Unknown() implements Resolution {
         }
     }
 
@@ -53,6 +81,20 @@ public class ApiTokenService {
 
     @Transactional
     public CreatedToken create(String name) {
+        return create(name, ApiTokenScope.SUBMIT, null);
+    }
+
+    /**
+     * A new token of the caller's laboratory with a scope and an optional expiry (the token stops working at that
+     * moment; in the future, within {@value #MAX_EXPIRY_DAYS} days).
+     */
+    @Transactional
+    public CreatedToken create(String name, ApiTokenScope scope, OffsetDateTime expiresAt) {
+        OffsetDateTime now = now();
+        if (expiresAt != null && (!expiresAt.isAfter(now) || expiresAt.isAfter(now.plusDays(MAX_EXPIRY_DAYS)))) {
+            throw new DomainException.BadRequest("A token's expiry lies in the future, within " + MAX_EXPIRY_DAYS
+                    + " days; leave it empty for a token that does not expire.");
+        }
         long laboratoryId = currentUser.requireLaboratoryId();
         String cleanName = name == null ? "" : name.strip();
         if (cleanName.isEmpty() || cleanName.length() > 100) {
@@ -69,17 +111,21 @@ public class ApiTokenService {
         token.tokenHash = Secrets.sha256Hex(secret);
         token.tokenPrefix = secret.substring(0, 10);
         token.createdBy = currentUser.requireUserId();
-        token.createdAt = now();
+        token.createdAt = now;
+        token.scope = scope == null ? ApiTokenScope.SUBMIT : scope;
+        token.expiresAt = expiresAt == null ? null : expiresAt.withOffsetSameInstant(ZoneOffset.UTC);
         tokens.persist(token);
         audit.record(new AuditTrail.Event(currentUser.actor(), "api-token.created", "api-token", token.id.toString(),
-                null, hash(token), "name=" + token.name));
-        return new CreatedToken(TokenView.of(token), secret);
+                null, hash(token), "name=" + token.name + " scope=" + token.scope
+                + (token.expiresAt == null ? "" : " expires=" + token.expiresAt)));
+        return new CreatedToken(TokenView.of(token, now), secret);
     }
 
     @Transactional
     public List<TokenView> listOwn() {
+        OffsetDateTime now = now();
         return tokens.list("laboratoryId = ?1 order by createdAt desc", currentUser.requireLaboratoryId())
-                .stream().map(TokenView::of).toList();
+                .stream().map(t -> TokenView.of(t, now)).toList();
     }
 
     @Transactional
@@ -92,24 +138,40 @@ public class ApiTokenService {
             audit.record(new AuditTrail.Event(currentUser.actor(), "api-token.revoked", "api-token",
                     token.id.toString(), before, hash(token), "name=" + token.name));
         }
-        return TokenView.of(token);
+        return TokenView.of(token, now());
     }
 
-    /** The laboratory and name behind a presented token, or empty when unknown or revoked. */
+    /** The laboratory and name behind a presented token, or empty when unknown, revoked or expired. */
     @Transactional
     public Optional<TokenPrincipal> resolve(String secret) {
+        return resolution(secret) instanceof Resolution.Valid valid ? Optional.of(valid.principal()) : Optional.empty();
+    }
+
+    /**
+     * What a presented token is: valid (its last use is noted, to the minute), no longer valid (revoked or expired),
+     * or unknown.
+     */
+    @Transactional
+    public Resolution resolution(String secret) {
         if (secret == null || !secret.startsWith(PREFIX) || secret.length() > 100) {
-            return Optional.empty();
+            return new Resolution.Unknown();
         }
-        Optional<ApiToken> found = tokens.find("tokenHash = ?1 and revokedAt is null", Secrets.sha256Hex(secret))
-                .firstResultOptional();
-        found.ifPresent(t -> {
-            OffsetDateTime now = now();
-            if (t.lastUsedAt == null || t.lastUsedAt.plus(LAST_USE_RESOLUTION).isBefore(now)) {
-                tokens.update("lastUsedAt = ?1 where id = ?2", now, t.id);
-            }
-        });
-        return found.map(t -> new TokenPrincipal(t.id, t.name, t.laboratoryId));
+        Optional<ApiToken> found = tokens.find("tokenHash", Secrets.sha256Hex(secret)).firstResultOptional();
+        if (found.isEmpty()) {
+            return new Resolution.Unknown();
+        }
+        ApiToken t = found.get();
+        OffsetDateTime now = now();
+        if (t.revokedAt != null) {
+            return new Resolution.NoLongerValid(true);
+        }
+        if (t.expiresAt != null && !t.expiresAt.isAfter(now)) {
+            return new Resolution.NoLongerValid(false);
+        }
+        if (t.lastUsedAt == null || t.lastUsedAt.plus(LAST_USE_RESOLUTION).isBefore(now)) {
+            tokens.update("lastUsedAt = ?1 where id = ?2", now, t.id);
+        }
+        return new Resolution.Valid(new TokenPrincipal(t.id, t.name, t.laboratoryId, t.scope));
     }
 
     private ApiToken ownToken(long tokenId) {
@@ -121,7 +183,7 @@ public class ApiTokenService {
 
     private static String hash(ApiToken t) {
         return ObjectHash.of(Map.of("id", t.id, "laboratoryId", t.laboratoryId, "name", t.name,
-                "revoked", String.valueOf(t.revokedAt)));
+                "scope", t.scope.name(), "expires", String.valueOf(t.expiresAt), "revoked", String.valueOf(t.revokedAt)));
     }
 
     private OffsetDateTime now() {

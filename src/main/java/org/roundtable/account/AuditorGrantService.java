@@ -43,8 +43,36 @@ public class AuditorGrantService {
         this.notices = notices;
     }
 
+    /** A grant as listed: active, revoked (ended by the laboratory) or expired (its end date passed). */
     public record GrantView(long id, long laboratoryId, String auditorUsername, String auditorName,
                             OffsetDateTime grantedAt, OffsetDateTime validUntil, OffsetDateTime revokedAt, boolean active) {
+
+        public boolean revoked() {
+            return revokedAt != null;
+        }
+
+        public boolean expired() {
+            return !active && revokedAt == null;
+        }
+    }
+
+    /**
+     * A second active grant to the same auditor: refused (409); the existing grant is named so that the page and
+     * the problem body can point to extending it instead.
+     */
+    public static class GrantExists extends DomainException {
+        private final long existingGrantId;
+
+        public GrantExists(long existingGrantId, String auditorUsername, OffsetDateTime validUntil) {
+            super(409, "Conflict", "The auditor " + auditorUsername + " already has access until "
+                    + validUntil.toLocalDate() + ". Extend that access instead of granting it twice: POST "
+                    + "/api/v1/my-laboratory/auditor-grants/" + existingGrantId + "/extend.");
+            this.existingGrantId = existingGrantId;
+        }
+
+        public long existingGrantId() {
+            return existingGrantId;
+        }
     }
 
     /** A laboratory as an auditor sees it through a grant. */
@@ -93,6 +121,15 @@ public class AuditorGrantService {
         if (validUntil == null || !validUntil.isAfter(now) || validUntil.isAfter(now.plusDays(MAX_GRANT_DAYS))) {
             throw new DomainException.BadRequest("A grant ends in the future, within " + MAX_GRANT_DAYS + " days.");
         }
+        // one active grant per auditor and laboratory: concurrent grants of one laboratory queue on its row
+        grants.getEntityManager().createNativeQuery("SELECT id FROM laboratory WHERE id = :id FOR UPDATE")
+                .setParameter("id", laboratoryId).getResultList();
+        java.util.Optional<AuditorGrant> existing = grants.find(
+                "laboratoryId = ?1 and auditorId = ?2 and revokedAt is null and validUntil > ?3 order by validUntil desc",
+                laboratoryId, auditor.id, now).firstResultOptional();
+        if (existing.isPresent()) {
+            throw new GrantExists(existing.get().id, auditor.username, existing.get().validUntil);
+        }
         AuditorGrant grant = new AuditorGrant();
         grant.laboratoryId = laboratoryId;
         grant.auditorId = auditor.id;
@@ -124,6 +161,30 @@ public class AuditorGrantService {
                     grant.id.toString(), before, hash(grant), null));
         }
         return view(grant, users.findById(grant.auditorId), now);
+    }
+
+    /** Moves the end of an active grant of the caller's laboratory later (within {@value #MAX_GRANT_DAYS} days). */
+    @Transactional
+    public GrantView extend(long grantId, OffsetDateTime validUntil) {
+        long laboratoryId = currentUser.requireLaboratoryId();
+        AuditorGrant grant = grants.findByIdOptional(grantId).filter(g -> g.laboratoryId == laboratoryId)
+                .orElseThrow(() -> new DomainException.NotFound("The grant"));
+        OffsetDateTime now = now();
+        if (!grant.activeAt(now)) {
+            throw new DomainException.Conflict(grant.revokedAt != null
+                    ? "This access was revoked; grant access anew instead."
+                    : "This access has expired; grant access anew instead.");
+        }
+        if (validUntil == null || !validUntil.isAfter(grant.validUntil) || validUntil.isAfter(now.plusDays(MAX_GRANT_DAYS))) {
+            throw new DomainException.BadRequest("The new end lies after the current one ("
+                    + grant.validUntil.toLocalDate() + "), within " + MAX_GRANT_DAYS + " days from today.");
+        }
+        String before = hash(grant);
+        grant.validUntil = validUntil.withOffsetSameInstant(ZoneOffset.UTC);
+        UserAccount auditor = users.findById(grant.auditorId);
+        audit.record(new AuditTrail.Event(currentUser.actor(), "auditor-grant.extended", "auditor-grant",
+                grant.id.toString(), before, hash(grant), "auditor=" + auditor.username + " until=" + grant.validUntil));
+        return view(grant, auditor, now);
     }
 
     @Transactional

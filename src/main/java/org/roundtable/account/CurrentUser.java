@@ -82,6 +82,12 @@ public class CurrentUser {
         return Boolean.TRUE.equals(identity.getAttribute(IdentityAttributes.TWO_STEP_ON));
     }
 
+    /** The scope of the API token the request was made with; empty for signed-in people. */
+    public Optional<ApiTokenScope> tokenScope() {
+        Object scope = identity.getAttribute(IdentityAttributes.TOKEN_SCOPE);
+        return scope instanceof ApiTokenScope s ? Optional.of(s) : Optional.empty();
+    }
+
     public boolean viaApiToken() {
         return IdentityAttributes.METHOD_TOKEN.equals(identity.getAttribute(IdentityAttributes.METHOD));
     }

@@ -8,6 +8,7 @@ public final class IdentityAttributes {
     public static final String SESSION_HASH = "roundtable.sessionHash";
     public static final String TWO_STEP_ON = "roundtable.twoStepOn";
     public static final String TOKEN_ID = "roundtable.tokenId";
+    public static final String TOKEN_SCOPE = "roundtable.tokenScope";
     public static final String METHOD = "roundtable.method";
     public static final String METHOD_SESSION = "session";
     public static final String METHOD_TOKEN = "token";

@@ -62,18 +62,28 @@ final class IdentityProviders {
 
         @Override
         public Uni<SecurityIdentity> authenticate(Credentials.BearerToken request, AuthenticationRequestContext context) {
-            return context.runBlocking(() -> tokens.resolve(request.token)
-                    .map(t -> (SecurityIdentity) QuarkusSecurityIdentity.builder()
-                            .setPrincipal(new QuarkusPrincipal("token:" + t.name()))
-                            // a LIMS token acts as a member of its laboratory: it submits and reads results,
-                            // it never administers members, tokens or grants
-                            .addRole(Role.LAB_MEMBER.roleName())
-                            .addAttribute(IdentityAttributes.TOKEN_ID, t.tokenId())
-                            .addAttribute(IdentityAttributes.DISPLAY_NAME, "API token " + t.name())
-                            .addAttribute(IdentityAttributes.METHOD, IdentityAttributes.METHOD_TOKEN)
-                            .addAttribute(IdentityAttributes.LABORATORY_ID, t.laboratoryId())
-                            .build())
-                    .orElseThrow(() -> new AuthenticationFailedException("unknown or revoked API token")));
+            return context.runBlocking(() -> {
+                ApiTokenService.Resolution found = tokens.resolution(request.token);
+                if (found instanceof ApiTokenService.Resolution.NoLongerValid gone) {
+                    throw new AuthenticationFailedException("API token no longer valid",
+                            new ApiTokenNoLongerValid(gone.revoked()));
+                }
+                if (!(found instanceof ApiTokenService.Resolution.Valid valid)) {
+                    throw new AuthenticationFailedException("unknown API token");
+                }
+                ApiTokenService.TokenPrincipal t = valid.principal();
+                return (SecurityIdentity) QuarkusSecurityIdentity.builder()
+                        .setPrincipal(new QuarkusPrincipal("token:" + t.name()))
+                        // a LIMS token acts as a member of its laboratory within its scope: it submits results or
+                        // reads scores, it never administers members, tokens or grants
+                        .addRole(Role.LAB_MEMBER.roleName())
+                        .addAttribute(IdentityAttributes.TOKEN_ID, t.tokenId())
+                        .addAttribute(IdentityAttributes.TOKEN_SCOPE, t.scope())
+                        .addAttribute(IdentityAttributes.DISPLAY_NAME, "API token " + t.name())
+                        .addAttribute(IdentityAttributes.METHOD, IdentityAttributes.METHOD_TOKEN)
+                        .addAttribute(IdentityAttributes.LABORATORY_ID, t.laboratoryId())
+                        .build();
+            });
         }
     }
 }

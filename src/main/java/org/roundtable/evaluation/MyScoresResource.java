@@ -7,13 +7,16 @@ import jakarta.ws.rs.PathParam;
 import jakarta.ws.rs.Produces;
 import jakarta.ws.rs.core.MediaType;
 import jakarta.ws.rs.core.Response;
+import org.roundtable.account.ApiTokenScope;
 import org.roundtable.account.Role;
 
 /**
- * A laboratory's own scores in the round's published evaluation, for its LIMS (members, managers and API tokens):
+ * A laboratory's own scores in the round's published evaluation, for its LIMS (members, managers and API tokens
+ * that read scores):
  * from the preliminary report on; before that, or for a round the laboratory is not in, 404 as for a missing round.
  */
 @Path("/api/v1/my-rounds")
+@ApiTokenScope.Required(ApiTokenScope.READ_SCORES)
 public class MyScoresResource {
 
     private final EvaluationExports exports;

@@ -17,7 +17,8 @@ import java.time.Instant;
  * @param amendmentReason why the replaced report was amended
  * @param sha256 lower-case hex SHA-256 of the exact bytes issued
  * @param issuedAt when it was issued
- * @param supersededBy the report number of the newer version that replaces this one, read from that version
+ * @param supersededBy the report number of the newer version that replaces this one, read from that version (for a
+ *                     preliminary report: the final report of the same kind and laboratory, once issued)
  */
 public record IssuedDocument(long id, String reportId, DocumentKind kind, ReportStatus status, Long roundId,
                              Long laboratoryId, String replacesReportId, String amendmentReason, String sha256,

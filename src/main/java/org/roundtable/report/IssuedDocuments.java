@@ -35,7 +35,12 @@ public class IssuedDocuments {
 
     private static final String COLUMNS = """
             SELECT d.id, d.report_id, d.kind, d.status, d.round_id, d.laboratory_id, r.report_id, d.amendment_reason,
-                   d.sha256, d.issued_at, n.report_id
+                   d.sha256, d.issued_at,
+                   COALESCE(n.report_id, CASE WHEN d.status = 'PRELIMINARY' AND d.round_id IS NOT NULL THEN
+                       (SELECT f.report_id FROM issued_document f
+                         WHERE f.round_id = d.round_id AND f.kind = d.kind AND f.status = 'FINAL'
+                           AND f.laboratory_id IS NOT DISTINCT FROM d.laboratory_id
+                         ORDER BY f.issued_at, f.id LIMIT 1) END)
               FROM issued_document d
               LEFT JOIN issued_document r ON r.id = d.replaces_document_id
               LEFT JOIN issued_document n ON n.replaces_document_id = d.id
@@ -185,14 +190,13 @@ public class IssuedDocuments {
         return find("WHERE d.sha256 = :v", sha256);
     }
 
-    /** The report number of the newer document that replaces this one, read from that document's link. */
+    /**
+     * The report number of the newer document that replaces this one, read from that document's link (an amendment);
+     * a preliminary report is replaced by the final report of the same kind (and laboratory) once that is issued.
+     */
     @Transactional
     public Optional<String> supersededBy(long documentId) {
-        @SuppressWarnings("unchecked")
-        List<Object> newer = entityManager.createNativeQuery(
-                        "SELECT report_id FROM issued_document WHERE replaces_document_id = :id")
-                .setParameter("id", documentId).getResultList();
-        return newer.stream().findFirst().map(Object::toString);
+        return byId(documentId).map(IssuedDocument::supersededBy);
     }
 
     /** Keeps the HTML view of an issued document beside it (once; a document's view never changes). */

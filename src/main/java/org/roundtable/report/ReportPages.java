@@ -10,11 +10,14 @@ import jakarta.ws.rs.POST;
 import jakarta.ws.rs.Path;
 import jakarta.ws.rs.PathParam;
 import jakarta.ws.rs.Produces;
+import jakarta.ws.rs.QueryParam;
 import jakarta.ws.rs.core.MediaType;
 import jakarta.ws.rs.core.Response;
+import org.roundtable.account.ApiTokenScope;
 import org.roundtable.account.Role;
 import org.roundtable.platform.Confirmation;
 import org.roundtable.platform.Confirmations;
+import org.roundtable.platform.DisplaySettings;
 import org.roundtable.platform.DomainException;
 import org.roundtable.platform.FormActions;
 
@@ -36,15 +39,25 @@ public class ReportPages {
 
         static native TemplateInstance myReports(ReportLifecycle.LaboratoryView view, String error, String message);
 
-        static native TemplateInstance auditorReports(List<ReportLifecycle.AuditorRound> rounds);
+        static native TemplateInstance auditorReports(AuditorLibrary.Shelf shelf, AuditorLibrary.Typed typed,
+                                                      String error);
+
+        static native TemplateInstance myScores(LaboratoryScores.Page page);
     }
 
     private final ReportLifecycle lifecycle;
     private final Confirmations confirmations;
+    private final LaboratoryScores scores;
+    private final AuditorLibrary library;
+    private final DisplaySettings display;
 
-    public ReportPages(ReportLifecycle lifecycle, Confirmations confirmations) {
+    public ReportPages(ReportLifecycle lifecycle, Confirmations confirmations, LaboratoryScores scores,
+                       AuditorLibrary library, DisplaySettings display) {
         this.confirmations = confirmations;
         this.lifecycle = lifecycle;
+        this.scores = scores;
+        this.library = library;
+        this.display = display;
     }
 
     // ---- coordinators ------------------------------------------------------------------------------------
@@ -161,13 +174,46 @@ public class ReportPages {
         }, e -> Templates.myReports(lifecycle.forLaboratory(roundId), e, null));
     }
 
+    /** The laboratory's own scores once a report is issued to laboratories (404 before, as for a missing round). */
+    @GET
+    @Path("my-rounds/{roundId}/scores")
+    @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
+    @ApiTokenScope.Required(ApiTokenScope.READ_SCORES)
+    public TemplateInstance myScores(@PathParam("roundId") long roundId) {
+        return Templates.myScores(scores.page(roundId));
+    }
+
+    /** One chart of the scores page (scores, density or uncertainty) with the laboratory's own mark, as SVG. */
+    @GET
+    @Path("my-rounds/{roundId}/scores/{measurandId}/{chart}.svg")
+    @Produces({"image/svg+xml", MediaType.TEXT_HTML}) // an HTML error page when the chart may not be shown
+    @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
+    @ApiTokenScope.Required(ApiTokenScope.READ_SCORES)
+    public Response myScoreChart(@PathParam("roundId") long roundId, @PathParam("measurandId") String measurandId,
+                                 @PathParam("chart") String chart) {
+        return Response.ok(scores.chartSvg(roundId, measurandId, chart), "image/svg+xml; charset=UTF-8")
+                .header("Cache-Control", "private, max-age=300").build();
+    }
+
     // ---- auditors ----------------------------------------------------------------------------------------
 
     @GET
     @Path("auditor/reports")
     @RolesAllowed(Role.AUDITOR_NAME)
-    public TemplateInstance auditorReports() {
-        return Templates.auditorReports(lifecycle.forAuditor());
+    public Response auditorReports(@QueryParam("laboratory") String laboratory, @QueryParam("scheme") String scheme,
+                                   @QueryParam("q") String query, @QueryParam("from") String from,
+                                   @QueryParam("until") String until, @QueryParam("page") Integer page) {
+        AuditorLibrary.Typed typed = new AuditorLibrary.Typed(laboratory, scheme, query, from, until);
+        AuditorLibrary.Filter filter;
+        try {
+            filter = AuditorLibrary.Filter.of(laboratory, scheme, query, from, until);
+        } catch (DomainException e) {
+            // typed filters are kept; the library is shown unfiltered below the message
+            AuditorLibrary.Filter empty = new AuditorLibrary.Filter(null, null, query, null, null);
+            return Response.status(e.status()).entity(Templates.auditorReports(
+                    library.shelf(empty, 1, display.pageSize()), typed, e.detail())).build();
+        }
+        return Response.ok(Templates.auditorReports(library.shelf(filter, page, display.pageSize()), typed, null)).build();
     }
 
     // ---- internals ---------------------------------------------------------------------------------------

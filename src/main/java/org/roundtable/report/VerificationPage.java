@@ -31,7 +31,7 @@ public class VerificationPage {
 
     @CheckedTemplate(basePath = "report")
     static class Templates {
-        static native TemplateInstance verify(Verifier.Answer answer, String error);
+        static native TemplateInstance verify(Verifier.Answer answer, String error, String sha256);
     }
 
     private final Verifier verifier;
@@ -40,9 +40,11 @@ public class VerificationPage {
         this.verifier = verifier;
     }
 
+    /** The form; {@code sha256} (for instance from the link to a newer version) is filled in, ready to verify. */
     @GET
-    public TemplateInstance form() {
-        return Templates.verify(null, null);
+    public TemplateInstance form(@jakarta.ws.rs.QueryParam("sha256") String sha256) {
+        String given = sha256 == null ? null : sha256.strip().toLowerCase(Locale.ROOT);
+        return Templates.verify(null, null, given != null && IssuedDocuments.SHA256.matcher(given).matches() ? given : null);
     }
 
     /** Verifies the uploaded file if there is one, else the pasted hash (upper case and spaces forgiven). */
@@ -61,9 +63,10 @@ public class VerificationPage {
             } else {
                 throw new DomainException.BadRequest("Choose the document or paste its SHA-256.");
             }
-            return Response.ok(Templates.verify(answer, null)).build();
+            return Response.ok(Templates.verify(answer, null, null)).build();
         } catch (DomainException e) {
-            return Response.status(e.status()).entity(Templates.verify(null, e.detail())).build();
+            return Response.status(e.status()).entity(Templates.verify(null, e.detail(),
+                    sha256 == null ? null : sha256.strip())).build();
         }
     }
 

@@ -23,11 +23,28 @@ public class Verifier {
      */
     public static final int MAX_DOCUMENT_BYTES = 20 * 1024 * 1024;
 
-    /** The verification of one SHA-256: the issued document, or {@code null} when it was not issued here. */
-    public record Answer(String sha256, IssuedDocument document) {
+    /**
+     * The verification of one SHA-256: the issued document, or {@code null} when it was not issued here; {@code newer}
+     * the document that replaced it (an amendment, or the final report for a preliminary one), else {@code null}.
+     */
+    public record Answer(String sha256, IssuedDocument document, IssuedDocument newer) {
+
+        public Answer(String sha256, IssuedDocument document) {
+            this(sha256, document, null);
+        }
 
         public boolean issued() {
             return document != null;
+        }
+
+        /** Whether the final report replaced this preliminary one (else an amendment replaced it). */
+        public boolean replacedByFinal() {
+            return superseded() && document.status() == org.roundtable.report.model.ReportStatus.PRELIMINARY;
+        }
+
+        /** Whether a later document replaced this one. */
+        public boolean superseded() {
+            return document != null && document.supersededBy() != null;
         }
 
         /** The JSON body: every field when issued; only {@code issued} and {@code sha256} when not. */
@@ -93,7 +110,10 @@ public class Verifier {
     }
 
     private Answer lookUp(String sha256) {
-        return new Answer(sha256, documents.verify(sha256).orElse(null));
+        IssuedDocument found = documents.verify(sha256).orElse(null);
+        IssuedDocument newer = found == null || found.supersededBy() == null ? null
+                : documents.byReportId(found.supersededBy()).orElse(null);
+        return new Answer(sha256, found, newer);
     }
 
     /** Counts this request against the caller's limit. */

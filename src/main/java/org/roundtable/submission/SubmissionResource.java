@@ -26,6 +26,7 @@ import java.util.List;
  * results. The coordinators' side is {@link RoundSubmissionResource}.
  */
 @Path("/api/v1/my-rounds")
+@org.roundtable.account.ApiTokenScope.Required(org.roundtable.account.ApiTokenScope.SUBMIT)
 @Produces(MediaType.APPLICATION_JSON)
 public class SubmissionResource {
 

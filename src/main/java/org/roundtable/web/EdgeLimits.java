@@ -90,7 +90,9 @@ public class EdgeLimits {
             org.roundtable.account.SecurityLog.denied("anonymous", context.request().method().name(),
                     context.request().path(), 401);
             context.response().headers().set("WWW-Authenticate", "Bearer realm=\"roundtable\"");
-            problem(context, 401, "Sign-in required", "The API token is not valid. Please sign in or use a valid token.");
+            problem(context, 401, "Sign-in required", noLongerValid(context.failure())
+                    ? org.roundtable.account.ApiTokenNoLongerValid.DETAIL
+                    : "The API token is not valid. Please sign in or use a valid token.");
             return;
         }
         int status = context.statusCode();
@@ -100,6 +102,16 @@ public class EdgeLimits {
             return;
         }
         context.next();
+    }
+
+    /** Whether the failure (or a cause of it) is a revoked or expired API token. */
+    static boolean noLongerValid(Throwable failure) {
+        for (Throwable t = failure; t != null; t = t.getCause() == t ? null : t.getCause()) {
+            if (t instanceof org.roundtable.account.ApiTokenNoLongerValid) {
+                return true;
+            }
+        }
+        return false;
     }
 
     /** Ends the exchange with a problem body carrying the request id (taken from the request or new). */

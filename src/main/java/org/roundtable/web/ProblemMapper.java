@@ -65,7 +65,8 @@ public class ProblemMapper {
                     + (uri.getRequestUri().getRawQuery() == null ? "" : "?" + uri.getRequestUri().getRawQuery());
             return Response.seeOther(URI.create("/login?next=" + URLEncoder.encode(next, StandardCharsets.UTF_8))).build();
         }
-        Response problem = answer(401, "Sign-in required", "Please sign in.", List.of(), headers);
+        Response problem = answer(401, "Sign-in required", EdgeLimits.noLongerValid(e)
+                ? org.roundtable.account.ApiTokenNoLongerValid.DETAIL : "Please sign in.", List.of(), headers);
         return Response.fromResponse(problem).header("WWW-Authenticate", "Bearer realm=\"roundtable\"").build();
     }
 

@@ -69,4 +69,42 @@ class LaboratoryManagerBrowserTest {
         browser.get(base + "my-laboratory");
         assertThat(browser.getCurrentUrl()).contains("/login");
     }
+
+    @Test
+    void managerCreatesAScoresTokenWithAnExpiryAndRevokesItAfterBeingToldWhatStopsWorking() {
+        long lab = world.laboratory();
+        String manager = world.user("lab-manager", lab);
+        world.grant(lab, world.user("auditor", null));
+        long ended = world.grant(lab, world.user("auditor", null));
+        world.sql("UPDATE auditor_grant SET granted_at = now() - interval '40 days', valid_until = now() - interval '2 days' "
+                + "WHERE id = ?", ended);
+        browser = Browser.start();
+        browser.get(base + "login?next=/my-laboratory");
+        browser.findElement(By.id("username")).sendKeys(manager);
+        browser.findElement(By.id("password")).sendKeys(World.PASSWORD);
+        browser.findElement(By.cssSelector("form[action='/login'] button")).click();
+        Browser.waitForUrl(browser, url -> url.endsWith("/my-laboratory"));
+
+        browser.findElement(By.id("tokenName")).sendKeys("LIMS scores import");
+        new org.openqa.selenium.support.ui.Select(browser.findElement(By.id("tokenScope"))).selectByVisibleText("Read scores");
+        browser.findElement(By.id("tokenExpiry")).sendKeys(java.time.LocalDate.now().plusDays(180)
+                .format(java.time.format.DateTimeFormatter.ofPattern("MM/dd/yyyy")));
+        Browser.submit(browser, By.cssSelector("form[action='/my-laboratory/tokens'] button"));
+        assertThat(Browser.waitFor(browser, By.id("new-token")).getText()).startsWith("rt_");
+        String tokens = browser.findElement(By.id("tokens")).getText();
+        assertThat(tokens).contains("LIMS scores import").contains("Read scores").contains("active");
+        assertThat(browser.getPageSource()).contains("status-bad\">expired</span>");
+        ((org.openqa.selenium.JavascriptExecutor) browser).executeScript("arguments[0].scrollIntoView(true);",
+                browser.findElement(By.id("tokens-heading")));
+        Browser.screenshot(browser, "laboratory/11-my-laboratory");
+
+        browser.findElement(By.cssSelector("button[data-action='revoke-token']")).click();
+        org.openqa.selenium.WebElement consequence = new org.openqa.selenium.support.ui.WebDriverWait(browser,
+                java.time.Duration.ofSeconds(20)).until(org.openqa.selenium.support.ui.ExpectedConditions
+                .visibilityOfElementLocated(By.id("confirm-consequence")));
+        assertThat(consequence.getText()).contains("can no longer read your laboratory's scores");
+        Browser.screenshot(browser, "laboratory/12-revoke-confirm");
+        Browser.submit(browser, By.id("confirm-do"));
+        assertThat(Browser.waitFor(browser, By.id("tokens")).getText()).contains("revoked");
+    }
 }

@@ -99,7 +99,7 @@ class EvaluationExportsTest {
         World.Browser stranger = world.signIn(world.user("lab-manager", outsider));
         World.Browser auditor = world.signIn(world.user("auditor", null));
         World.Browser coordinator = world.signIn(world.user("coordinator", null));
-        String token = world.apiToken(labs[0]);
+        String token = world.apiToken(labs[0], "READ_SCORES");
         String published = "/api/v1/rounds/" + round + "/published/results.json";
         String scores = "/api/v1/my-rounds/" + round + "/scores";
 

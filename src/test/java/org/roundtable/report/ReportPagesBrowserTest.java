@@ -32,6 +32,9 @@ class ReportPagesBrowserTest {
     @Inject
     JobRunner runner;
 
+    @Inject
+    ReportLifecycle lifecycle;
+
     private WebDriver browser;
 
     @AfterEach
@@ -108,6 +111,96 @@ class ReportPagesBrowserTest {
         signIn(member, labPage);
         assertThat(browser.findElement(By.cssSelector(".answer")).getText()).contains("Confirmed: robust mean of all results.");
         assertThat(browser.findElement(By.id("my-documents")).getText()).contains(code + "-R-F");
+    }
+
+    @Test
+    void afterThePreliminaryReportALaboratorySeesItsScoresWithChartsAndCommentsFromThere() {
+        browser = Browser.start();
+        long[] ids = ReportAssemblerTest.evaluatedRound(world, evaluations);
+        long round = ids[0];
+        String code = world.text("SELECT code FROM round WHERE id = ?", round);
+        String own = world.text("SELECT participant_code FROM round_participant WHERE round_id = ? AND laboratory_id = ?",
+                round, ids[1]);
+        String coordinatorPage = "/rounds/" + round + "/reports";
+        signIn(world.user("coordinator", null), coordinatorPage);
+        Browser.submit(browser, By.id("issue-preliminary"));
+        submit(By.id("confirm-do"));
+        runJobs();
+        browser.get(base + coordinatorPage.substring(1));
+        submit(By.id("open-comment-period"));
+        signOut();
+
+        String member = world.user("lab-member", ids[1]);
+        signIn(member, "/my-rounds/" + round);
+        Browser.submit(browser, By.id("scores-link"));
+        assertThat(browser.getCurrentUrl()).endsWith("/my-rounds/" + round + "/scores");
+        assertThat(browser.findElement(By.id("participant-code")).getText()).isEqualTo(own);
+        assertThat(browser.findElement(By.id("my-scores")).getText()).contains("Cr").contains("%");
+        java.util.List<org.openqa.selenium.WebElement> charts = browser.findElements(By.cssSelector("figure.chart img"));
+        assertThat(charts).hasSize(3);
+        for (org.openqa.selenium.WebElement chart : charts) {
+            ((org.openqa.selenium.JavascriptExecutor) browser).executeScript("arguments[0].scrollIntoView(true);", chart);
+            new org.openqa.selenium.support.ui.WebDriverWait(browser, java.time.Duration.ofSeconds(20)).until(d ->
+                    Boolean.TRUE.equals(((org.openqa.selenium.JavascriptExecutor) d).executeScript(
+                            "return arguments[0].complete && arguments[0].naturalWidth > 0;", chart)));
+        }
+        // the table of figures with the charts below it
+        ((org.openqa.selenium.JavascriptExecutor) browser).executeScript(
+                "document.getElementById('my-scores').scrollIntoView(true); window.scrollBy(0, -90);");
+        assertThat(browser.findElement(By.id("round-report-pdf")).getAttribute("href")).contains("/documents/");
+        assertThat(browser.findElement(By.id("lab-report-html")).getAttribute("href")).endsWith("/html");
+        Browser.screenshot(browser, "laboratory/10-scores");
+
+        browser.findElement(By.id("comment-link")).click();
+        Browser.waitFor(browser, By.id("comment-body")).sendKeys("Our Cr value was read at the wrong line; please check.");
+        browser.findElement(By.id("send-comment")).click();
+        assertThat(Browser.waitFor(browser, By.cssSelector(".my-comment")).getText()).contains("wrong line");
+        assertThat(browser.findElement(By.id("my-documents")).getText()).contains(code + "-R-P1");
+    }
+
+    @Test
+    void anAuditorFindsAReportByLaboratoryDownloadsItAndLearnsItWasSuperseded() throws Exception {
+        browser = Browser.start();
+        long[] ids = ReportAssemblerTest.evaluatedRound(world, evaluations);
+        long round = ids[0];
+        String own = world.text("SELECT participant_code FROM round_participant WHERE round_id = ? AND laboratory_id = ?",
+                round, ids[1]);
+        String labName = world.text("SELECT name FROM laboratory WHERE id = ?", ids[1]);
+        lifecycle.publishWithoutJobs(round, 1, "", new ReportLifecycle.Signer(
+                new org.roundtable.audit.Actor("browser-test", "coordinator", null), "Dr. Test Coordinator"));
+        World.Browser coordinator = world.signIn(world.user("coordinator", null));
+        coordinator.json().body("{\"version\":1}").post("/api/v1/rounds/" + round + "/reports/sign-offs")
+                .then().statusCode(org.hamcrest.Matchers.lessThan(300));
+        coordinator.json().body("{\"version\":1,\"reason\":\"Participant codes of two results exchanged\"}")
+                .post("/api/v1/rounds/" + round + "/reports/amendments").then().statusCode(org.hamcrest.Matchers.lessThan(300));
+        runJobs();
+        String auditor = world.user("auditor", null);
+        world.grant(ids[1], auditor);
+
+        signIn(auditor, "/auditor/reports");
+        new org.openqa.selenium.support.ui.Select(browser.findElement(By.id("f-laboratory"))).selectByVisibleText(labName);
+        Browser.submit(browser, By.cssSelector("#library-filters button"));
+        String library = browser.findElement(By.id("library")).getText();
+        assertThat(library).contains(labName).contains(own).contains("Final").contains("Amended").contains("replaced by");
+        Browser.screenshot(browser, "auditor/01-library");
+
+        // the final laboratory report, downloaded before the amendment was noticed
+        org.openqa.selenium.WebElement finalRow = browser.findElements(By.cssSelector("#library tbody tr")).stream()
+                .filter(r -> r.getText().contains("replaced by")).findFirst().orElseThrow();
+        String href = finalRow.findElement(By.cssSelector("a.download-lab-report")).getAttribute("href");
+        byte[] pdf = io.restassured.RestAssured.given().cookie("rt_session", browser.manage().getCookieNamed("rt_session").getValue())
+                .get(href).then().statusCode(200).extract().asByteArray();
+        java.nio.file.Path file = java.nio.file.Files.createTempFile("final-report", ".pdf");
+        java.nio.file.Files.write(file, pdf);
+
+        browser.get(base + "verify");
+        browser.findElement(By.id("file")).sendKeys(file.toAbsolutePath().toString());
+        Browser.submit(browser, By.cssSelector("form[enctype] button"));
+        assertThat(Browser.waitFor(browser, By.id("superseded")).getText()).contains("no longer the current version")
+                .contains("amended report");
+        assertThat(browser.findElement(By.id("verify-newer")).getAttribute("href")).contains("/verify?sha256=");
+        Browser.screenshot(browser, "auditor/02-verify-superseded");
+        java.nio.file.Files.deleteIfExists(file);
     }
 
     /** Submits a form by its button, waits for the answering page, then for its success notice. */

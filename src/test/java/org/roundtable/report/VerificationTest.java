@@ -194,4 +194,52 @@ class VerificationTest {
     void thePageFormNeedsItsCsrfToken() {
         given().multiPart("sha256", issued.sha256()).post("/verify").then().statusCode(403);
     }
+
+    @Test
+    void aPreliminaryReportReplacedByTheFinalOneSaysSoAndLinksTheFinalOne() {
+        long round = world.round(org.roundtable.scheme.RoundState.CLOSED, world.laboratory());
+        String preliminaryId = World.unique("LAS-P");
+        RoundReport preliminary = IssuedDocumentsTest.withIdentity(ReportStatus.PRELIMINARY, preliminaryId, null, null);
+        byte[] preliminaryPdf = RENDERER.render(preliminary);
+        QuarkusTransaction.requiringNew().run(() -> documents.issue(new IssuedDocuments.Issue(preliminary.identity(),
+                DocumentKind.ROUND, round, null, "application/pdf", preliminaryPdf), IssuedDocumentsTest.COORDINATOR));
+        // before the final report the preliminary one is current
+        given().contentType("application/pdf").body(preliminaryPdf).post(API)
+                .then().statusCode(200).body("supersededBy", nullValue());
+
+        String finalId = World.unique("LAS-F");
+        RoundReport finalReport = IssuedDocumentsTest.withIdentity(ReportStatus.FINAL, finalId, null, null);
+        byte[] finalPdf = RENDERER.render(finalReport);
+        IssuedDocument issuedFinal = QuarkusTransaction.requiringNew().call(() -> documents.issue(new IssuedDocuments.Issue(
+                finalReport.identity(), DocumentKind.ROUND, round, null, "application/pdf", finalPdf),
+                IssuedDocumentsTest.COORDINATOR));
+
+        given().contentType("application/pdf").body(preliminaryPdf).post(API)
+                .then().statusCode(200).body("status", equalTo("PRELIMINARY")).body("supersededBy", equalTo(finalId));
+        String[] form = world.anonymousForm();
+        given().cookie("rt_form", form[0]).multiPart("_csrf", form[1])
+                .multiPart("file", "report.pdf", preliminaryPdf, "application/pdf").post("/verify")
+                .then().statusCode(200).body(containsString("no longer the current version"))
+                .body(containsString("The final report"))
+                .body(containsString(finalId))
+                .body(containsString("/verify?sha256=" + issuedFinal.sha256()));
+        // the link fills in the newer document's fingerprint, ready to verify
+        given().get("/verify?sha256=" + issuedFinal.sha256()).then().statusCode(200)
+                .body(containsString("value=\"" + issuedFinal.sha256() + "\""));
+    }
+
+    @Test
+    void anAmendedReportSaysOnThePageThatItWasReplaced() {
+        String newer = World.unique("LAS-V");
+        RoundReport amended = IssuedDocumentsTest.withIdentity(ReportStatus.AMENDED, newer, reportId, "Mn result of P03 corrected");
+        byte[] amendedPdf = RENDERER.render(amended);
+        QuarkusTransaction.requiringNew().run(() -> documents.issue(new IssuedDocuments.Issue(amended.identity(),
+                DocumentKind.ROUND, 7L, null, "application/pdf", amendedPdf), IssuedDocumentsTest.COORDINATOR));
+        String[] form = world.anonymousForm();
+        given().cookie("rt_form", form[0]).multiPart("_csrf", form[1]).multiPart("sha256", issued.sha256()).post("/verify")
+                .then().statusCode(200).body(containsString("no longer the current version"))
+                .body(containsString("The amended report")).body(containsString(newer));
+        given().cookie("rt_form", form[0]).multiPart("_csrf", form[1]).multiPart("sha256", Secrets.sha256Hex(amendedPdf))
+                .post("/verify").then().statusCode(200).body(org.hamcrest.Matchers.not(containsString("no longer the current")));
+    }
 }

@@ -268,6 +268,13 @@ class AuthorizationMatrixTest {
                     + "recipient_id, params, link, created_at) VALUES ('reminder', ?, ?, '{}', '/my-rounds', now()) RETURNING id",
                     World.unique("matrix"), owner)));
         }
+        if (resolved.contains("{measurandId}")) {
+            // a measurand of the published round's scheme (one item: the section is named by the element)
+            resolved = resolved.replace("{measurandId}", "Cr");
+        }
+        if (resolved.contains("{chart}")) {
+            resolved = resolved.replace("{chart}", "scores");
+        }
         if (resolved.contains("{schemeId}")) {
             resolved = resolved.replace("{schemeId}", Long.toString(world.scheme()));
         }

@@ -86,6 +86,13 @@ public class World {
         return secret;
     }
 
+    /** An API token of the laboratory with this scope ({@code SUBMIT} or {@code READ_SCORES}); returns its secret. */
+    public String apiToken(long laboratoryId, String scope) {
+        String secret = apiToken(laboratoryId);
+        sql("UPDATE api_token SET scope = ? WHERE token_hash = ?", scope, Secrets.sha256Hex(secret));
+        return secret;
+    }
+
     public long apiTokenId(long laboratoryId) {
         String secret = apiToken(laboratoryId);
         return insert("SELECT id FROM api_token WHERE token_hash = ?", Secrets.sha256Hex(secret));
