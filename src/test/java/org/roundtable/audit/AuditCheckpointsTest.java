@@ -163,7 +163,7 @@ class AuditCheckpointsTest {
                 .isEmpty();
         assertThat(search.actions()).extracting(AuditSearch.Choice::value).contains("api-token.created");
         assertThat(AuditSearch.label("api-token.created")).isEqualTo("API token created");
-        assertThat(AuditSearch.label("round.close")).isEqualTo("Close the round");
+        assertThat(AuditSearch.label("round.close")).isEqualTo("Close for results");
     }
 
     @Test
