@@ -189,12 +189,12 @@ public class AuditSearch {
         return objectWords(action);
     }
 
-    /** An object type in words ({@code api-token} → "Api token"; {@code round} → "Round"). */
+    /** An object type in words ({@code api-token} → "API token"; {@code two-step} → "Two step"). */
     public static String objectWords(String type) {
         if (type == null) {
             return "";
         }
-        String words = type.replace('-', ' ').replace('_', ' ').strip();
+        String words = type.replace('-', ' ').replace('_', ' ').strip().replaceFirst("^api ", "API ");
         return words.isEmpty() ? words : Character.toUpperCase(words.charAt(0)) + words.substring(1);
     }
 }

@@ -66,6 +66,13 @@ public class EvaluationPages {
             return "/rounds/" + run.roundId() + "/evaluation/" + run.version() + "/measurands/" + key;
         }
 
+        /** Why the score was chosen, with the symbols as people write them. */
+        public String scoreUsedReason() {
+            String reason = outcome.scoreUsedReason();
+            return reason == null ? "" : NumberFormats.minusSigns(reason.replace("sigma_pt", "σpt")
+                    .replace("<=", "≤").replace(">=", "≥"));
+        }
+
         /** The verdict filter's choices. */
         public List<FilterChoice> choices() {
             return filterChoices();
