@@ -30,7 +30,7 @@ import java.time.ZoneOffset;
 public class AuditCheckpoints {
 
     /** The most entries one view verifies (the rest waits for the next view or the full check). */
-    public static final int ENTRIES_PER_PASS = 20_000;
+    public static final int ENTRIES_PER_PASS = 10_000;
     /** Advisory lock key of a checkpoint pass ("RTAUDCP"): one pass at a time, the others show the latest. */
     static final long PASS_LOCK = 0x52_54_41_55_44_43_50L;
 

@@ -4,7 +4,6 @@ import jakarta.annotation.security.RolesAllowed;
 import jakarta.ws.rs.GET;
 import jakarta.ws.rs.Path;
 import jakarta.ws.rs.PathParam;
-import jakarta.ws.rs.Produces;
 import jakarta.ws.rs.core.Response;
 import org.roundtable.account.Role;
 import org.roundtable.platform.DomainException;
@@ -39,7 +38,7 @@ public class ReviewCharts {
      */
     @GET
     @Path("rounds/{roundId}/evaluation/{version}/measurands/{measurandId}/charts/{kind}.svg")
-    @Produces(SVG)
+    // no @Produces: an <img> (or any client) asking with any Accept gets the image; the type is set on the answer
     public Response chart(@PathParam("roundId") long roundId, @PathParam("version") int version,
                           @PathParam("measurandId") String measurandId, @PathParam("kind") String kind) {
         if (!kind.equals("score-bars") && !kind.equals("density") && !kind.equals("uncertainty-bars")) {

@@ -185,6 +185,11 @@ class EvaluationReviewTest {
                         + " with %d score rows (%d bytes a row, about %.1f KiB with 50)%n", laboratories, measurands,
                 summary.length() / 1024.0, first.length() / 1024.0, size, rowBytes,
                 (first.length() + (50 - size) * rowBytes) / 1024.0);
+        // for reading only (speed is shown by benchmarks, never asserted): the second answer of each page, warm
+        long summaryMillis = coordinator.request().get("/rounds/" + round + "/evaluation/1").time();
+        long measurandMillis = coordinator.request().get(path).time();
+        System.out.printf("[page times] summary %d ms, measurand page %d ms (test machine, warm)%n", summaryMillis,
+                measurandMillis);
         assertThat(summary.length()).as("summary page size").isLessThan(300 * 1024);
         assertThat(first.length()).as("measurand page size").isLessThan(100 * 1024);
     }
