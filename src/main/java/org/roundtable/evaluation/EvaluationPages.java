@@ -59,7 +59,8 @@ public class EvaluationPages {
     public record MeasurandPage(EvaluationViews.RunSummary run, String key, EvaluationViews.MeasurandOutcome outcome,
                                 int digits, int scoreDecimals, boolean informationOnly,
                                 EvaluationReview.ScorePage scores, String query, String verdict,
-                                EvaluationReview.ScorePage exclusions, List<Chart> charts) {
+                                EvaluationReview.ScorePage exclusions, List<Chart> charts, String previous,
+                                String next) {
 
         /** The page's address, for the pager and the filter. */
         public String path() {
@@ -207,9 +208,12 @@ public class EvaluationPages {
                         "Kernel density of the results of " + title + ", with the assigned value and ± 2σpt"),
                 new Chart("uncertainty-bars", base + "uncertainty-bars.svg", 640, 220,
                         "Results of " + title + " in increasing order with their expanded uncertainties"));
+        List<String> keys = review.keys(roundId, version);
+        int at = keys.indexOf(key);
         return Templates.measurand(round, new MeasurandPage(run, key, outcome, review.digits(roundId,
                 outcome.element()), decimals, informationOnly, scores, search, filter == null ? ""
-                : filter.name().toLowerCase(Locale.ROOT).replace('_', '-'), exclusions, charts));
+                : filter.name().toLowerCase(Locale.ROOT).replace('_', '-'), exclusions, charts,
+                at > 0 ? keys.get(at - 1) : null, at >= 0 && at < keys.size() - 1 ? keys.get(at + 1) : null));
     }
 
     /** The verdict filter's choices (query value and label). */

@@ -19,7 +19,7 @@ import java.util.Map;
 /**
  * What a coordinator reads to review an evaluation run before a report is issued, in pieces that stay small
  * however many laboratories the round has: a summary per measurand (no per-laboratory rows; the verdicts counted
- * in the database), one measurand's statistics without its scores, and that measurand's scores one page at a time
+ * once per run in the database and kept, V54), one measurand's statistics without its scores, and that measurand's scores one page at a time
  * (by participant code, searched by code, filtered by verdict).
  *
  * <p>A measurand of a run is named by its key {@code <element>-<item label>} ({@code Cr-A}); elements never
@@ -94,17 +94,7 @@ public class EvaluationReview {
         EvaluationViews.RunSummary run = summaryOf(roundId, version);
         long runId = runId(roundId, version);
         Map<String, Integer> digits = evaluations.reportingDigits(roundId);
-        @SuppressWarnings("unchecked")
-        List<Object[]> counts = entityManager.createNativeQuery("""
-                SELECT element, item_label, count(*),
-                       count(*) FILTER (WHERE classification = 'satisfactory'),
-                       count(*) FILTER (WHERE classification = 'questionable'),
-                       count(*) FILTER (WHERE classification = 'unsatisfactory'),
-                       count(*) FILTER (WHERE classification IS NULL
-                                           OR classification NOT IN ('satisfactory', 'questionable', 'unsatisfactory')),
-                       count(*) FILTER (WHERE excluded_reason IS NOT NULL)
-                  FROM participant_score WHERE run_id = :run GROUP BY element, item_label
-                """).setParameter("run", runId).getResultList();
+        List<Object[]> counts = verdictCounts(runId);
         Map<String, long[]> byKey = new HashMap<>();
         for (Object[] c : counts) {
             long[] n = new long[6];
@@ -121,6 +111,43 @@ public class EvaluationReview {
                     n[5]));
         }
         return new Overview(run, rows);
+    }
+
+    /**
+     * The run's results counted by verdict per measurand: taken once, on the first call for the run (runs never
+     * change), and read from {@code measurand_verdict_count} afterwards. Two first calls at once both count; the
+     * second insert is skipped.
+     */
+    @SuppressWarnings("unchecked")
+    private List<Object[]> verdictCounts(long runId) {
+        String read = """
+                SELECT element, item_label, results, satisfactory, questionable, unsatisfactory, unclassified, excluded
+                  FROM measurand_verdict_count WHERE run_id = :run
+                """;
+        List<Object[]> counts = entityManager.createNativeQuery(read).setParameter("run", runId).getResultList();
+        if (!counts.isEmpty()) {
+            return counts;
+        }
+        entityManager.createNativeQuery("""
+                INSERT INTO measurand_verdict_count (run_id, element, item_label, results, satisfactory, questionable,
+                       unsatisfactory, unclassified, excluded)
+                SELECT m.run_id, m.element, m.item_label, coalesce(c.results, 0), coalesce(c.satisfactory, 0),
+                       coalesce(c.questionable, 0), coalesce(c.unsatisfactory, 0), coalesce(c.unclassified, 0),
+                       coalesce(c.excluded, 0)
+                  FROM measurand_evaluation m
+                  LEFT JOIN (SELECT element, item_label, count(*) AS results,
+                                    count(*) FILTER (WHERE classification = 'satisfactory') AS satisfactory,
+                                    count(*) FILTER (WHERE classification = 'questionable') AS questionable,
+                                    count(*) FILTER (WHERE classification = 'unsatisfactory') AS unsatisfactory,
+                                    count(*) FILTER (WHERE classification IS NULL OR classification NOT IN
+                                                     ('satisfactory', 'questionable', 'unsatisfactory')) AS unclassified,
+                                    count(*) FILTER (WHERE excluded_reason IS NOT NULL) AS excluded
+                               FROM participant_score WHERE run_id = :run GROUP BY element, item_label) c
+                         ON c.element = m.element AND c.item_label = m.item_label
+                 WHERE m.run_id = :run
+                ON CONFLICT DO NOTHING
+                """).setParameter("run", runId).executeUpdate();
+        return entityManager.createNativeQuery(read).setParameter("run", runId).getResultList();
     }
 
     /** The run's summary without its measurands (for a page's heading). */
@@ -210,6 +237,16 @@ public class EvaluationReview {
                 o.sigmaPtMethod(), o.sigmaPtSource(), o.scoreUsed(), o.scoreUsedReason(), o.median(), o.madE(),
                 o.nIqr(), o.robustMean(), o.robustSd(), o.iterations(), o.converged(), o.warnings(),
                 o.methodGroups(), scores, o.rules());
+    }
+
+    /** The keys of the run's measurands in plan order ({@code Cr-A}, {@code Mn-A}, …). */
+    @Transactional
+    public List<String> keys(long roundId, int version) {
+        @SuppressWarnings("unchecked")
+        List<Object[]> found = entityManager.createNativeQuery(
+                        "SELECT element, item_label FROM measurand_evaluation WHERE run_id = :run ORDER BY position")
+                .setParameter("run", runId(roundId, version)).getResultList();
+        return found.stream().map(f -> key((String) f[0], (String) f[1])).toList();
     }
 
     /** Whether the run has more than one item (report sections are then named element-item). */

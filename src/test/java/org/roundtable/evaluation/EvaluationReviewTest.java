@@ -172,7 +172,8 @@ class EvaluationReviewTest {
         String first = coordinator.request().get(path).then().statusCode(200).extract().asString();
         int size = display.pageSize();
         assertThat(first).contains("Rows 1–" + size + " of 10000.").contains("Page 1 of " + (10_000 / size))
-                .contains("P00000").doesNotContain(String.format("P%05d", size));
+                .contains("P00000").doesNotContain(String.format("P%05d", size))
+                .contains("/evaluation/1/measurands/Ab-A\" rel=\"next\"").doesNotContain("rel=\"prev\" id=\"previous-measurand\"");
         String second = coordinator.request().queryParam("page", 2).get(path).then().statusCode(200).extract().asString();
         assertThat(second).contains("Rows " + (size + 1) + "–" + (2 * size) + " of 10000.")
                 .contains(String.format("P%05d", size)).doesNotContain(String.format(">P%05d<", size - 1));
@@ -188,7 +189,7 @@ class EvaluationReviewTest {
         // for reading only (speed is shown by benchmarks, never asserted): the second answer of each page, warm
         long summaryMillis = coordinator.request().get("/rounds/" + round + "/evaluation/1").time();
         long measurandMillis = coordinator.request().get(path).time();
-        System.out.printf("[page times] summary %d ms, measurand page %d ms (test machine, warm)%n", summaryMillis,
+        System.out.printf("[page times] summary %d ms, measurand page %d ms (test machine, second view: the verdict counts kept from the first)%n", summaryMillis,
                 measurandMillis);
         assertThat(summary.length()).as("summary page size").isLessThan(300 * 1024);
         assertThat(first.length()).as("measurand page size").isLessThan(100 * 1024);

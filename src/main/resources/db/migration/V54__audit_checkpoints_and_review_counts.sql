@@ -27,3 +27,24 @@ CREATE TRIGGER audit_checkpoint_is_append_only
 CREATE INDEX audit_event_actor_idx ON audit_event (actor, sequence_no);
 CREATE INDEX audit_event_action_idx ON audit_event (action, sequence_no);
 CREATE INDEX audit_event_object_idx ON audit_event (object_type, object_id, sequence_no);
+
+-- The evaluation review's summary counts each measurand's results by verdict. A run never changes, so the counts
+-- are taken once, on the first view of the run's summary (one pass over its scores, 500,000 rows for 10,000
+-- laboratories x 50 measurands), and read from here afterwards: every later view reads one row per measurand.
+CREATE TABLE measurand_verdict_count (
+    run_id          bigint       NOT NULL REFERENCES evaluation_run (id),
+    element         varchar(2)   NOT NULL,
+    item_label      varchar(8)   NOT NULL,
+    results         bigint       NOT NULL,
+    satisfactory    bigint       NOT NULL,
+    questionable    bigint       NOT NULL,
+    unsatisfactory  bigint       NOT NULL,
+    unclassified    bigint       NOT NULL,
+    excluded        bigint       NOT NULL,
+    PRIMARY KEY (run_id, element, item_label)
+);
+
+REVOKE UPDATE, DELETE, TRUNCATE ON measurand_verdict_count FROM ${appRole};
+CREATE TRIGGER measurand_verdict_count_is_append_only
+    BEFORE UPDATE OR DELETE ON measurand_verdict_count
+    FOR EACH ROW EXECUTE FUNCTION refuse_change_of_append_only_row();
