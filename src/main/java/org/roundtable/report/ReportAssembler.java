@@ -331,7 +331,6 @@ public class ReportAssembler {
                         : o.rules().decimalsOfScores());
     }
 
-
     private static double nan(Double value) {
         return value == null ? Double.NaN : value;
     }
