@@ -71,11 +71,35 @@ public final class AuditChain {
 
     /** Checks entries fed in ascending sequence order; stops at the first problem. Not thread-safe. */
     public static final class Verifier {
-        private long expectedSequence = 1;
-        private String previousHash = GENESIS;
+        private long expectedSequence;
+        private String previousHash;
         private long checked;
         private Long brokenAt;
         private String problem;
+
+        /** A verifier of the whole chain, from entry 1. */
+        public Verifier() {
+            this(0, GENESIS);
+        }
+
+        /**
+         * A verifier that carries on after entry {@code verifiedTo}, already found intact with hash
+         * {@code verifiedHash} (a checkpoint; 0 and {@link #GENESIS} for the start of the chain).
+         */
+        public Verifier(long verifiedTo, String verifiedHash) {
+            this.expectedSequence = verifiedTo + 1;
+            this.previousHash = verifiedHash;
+        }
+
+        /** The last entry found intact so far (0 before the first). */
+        public long verifiedTo() {
+            return expectedSequence - 1;
+        }
+
+        /** The hash of {@link #verifiedTo()} ({@link #GENESIS} before the first entry). */
+        public String verifiedHash() {
+            return previousHash;
+        }
 
         /** @return false once a problem has been found (further entries are ignored) */
         public boolean accept(AuditEntry e) {

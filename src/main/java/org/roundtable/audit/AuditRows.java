@@ -44,6 +44,43 @@ public final class AuditRows {
         return verifier.result(expectedHead);
     }
 
+    /**
+     * How far one bounded pass of the verification got: its outcome (entries checked in this pass), the last entry
+     * found intact and its hash, and whether entries after the pass remain unchecked.
+     */
+    public record Pass(AuditChain.Verification verification, long verifiedTo, String verifiedHash, boolean more) {
+    }
+
+    /**
+     * Verifies at most {@code limit} entries after entry {@code verifiedTo} (found intact earlier with hash
+     * {@code verifiedHash}), in sequence order, on {@code connection} inside its current transaction: the
+     * incremental check from a checkpoint. An entry changed at or before {@code verifiedTo} is not seen here; the
+     * full check ({@link #verify}) sees it.
+     */
+    public static Pass verifyAfter(Connection connection, long verifiedTo, String verifiedHash, int limit)
+            throws SQLException {
+        AuditChain.Verifier verifier = new AuditChain.Verifier(verifiedTo, verifiedHash);
+        int read = 0;
+        // one entry more than the limit tells whether more remain
+        try (PreparedStatement statement = connection.prepareStatement(SELECT_COLUMNS
+                + " WHERE sequence_no > ? ORDER BY sequence_no LIMIT ?")) {
+            statement.setLong(1, verifiedTo);
+            statement.setInt(2, limit + 1);
+            try (ResultSet rs = statement.executeQuery()) {
+                while (rs.next()) {
+                    if (++read > limit) {
+                        break;
+                    }
+                    if (!verifier.accept(read(rs))) {
+                        break;
+                    }
+                }
+            }
+        }
+        AuditChain.Verification outcome = verifier.result(null);
+        return new Pass(outcome, verifier.verifiedTo(), verifier.verifiedHash(), outcome.intact() && read > limit);
+    }
+
     static AuditEntry read(ResultSet rs) throws SQLException {
         long lab = rs.getLong(5);
         Long laboratoryId = rs.wasNull() ? null : lab;

@@ -393,6 +393,36 @@ public class EvaluationExports {
         return found;
     }
 
+    /**
+     * The expanded uncertainties (and k) that run {@code runId} read for one measurand of one item, by
+     * {@link #uncertaintyKey}; for a chart of one measurand without reading the whole round.
+     */
+    @Transactional
+    public Map<String, ReportedUncertainty> uncertaintiesReadBy(long roundId, long runId, String element,
+                                                                String itemLabel) {
+        @SuppressWarnings("unchecked")
+        List<Object[]> found = entityManager.createNativeQuery("""
+                SELECT rp.participant_code, rr.expanded_uncertainty, rr.coverage_factor
+                  FROM submission s
+                  JOIN LATERAL (SELECT v.id FROM submission_revision v
+                                 WHERE v.submission_id = s.id
+                                   AND v.submitted_at <= (SELECT created_at FROM evaluation_run WHERE id = :run)
+                                 ORDER BY v.revision DESC LIMIT 1) sr ON true
+                  JOIN reported_result rr ON rr.revision_id = sr.id AND rr.element = :e AND rr.item_label = :i
+                  JOIN round_participant rp ON rp.round_id = s.round_id AND rp.laboratory_id = s.laboratory_id
+                 WHERE s.round_id = :r AND rr.expanded_uncertainty IS NOT NULL
+                """).setParameter("r", roundId).setParameter("run", runId).setParameter("e", element)
+                .setParameter("i", itemLabel).getResultList();
+        Map<String, ReportedUncertainty> uncertainties = new HashMap<>();
+        for (Object[] f : found) {
+            BigDecimal u = decimal(f[1]);
+            BigDecimal k = decimal(f[2]);
+            uncertainties.put(uncertaintyKey(element, itemLabel, (String) f[0]),
+                    new ReportedUncertainty(u.doubleValue(), k == null ? null : k.doubleValue()));
+        }
+        return uncertainties;
+    }
+
     /** The key of {@link #uncertaintiesReadBy}: element, item label and participant code. */
     public static String uncertaintyKey(String element, String itemLabel, String participantCode) {
         return element + "\u0000" + itemLabel + "\u0000" + participantCode;

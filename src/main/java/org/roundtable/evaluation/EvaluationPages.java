@@ -15,14 +15,12 @@ import jakarta.ws.rs.core.MediaType;
 import jakarta.ws.rs.core.Response;
 import org.roundtable.account.CurrentUser;
 import org.roundtable.account.Role;
+import org.roundtable.platform.DisplaySettings;
 import org.roundtable.platform.DomainException;
 import org.roundtable.platform.NumberFormats;
 import org.roundtable.scheme.RoundAccess;
 import org.roundtable.scheme.RoundState;
 
-import java.math.BigDecimal;
-import java.math.MathContext;
-import java.math.RoundingMode;
 import java.net.URI;
 import java.util.ArrayList;
 import java.util.Collections;
@@ -30,37 +28,15 @@ import java.util.List;
 import java.util.Locale;
 
 /**
- * Pages for coordinators: the evaluation runs of a round (start a preview or a run, list the versions) and one run
- * in full — per measurand how x_pt and σpt were set, the robust and method-group statistics, the warnings, and every
- * participant's scores by participant code. Laboratories never reach these pages.
+ * Pages for coordinators: the evaluation runs of a round (start a preview or a run, list the versions), one run in
+ * summary (a row per measurand), and one measurand of a run for review before the report — how x_pt and σpt were
+ * set, the robust and method-group statistics, the warnings, the exclusions, the scores a page at a time and the
+ * report's charts (drawn by {@code report.ReviewCharts}). Laboratories never reach these pages.
  */
 @Path("/")
 @Produces(MediaType.TEXT_HTML)
 @RolesAllowed(Role.COORDINATOR_NAME)
 public class EvaluationPages {
-
-    /** A run view with numbers formatted for reading (the API keeps the exact values). */
-    public record RunPage(EvaluationViews.RunSummary run, List<MeasurandRows> measurands) {
-    }
-
-    /** One measurand of a run, formatted. */
-    public record MeasurandRows(EvaluationViews.MeasurandOutcome outcome, String assignedValue,
-                                String assignedValueUncertainty, String sigmaPt, String median, String madE,
-                                String nIqr, String robustMean, String robustSd, List<GroupRow> groups,
-                                List<ScoreRow> scores) {
-        public String anchor() {
-            return outcome.element() + "-" + outcome.itemLabel();
-        }
-    }
-
-    /** One method group, formatted. */
-    public record GroupRow(String methodGroup, int n, String median, String robustMean, String robustSd) {
-    }
-
-    /** One participant's result and scores, formatted; {@code tone} is a CSS class for the classification. */
-    public record ScoreRow(String participantCode, String reported, String methodGroup, String z, String zPrime,
-                           String zeta, String en, String classification, String tone, String excludedReason) {
-    }
 
     @CheckedTemplate(basePath = "evaluation")
     static class Templates {
@@ -68,22 +44,83 @@ public class EvaluationPages {
                                             boolean previewAllowed, boolean runAllowed, EvaluationJobs.JobView job,
                                             String error);
 
-        static native TemplateInstance run(RoundAccess.SubmissionWindow round, RunPage page);
+        static native TemplateInstance run(RoundAccess.SubmissionWindow round, EvaluationReview.Overview page);
+
+        static native TemplateInstance measurand(RoundAccess.SubmissionWindow round, MeasurandPage page);
 
         static native TemplateInstance progress(EvaluationJobs.JobView job);
     }
+
+    /**
+     * One measurand of a run for review: its outcome (no scores), reporting and score digits, one page of its
+     * scores with the search and verdict filter that chose them, the first results left out of the statistics, and
+     * the addresses of the charts the report will carry.
+     */
+    public record MeasurandPage(EvaluationViews.RunSummary run, String key, EvaluationViews.MeasurandOutcome outcome,
+                                int digits, int scoreDecimals, boolean informationOnly,
+                                EvaluationReview.ScorePage scores, String query, String verdict,
+                                EvaluationReview.ScorePage exclusions, List<Chart> charts, String previous,
+                                String next) {
+
+        /** The page's address, for the pager and the filter. */
+        public String path() {
+            return "/rounds/" + run.roundId() + "/evaluation/" + run.version() + "/measurands/" + key;
+        }
+
+        /** Why the score was chosen, with the symbols as people write them. */
+        public String scoreUsedReason() {
+            String reason = outcome.scoreUsedReason();
+            return reason == null ? "" : NumberFormats.minusSigns(reason.replace("sigma_pt", "σpt")
+                    .replace("<=", "≤").replace(">=", "≥"));
+        }
+
+        /** The verdict filter's choices. */
+        public List<FilterChoice> choices() {
+            return filterChoices();
+        }
+
+        /** The query string of the current search and filter, after {@code page=N} ({@code &q=..&verdict=..}). */
+        public String filterQuery() {
+            StringBuilder q = new StringBuilder();
+            if (query != null && !query.isBlank()) {
+                q.append("&q=").append(java.net.URLEncoder.encode(query, java.nio.charset.StandardCharsets.UTF_8));
+            }
+            if (verdict != null && !verdict.isBlank()) {
+                q.append("&verdict=").append(verdict);
+            }
+            return q.toString();
+        }
+    }
+
+    /** A chart of the report as an image resource: its address, its width and height, what it shows. */
+    public record Chart(String kind, String src, int width, int height, String alt) {
+    }
+
+    /** The chart kinds a measurand's section of the report carries, in the report's order. */
+    public static final List<String> CHART_KINDS = List.of("score-bars", "density", "uncertainty-bars");
+
+    /** The verdict filters offered above the scores, by query value, with their labels. */
+    public record FilterChoice(String value, String label) {
+    }
+
+    /** Rows of results left out of the statistics shown on the measurand page before the scores. */
+    static final int EXCLUSIONS_SHOWN = 20;
 
     private final EvaluationService evaluations;
     private final EvaluationJobs jobs;
     private final RoundAccess rounds;
     private final CurrentUser currentUser;
+    private final EvaluationReview review;
+    private final DisplaySettings display;
 
     public EvaluationPages(EvaluationService evaluations, EvaluationJobs jobs, RoundAccess rounds,
-                           CurrentUser currentUser) {
+                           CurrentUser currentUser, EvaluationReview review, DisplaySettings display) {
         this.evaluations = evaluations;
         this.jobs = jobs;
         this.rounds = rounds;
         this.currentUser = currentUser;
+        this.review = review;
+        this.display = display;
     }
 
     /**
@@ -125,12 +162,64 @@ public class EvaluationPages {
         return finished ? answer.header("HX-Refresh", "true").build() : answer.build();
     }
 
+    /**
+     * A run in summary: per measurand x_pt, σpt and how each was set, u(x_pt), the number of results and the
+     * verdicts counted, the warnings, and a link to the measurand's own page. No per-laboratory rows: the page is
+     * as small for 10,000 laboratories as for ten.
+     */
     @GET
     @Path("rounds/{roundId}/evaluation/{version}")
     public TemplateInstance run(@PathParam("roundId") long roundId, @PathParam("version") int version) {
         RoundAccess.SubmissionWindow round = rounds.window(roundId);
-        EvaluationViews.Run run = evaluations.run(roundId, version);
-        return Templates.run(round, new RunPage(run.run(), run.measurands().stream().map(EvaluationPages::rows).toList()));
+        return Templates.run(round, review.overview(roundId, version));
+    }
+
+    /**
+     * One measurand of a run: its robust statistics, warnings, method groups, the results left out with their
+     * reasons, its scores a page at a time (by participant code; {@code q} searches the code, {@code verdict}
+     * filters) and the charts its section of the report will carry.
+     */
+    @GET
+    @Path("rounds/{roundId}/evaluation/{version}/measurands/{measurandId}")
+    public TemplateInstance measurand(@PathParam("roundId") long roundId, @PathParam("version") int version,
+                                      @PathParam("measurandId") String measurandId, @QueryParam("page") Integer page,
+                                      @QueryParam("q") String query, @QueryParam("verdict") String verdict) {
+        RoundAccess.SubmissionWindow round = rounds.window(roundId);
+        EvaluationViews.RunSummary run = review.summaryOf(roundId, version);
+        EvaluationViews.MeasurandOutcome outcome = review.measurand(roundId, version, measurandId);
+        String key = EvaluationReview.key(outcome.element(), outcome.itemLabel());
+        EvaluationReview.ScoreFilter filter = EvaluationReview.ScoreFilter.of(verdict);
+        String search = query == null ? "" : query.strip();
+        if (search.length() > 16) {
+            search = search.substring(0, 16); // participant codes are at most 16 characters
+        }
+        EvaluationReview.ScorePage scores = review.scores(roundId, version, key, search, filter, page,
+                display.pageSize());
+        EvaluationReview.ScorePage exclusions = outcome.excluded() == 0 ? null : review.scores(roundId, version, key,
+                null, EvaluationReview.ScoreFilter.EXCLUDED, 1, EXCLUSIONS_SHOWN);
+        int decimals = outcome.rules() == null ? NumberFormats.DEFAULT_SCORE_DECIMALS : outcome.rules().decimalsOfScores();
+        boolean informationOnly = outcome.rules() != null && outcome.rules().informationOnly();
+        String base = "/rounds/" + roundId + "/evaluation/" + version + "/measurands/" + key + "/charts/";
+        String title = outcome.element() + ", item " + outcome.itemLabel();
+        List<Chart> charts = List.of(
+                new Chart("score-bars", base + "score-bars.svg", 640, 220,
+                        "Scores of " + title + " from lowest to highest, with the action and warning lines"),
+                new Chart("density", base + "density.svg", 640, 220,
+                        "Kernel density of the results of " + title + ", with the assigned value and ± 2σpt"),
+                new Chart("uncertainty-bars", base + "uncertainty-bars.svg", 640, 220,
+                        "Results of " + title + " in increasing order with their expanded uncertainties"));
+        List<String> keys = review.keys(roundId, version);
+        int at = keys.indexOf(key);
+        return Templates.measurand(round, new MeasurandPage(run, key, outcome, review.digits(roundId,
+                outcome.element()), decimals, informationOnly, scores, search, filter == null ? ""
+                : filter.name().toLowerCase(Locale.ROOT).replace('_', '-'), exclusions, charts,
+                at > 0 ? keys.get(at - 1) : null, at >= 0 && at < keys.size() - 1 ? keys.get(at + 1) : null));
+    }
+
+    /** The verdict filter's choices (query value and label). */
+    public static List<FilterChoice> filterChoices() {
+        return java.util.Arrays.stream(EvaluationReview.ScoreFilter.values()).map(f -> new FilterChoice(
+                f.name().toLowerCase(Locale.ROOT).replace('_', '-'), org.roundtable.platform.Labels.of(f))).toList();
     }
 
     private TemplateInstance runsPage(long roundId, EvaluationJobs.JobView job, String error) {
@@ -140,59 +229,5 @@ public class EvaluationPages {
         List<EvaluationViews.RunSummary> newestFirst = new ArrayList<>(evaluations.runs(roundId));
         Collections.reverse(newestFirst);
         return Templates.runs(round, newestFirst, closed || state == RoundState.OPEN_FOR_RESULTS, closed, job, error);
-    }
-
-    static MeasurandRows rows(EvaluationViews.MeasurandOutcome o) {
-        List<GroupRow> groups = o.methodGroups().stream().map(g -> new GroupRow(g.methodGroup(), g.n(),
-                figure(g.median()), figure(g.robustMean()), figure(g.robustSd()))).toList();
-        int decimals = o.rules() == null ? NumberFormats.DEFAULT_SCORE_DECIMALS : o.rules().decimalsOfScores();
-        boolean informationOnly = o.rules() != null && o.rules().informationOnly();
-        List<ScoreRow> scores = o.scores().stream().map(s -> new ScoreRow(s.participantCode(), s.reported(),
-                s.methodGroup(), score(s.z(), decimals), score(s.zPrime(), decimals), score(s.zeta(), decimals),
-                score(s.en(), decimals), s.classification() != null
-                        ? s.classification().toLowerCase(Locale.ROOT).replace('_', ' ')
-                        : informationOnly && (s.z() != null || s.zeta() != null || s.en() != null)
-                        ? "for information only" : "",
-                tone(s.classification()), s.excludedReason())).toList();
-        return new MeasurandRows(o, figure(o.assignedValue()), figure(o.assignedValueUncertainty()),
-                figure(o.sigmaPt()), figure(o.median()), figure(o.madE()), figure(o.nIqr()), figure(o.robustMean()),
-                figure(o.robustSd()), groups, scores);
-    }
-
-    /** Six significant digits for reading; the API and the exports carry the exact values. */
-    static String figure(Double value) {
-        if (value == null) {
-            return "—";
-        }
-        if (value.isNaN() || value.isInfinite()) {
-            return value.toString();
-        }
-        return new BigDecimal(value).round(new MathContext(6, RoundingMode.HALF_UP)).stripTrailingZeros()
-                .toPlainString().replace('-', '−');
-    }
-
-    /**
-     * Scores at the plan's score decimals by the product's number rules (half away from zero from the shortest
-     * decimal form, the figure the classification was made on), with the minus sign.
-     */
-    static String score(Double value, int decimals) {
-        if (value == null) {
-            return "";
-        }
-        return NumberFormats.score(value, decimals);
-    }
-
-    private static String tone(String classification) {
-        if (classification == null) {
-            return "";
-        }
-        String c = classification.toUpperCase(Locale.ROOT);
-        if (c.startsWith("UNSATISFACTORY") || c.startsWith("INCONSISTENT")) {
-            return "status-bad";
-        }
-        if (c.startsWith("QUESTIONABLE")) {
-            return "status-warn";
-        }
-        return c.startsWith("SATISFACTORY") || c.startsWith("CONSISTENT") ? "status-ok" : "";
     }
 }

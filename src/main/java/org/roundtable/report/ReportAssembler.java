@@ -5,6 +5,7 @@ import jakarta.persistence.EntityManager;
 import jakarta.transaction.Transactional;
 import org.eclipse.microprofile.config.inject.ConfigProperty;
 import org.roundtable.evaluation.EvaluationExports;
+import org.roundtable.evaluation.EvaluationReview;
 import org.roundtable.evaluation.EvaluationService;
 import org.roundtable.evaluation.EvaluationViews;
 import org.roundtable.platform.DomainException;
@@ -63,6 +64,7 @@ public class ReportAssembler {
             + "accreditation body.";
 
     private final EvaluationService evaluations;
+    private final EvaluationReview review;
     private final EvaluationExports exports;
     private final RoundService rounds;
     private final RoundAccess roundAccess;
@@ -74,7 +76,8 @@ public class ReportAssembler {
     private final java.util.Optional<String> providerAddress;
     private final java.util.Optional<String> providerAccreditation;
 
-    public ReportAssembler(EvaluationService evaluations, EvaluationExports exports, RoundService rounds,
+    public ReportAssembler(EvaluationService evaluations, EvaluationReview review, EvaluationExports exports,
+                           RoundService rounds,
                            RoundAccess roundAccess,
                            SchemeService schemes, PlanStore plans, QualificationService qualification,
                            EntityManager entityManager,
@@ -86,6 +89,7 @@ public class ReportAssembler {
         this.providerAddress = providerAddress;
         this.providerAccreditation = providerAccreditation;
         this.evaluations = evaluations;
+        this.review = review;
         this.exports = exports;
         this.rounds = rounds;
         this.roundAccess = roundAccess;
@@ -180,39 +184,13 @@ public class ReportAssembler {
             firstSectionOfElement.putIfAbsent(o.element(), id);
             Measurand m = catalogue.get(o.element());
             int digits = m == null ? 3 : m.reportingDigits;
-            ScoreKind kind = scoreKind(o.scoreUsed());
-            List<ParticipantResult> results = new ArrayList<>();
             for (EvaluationViews.Score s : o.scores()) {
                 laboratories.put(s.participantCode(), s.laboratoryId());
-                boolean lessThan = s.reported() != null && s.reported().strip().startsWith("<");
-                Classification classification = classification(s.classification());
-                boolean excluded = s.excludedReason() != null;
-                boolean late = excluded && s.excludedReason().startsWith("late result");
-                if (excluded) {
+                if (s.excludedReason() != null) {
                     exclusions.add(new Exclusion(s.participantCode(), id, s.excludedReason()));
                 }
-                EvaluationExports.ReportedUncertainty u = uncertainties.get(
-                        EvaluationExports.uncertaintyKey(o.element(), o.itemLabel(), s.participantCode()));
-                results.add(new ParticipantResult(s.participantCode(), o.itemLabel(), s.reported(),
-                        s.value() == null ? Double.NaN : s.value(), o.unit(), u == null ? null : u.expandedUncertainty(),
-                        u == null ? null : u.coverageFactor(), s.methodGroup(),
-                        s.z(), s.zPrime(), s.zeta(), s.en(), classification, lessThan,
-                        lessThan && classification == null && s.classification() != null ? s.classification() : "",
-                        excluded, excluded ? s.excludedReason() : "", late));
             }
-            List<MethodGroupStatistics> groups = o.methodGroups().stream()
-                    .map(g -> new MethodGroupStatistics(g.methodGroup(), g.n(), nan(g.median()), g.robustMean(), g.robustSd()))
-                    .toList();
-            RobustStatistics robust = new RobustStatistics("Algorithm A (ISO 13528:2015, C.3.1)", nan(o.robustMean()),
-                    nan(o.robustSd()), nan(o.median()), nan(o.madE()), nan(o.nIqr()),
-                    o.iterations() == null ? 0 : o.iterations(), Boolean.TRUE.equals(o.converged()));
-            sections.add(new MeasurandSection(id, o.element(), manyItems ? o.itemLabel() : "", o.unit(), digits, o.n(),
-                    nan(o.assignedValue()), assignedValueWords(o.assignedValueMethod()), nan(o.assignedValueUncertainty()),
-                    nan(o.sigmaPt()), sigmaPtWords(o.sigmaPtMethod(), o.sigmaPtSource()), robust, groups,
-                    o.warnings().stream().map(EvaluationViews.Warning::message).toList(), kind,
-                    o.scoreUsedReason(), results,
-                    o.rules() == null ? org.roundtable.platform.NumberFormats.DEFAULT_SCORE_DECIMALS
-                            : o.rules().decimalsOfScores()));
+            sections.add(section(o, id, manyItems, digits, uncertainties));
         }
 
         List<ItemCheck> checks = new ArrayList<>();
@@ -296,6 +274,61 @@ public class ReportAssembler {
         RoundReport report = new RoundReport(id, schemeInfo, roundInfo, item, sections, pairs, notes,
                 coordinatorComments, signatures, CONFIDENTIALITY, new InterpretationAdvice(advice));
         return new Assembled(report, runId, laboratories);
+    }
+
+    /**
+     * The report's section of one measurand ({@code Cr-A}) of run {@code version} of the round — previews
+     * included, for the coordinator's review — built as {@link #assemble} builds it, from that measurand's rows
+     * only (its scores and the uncertainties the run read for it). 404 for a run or measurand that does not exist.
+     */
+    @Transactional
+    public MeasurandSection reviewSection(long roundId, int version, String measurandKey) {
+        EvaluationViews.MeasurandOutcome o = review.measurandWithScores(roundId, version, measurandKey);
+        long runId = review.runId(roundId, version);
+        boolean manyItems = review.manyItems(roundId, version);
+        String id = manyItems ? o.element() + "-" + o.itemLabel() : o.element();
+        return section(o, id, manyItems, review.digits(roundId, o.element()),
+                exports.uncertaintiesReadBy(roundId, runId, o.element(), o.itemLabel()));
+    }
+
+    /**
+     * The report's section of one measurand of a run, as the round report carries it (the charts of the
+     * coordinator's review are drawn from this section, so they are the report's charts).
+     *
+     * @param id            the section's id ({@code Cr}, or {@code Cr-A} when the run has several items)
+     * @param uncertainties the expanded uncertainties the run read, by {@link EvaluationExports#uncertaintyKey}
+     */
+    static MeasurandSection section(EvaluationViews.MeasurandOutcome o, String id, boolean manyItems, int digits,
+                                    Map<String, EvaluationExports.ReportedUncertainty> uncertainties) {
+        ScoreKind kind = scoreKind(o.scoreUsed());
+        List<ParticipantResult> results = new ArrayList<>();
+        for (EvaluationViews.Score s : o.scores()) {
+            boolean lessThan = s.reported() != null && s.reported().strip().startsWith("<");
+            Classification classification = classification(s.classification());
+            boolean excluded = s.excludedReason() != null;
+            boolean late = excluded && s.excludedReason().startsWith("late result");
+            EvaluationExports.ReportedUncertainty u = uncertainties.get(
+                    EvaluationExports.uncertaintyKey(o.element(), o.itemLabel(), s.participantCode()));
+            results.add(new ParticipantResult(s.participantCode(), o.itemLabel(), s.reported(),
+                    s.value() == null ? Double.NaN : s.value(), o.unit(), u == null ? null : u.expandedUncertainty(),
+                    u == null ? null : u.coverageFactor(), s.methodGroup(),
+                    s.z(), s.zPrime(), s.zeta(), s.en(), classification, lessThan,
+                    lessThan && classification == null && s.classification() != null ? s.classification() : "",
+                    excluded, excluded ? s.excludedReason() : "", late));
+        }
+        List<MethodGroupStatistics> groups = o.methodGroups().stream()
+                .map(g -> new MethodGroupStatistics(g.methodGroup(), g.n(), nan(g.median()), g.robustMean(), g.robustSd()))
+                .toList();
+        RobustStatistics robust = new RobustStatistics("Algorithm A (ISO 13528:2015, C.3.1)", nan(o.robustMean()),
+                nan(o.robustSd()), nan(o.median()), nan(o.madE()), nan(o.nIqr()),
+                o.iterations() == null ? 0 : o.iterations(), Boolean.TRUE.equals(o.converged()));
+        return new MeasurandSection(id, o.element(), manyItems ? o.itemLabel() : "", o.unit(), digits, o.n(),
+                nan(o.assignedValue()), assignedValueWords(o.assignedValueMethod()), nan(o.assignedValueUncertainty()),
+                nan(o.sigmaPt()), sigmaPtWords(o.sigmaPtMethod(), o.sigmaPtSource()), robust, groups,
+                o.warnings().stream().map(EvaluationViews.Warning::message).toList(), kind,
+                o.scoreUsedReason(), results,
+                o.rules() == null ? org.roundtable.platform.NumberFormats.DEFAULT_SCORE_DECIMALS
+                        : o.rules().decimalsOfScores());
     }
 
     private static double nan(Double value) {

@@ -17,8 +17,9 @@ import java.net.URL;
 import static org.assertj.core.api.Assertions.assertThat;
 
 /**
- * A coordinator previews the evaluation of a round that is still open, in Chromium, and reads the run: x_pt, σpt
- * and the participants' scores by code. A laboratory member is refused the same pages.
+ * A coordinator previews the evaluation of a round that is still open, in Chromium, and reviews the run: the
+ * summary per measurand, then the measurand's page with its statistics, the report's charts and the scores by code
+ * (filtered by verdict). A laboratory member is refused the same pages.
  */
 @QuarkusTest
 class EvaluationPagesBrowserTest {
@@ -76,13 +77,41 @@ class EvaluationPagesBrowserTest {
         Browser.waitFor(browser, By.id("job-version")).click();
         Browser.waitForUrl(browser, url -> url.endsWith("/evaluation/1"));
 
+        // the version page: one row per measurand, no per-laboratory rows
         String page = browser.findElement(By.id("content")).getText();
         assertThat(page).contains("evaluation version 1 (preview)").contains("for coordinators only")
                 .contains("Consensus of all participants").contains("Fixed by the scheme");
-        String scores = browser.findElement(By.cssSelector("section.measurand table.scores")).getText();
-        assertThat(scores.lines().filter(l -> l.contains("Spark OES")).count()).isEqualTo(values.length);
-        assertThat(scores).contains("unsatisfactory").contains("satisfactory");
+        String summary = browser.findElement(By.id("measurands")).getText();
+        assertThat(summary).contains("Cr, item A");
+        assertThat(browser.findElements(By.cssSelector("#measurands tbody tr"))).hasSize(1);
+        Browser.screenshot(browser, "coordinator/30-evaluation-summary");
+
+        // the measurand's page: statistics, the report's charts as images, the scores a page at a time
+        browser.findElement(By.cssSelector("a.measurand-link")).click();
+        Browser.waitForUrl(browser, url -> url.endsWith("/measurands/Cr-A"));
+        assertThat(browser.findElement(By.id("robust")).getText()).contains("Algorithm A x*");
+        assertThat(browser.findElement(By.id("method-groups")).getText()).contains("Spark OES");
+        java.util.List<org.openqa.selenium.WebElement> charts = browser.findElements(By.cssSelector("#charts img"));
+        assertThat(charts).hasSize(3);
+        new org.openqa.selenium.support.ui.WebDriverWait(browser, java.time.Duration.ofSeconds(20)).until(d ->
+                charts.stream().allMatch(img -> Boolean.TRUE.equals(((org.openqa.selenium.JavascriptExecutor) d)
+                        .executeScript("return arguments[0].complete && arguments[0].naturalWidth > 0", img))));
+        String scores = browser.findElement(By.id("score-table")).getText();
+        assertThat(scores.lines().filter(l -> l.contains("Spark OES")).count()).isBetween(1L, (long) values.length);
+        assertThat(browser.findElement(By.cssSelector("nav.pager")).getText()).contains("of " + values.length + ".");
+        // the far-off result alone, by the verdict filter
+        new org.openqa.selenium.support.ui.Select(browser.findElement(By.id("verdict"))).selectByValue("unsatisfactory");
+        Browser.submit(browser, By.cssSelector("form.filters button"));
+        assertThat(browser.findElement(By.id("score-table")).getText()).contains("18.95").contains("Unsatisfactory")
+                .doesNotContain("18.12");
+        browser.get(base + "rounds/" + round + "/evaluation/1/measurands/Cr-A");
+        ((org.openqa.selenium.JavascriptExecutor) browser).executeScript("window.scrollTo(0, 0)");
+        Browser.screenshot(browser, "coordinator/31-measurand-review");
         Browser.screenshot(browser, "evaluation-run");
+        ((org.openqa.selenium.JavascriptExecutor) browser).executeScript("document.getElementById('charts').scrollIntoView()");
+        Browser.screenshot(browser, "coordinator/31b-measurand-charts");
+        ((org.openqa.selenium.JavascriptExecutor) browser).executeScript("document.getElementById('scores').scrollIntoView()");
+        Browser.screenshot(browser, "coordinator/31c-measurand-scores");
 
         browser.get(base + "rounds/" + round + "/evaluation");
         assertThat(browser.findElement(By.id("runs")).getText()).contains("preview");

@@ -309,6 +309,8 @@ class AuthorizationMatrixTest {
                 int version = evaluations.run(round, true, new org.roundtable.audit.Actor("matrix", "coordinator", null))
                         .run().version();
                 resolved = resolved.replace("{version}", Integer.toString(version));
+                // the measurand of the simple plan's one item; a chart of the report's section
+                resolved = resolved.replace("{measurandId}", "Cr-A").replace("{kind}", "score-bars");
             }
             if (resolved.contains("{exclusionId}")) {
                 // a current blunder mark on laboratory A's Cr result
