@@ -39,7 +39,7 @@ import org.roundtable.submission.DemoSubmissions;
  *   <li>Aluminium: one past round with its final report.</li>
  * </ul>
  *
- * Problems planted where a user would meet them: carbon by spark OES reads about 0.012 % higher than by
+ * Problems planted where a user would meet them: carbon by spark OES reads about 0.02 % higher than by
  * combustion (a method-group difference, flagged); in the second round Dunmore enters sulfur in mg/kg as % ("84"
  * instead of 0.0084) and confirms the range warning — an outlier; in the third round Salzach slips a decimal in Mn;
  * in the first round Mures reports five hours late (flagged, not scored); in the second round Ebro does not report;
@@ -246,7 +246,7 @@ public class DemoScenario {
             String method = steelMethod(m.element(), lab);
             double value = lot + sigma * (0.35 * gaussian(lab, e, -1) + 0.55 * gaussian(lab, e, r));
             if (m.element().equals("C")) {
-                value += method.equals("combustion") ? -0.004 : 0.008;
+                value += method.equals("combustion") ? -0.008 : 0.012;
             }
             if (m.element().equals("Mn") && lab == DRIFTING_LAB) {
                 value = lot + DRIFT_MN[r];

@@ -102,7 +102,7 @@ class DemoScenarioStepsTest {
                     nSpark++;
                 }
             }
-            assertThat(spark / nSpark - combustion / nCombustion).as("round " + r).isGreaterThan(0.008);
+            assertThat(spark / nSpark - combustion / nCombustion).as("round " + r).isGreaterThan(0.010);
         }
     }
 
