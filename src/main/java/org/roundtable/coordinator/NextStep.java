@@ -23,4 +23,17 @@ import java.time.OffsetDateTime;
 public record NextStep(long roundId, String roundCode, String schemeName, String state, String kind, String heading,
                        String detail, String actionLabel, String actionPath, OffsetDateTime due, String dueZone,
                        boolean needsMe, boolean finished, int order) {
+
+    /**
+     * Whether the step is taken on the page {@code page} of the round ({@code round}, {@code plan}, {@code evaluation},
+     * {@code reports}, {@code submissions}), so that the page need not link to itself.
+     */
+    public boolean takenOn(String page) {
+        if (actionPath == null || page == null) {
+            return false;
+        }
+        String path = actionPath.contains("#") ? actionPath.substring(0, actionPath.indexOf('#')) : actionPath;
+        String round = "/rounds/" + roundId;
+        return "round".equals(page) ? path.equals(round) : path.equals(round + "/" + page);
+    }
 }

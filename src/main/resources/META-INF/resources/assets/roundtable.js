@@ -38,7 +38,17 @@
       inputs.hidden = !shown;
     });
   }
+  function include(row) {
+    var box = row.querySelector("input[type=checkbox][name$='.include']");
+    if (box) {
+      row.classList.toggle("plan-row-off", !box.checked);
+    }
+  }
   function start() {
+    document.querySelectorAll(".plan-row").forEach(function (row) {
+      include(row);
+      row.addEventListener("change", function () { include(row); });
+    });
     document.querySelectorAll(".plan-row [data-part]").forEach(function (part) {
       refresh(part);
       part.addEventListener("change", function () { refresh(part); });
