@@ -71,6 +71,16 @@ class CoordinatorBrowserTest {
     void aCoordinatorBuildsAPlanInTheFormSeesTheMistakeBesideItsFieldAndCopiesThePlanIntoAnotherRound() {
         long lab = world.laboratory();
         long closed = world.round(RoundState.CLOSED, lab);
+        // for the home page: a round whose deadline is near with a result missing, and one evaluated and not reported
+        long second = world.laboratory();
+        long soon = world.round(RoundState.OPEN_FOR_RESULTS, lab, second);
+        world.sql("UPDATE round SET result_deadline = now() + interval '3 days' WHERE id = ?", soon);
+        world.insert("INSERT INTO submission (round_id, laboratory_id, current_revision, created_at, updated_at) "
+                + "VALUES (?, ?, 1, now(), now()) RETURNING id", soon, lab);
+        long evaluated = world.round(RoundState.CLOSED, lab);
+        world.insert("INSERT INTO evaluation_run (round_id, version, preview, round_state, plan_version, plan_sha256, "
+                + "inputs_sha256, outputs_sha256, code_version, created_by, created_at) VALUES (?, 1, false, 'CLOSED', 1, "
+                + "repeat('a', 64), repeat('b', 64), repeat('c', 64), 'test', 'world', now()) RETURNING id", evaluated);
         // a draft round of a scheme with Cr and Mn, without a plan yet, and a second draft round of the same scheme
         long round = world.round(RoundState.DRAFT, World.simplePlan("0.10"), Round.LatePolicy.REFUSE);
         world.sql("UPDATE round SET draft_plan = NULL WHERE id = ?", round);
@@ -86,6 +96,8 @@ class CoordinatorBrowserTest {
         signIn(world.user("coordinator", null));
         assertThat(browser.getCurrentUrl()).endsWith("/coordinator");
         assertThat(browser.findElement(By.tagName("h1")).getText()).isEqualTo("What needs you now");
+        assertThat(browser.findElement(By.id("needs-me")).getText()).contains("Deadline near, results missing")
+                .contains("Closed, not evaluated").contains("Evaluation ready for review").contains("Draft, no plan yet");
         Browser.screenshot(browser, "coordinator/01-home");
 
         // the round page says where the next step is, whatever page it lives on
