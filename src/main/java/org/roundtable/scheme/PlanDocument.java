@@ -118,8 +118,9 @@ public final class PlanDocument {
             case CONSENSUS_METHOD_GROUP -> {
                 MethodGroup group = choice(MethodGroup.class, p.methodGroup(), where, "methodGroup", "method group");
                 if (!groups.contains(group.name())) {
-                    throw where.fail("methodGroup", "method group " + Labels.of(group)
-                            + " is not allowed for this measurand in the catalogue.");
+                    throw where.fail("methodGroup", "method group " + group
+                            + " is not allowed for this measurand in the catalogue.", "method group "
+                            + Labels.of(group) + " is not allowed for this measurand in the catalogue.");
                 }
                 e.put("methodGroup", group.name());
             }
