@@ -124,7 +124,7 @@ public class NextSteps {
                         ? step.needs(80, "freeze-plan", "Draft, plan written",
                         "Check the evaluation plan and freeze it: enrolment opens after that.", "Freeze the plan", steps)
                         : step.needs(80, "write-plan", "Draft, no plan yet",
-                        "Write the evaluation plan: one row per measurand, how x_pt and σpt are found.",
+                        "Write the evaluation plan: for each measurand, how the assigned value and σpt are found.",
                         "Write the evaluation plan", round + "/plan");
             }
             case PLAN_FROZEN -> {
