@@ -126,7 +126,7 @@ public class SignInPage {
     public Response home() {
         String target = currentUser.role().map(role -> switch (role) {
             case ADMIN -> "/admin/users";
-            case COORDINATOR -> "/laboratories";
+            case COORDINATOR -> "/coordinator";
             case LAB_MANAGER -> "/laboratory";
             case AUDITOR -> "/auditor";
             case LAB_MEMBER -> "/laboratory";

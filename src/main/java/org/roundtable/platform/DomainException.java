@@ -63,6 +63,11 @@ public class DomainException extends RuntimeException {
         public BadRequest(String detail) {
             super(400, "Invalid request", detail);
         }
+
+        /** With the specific problems behind it (e.g. the plan entry and field that are wrong). */
+        public BadRequest(String detail, java.util.List<Detail> details) {
+            super(400, "Invalid request", detail, details);
+        }
     }
 
     /** The data is well formed but cannot be accepted. */

@@ -6,6 +6,7 @@ import com.fasterxml.jackson.databind.ObjectMapper;
 import com.fasterxml.jackson.databind.node.ArrayNode;
 import com.fasterxml.jackson.databind.node.ObjectNode;
 import org.roundtable.platform.DomainException;
+import org.roundtable.platform.Labels;
 import org.roundtable.platform.Secrets;
 import org.roundtable.statistics.robust.AlgorithmA;
 import org.roundtable.statistics.robust.QuartileRule;
@@ -66,19 +67,19 @@ public final class PlanDocument {
         List<ObjectNode> entries = new ArrayList<>();
         for (int i = 0; i < plan.measurands().size(); i++) {
             EvaluationPlan.MeasurandPlan p = plan.measurands().get(i);
-            String where = "Plan entry " + (i + 1);
+            Where where = new Where(i + 1, "Plan entry " + (i + 1));
             if (p == null) {
                 throw new DomainException.BadRequest(where + " is empty.");
             }
             String element = ChemicalElement.require(p.element());
             Measurand m = byElement.get(element);
             if (m == null) {
-                throw new DomainException.BadRequest(where + ": " + element + " is not in the scheme's measurand catalogue.");
+                throw where.fail("element", element + " is not in the scheme's measurand catalogue.");
             }
             if (!seen.add(element)) {
-                throw new DomainException.BadRequest(where + ": " + element + " is planned twice.");
+                throw where.fail("element", element + " is planned twice.");
             }
-            entries.add(entry(p, m, where + " (" + element + ")", mapper));
+            entries.add(entry(p, m, new Where(i + 1, where + " (" + element + ")"), mapper));
         }
         entries.sort(Comparator.comparingInt(e -> ChemicalElement.atomicNumber(e.get("element").asText())));
         ObjectNode root = mapper.createObjectNode();
@@ -103,7 +104,7 @@ public final class PlanDocument {
         }
     }
 
-    private static ObjectNode entry(EvaluationPlan.MeasurandPlan p, Measurand m, String where, ObjectMapper mapper) {
+    private static ObjectNode entry(EvaluationPlan.MeasurandPlan p, Measurand m, Where where, ObjectMapper mapper) {
         ObjectNode e = mapper.createObjectNode();
         e.put("element", m.element);
         e.put("unit", m.unit);
@@ -111,30 +112,31 @@ public final class PlanDocument {
         List<String> groups = List.of(m.methodGroups.split(","));
 
         EvaluationPlan.AssignedValueMethod assigned = choice(EvaluationPlan.AssignedValueMethod.class,
-                p.assignedValueMethod(), where, "assigned-value method");
+                p.assignedValueMethod(), where, "assignedValueMethod", "assigned-value method");
         e.put("assignedValueMethod", assigned.name());
         switch (assigned) {
             case CONSENSUS_METHOD_GROUP -> {
-                MethodGroup group = choice(MethodGroup.class, p.methodGroup(), where, "method group");
+                MethodGroup group = choice(MethodGroup.class, p.methodGroup(), where, "methodGroup", "method group");
                 if (!groups.contains(group.name())) {
-                    throw new DomainException.BadRequest(where + ": method group " + group
-                            + " is not allowed for this measurand in the catalogue.");
+                    throw where.fail("methodGroup", "method group " + group
+                            + " is not allowed for this measurand in the catalogue.", "method group "
+                            + Labels.of(group) + " is not allowed for this measurand in the catalogue.");
                 }
                 e.put("methodGroup", group.name());
             }
             case CERTIFIED_REFERENCE, REFERENCE_LABORATORY -> {
-                e.put("referenceValue", positive(p.referenceValue(), where, "reference value"));
+                e.put("referenceValue", positive(p.referenceValue(), where, "referenceValue", "reference value"));
                 e.put("referenceExpandedUncertainty",
-                        positive(p.referenceExpandedUncertainty(), where, "expanded uncertainty U of the reference value"));
+                        positive(p.referenceExpandedUncertainty(), where, "referenceExpandedUncertainty", "expanded uncertainty U of the reference value"));
                 e.put("coverageFactor", p.coverageFactor() == null || p.coverageFactor().isBlank() ? "2"
-                        : positive(p.coverageFactor(), where, "coverage factor"));
+                        : positive(p.coverageFactor(), where, "coverageFactor", "coverage factor"));
             }
             case EXPERT_CONSENSUS -> {
                 if (p.expertLaboratories() == null || p.expertLaboratories().size() < 2) {
-                    throw new DomainException.BadRequest(where + ": an expert consensus names at least two expert laboratories.");
+                    throw where.fail("expertLaboratories", "an expert consensus names at least two expert laboratories.");
                 }
                 ArrayNode experts = e.putArray("expertLaboratories");
-                new TreeSet<>(p.expertLaboratories().stream().map(id -> integer(id, where, "expert laboratory id"))
+                new TreeSet<>(p.expertLaboratories().stream().map(id -> integer(id, where, "expertLaboratories", "expert laboratory id"))
                         .map(Long::parseLong).toList()).forEach(id -> experts.add(Long.toString(id)));
             }
             default -> {
@@ -145,25 +147,25 @@ public final class PlanDocument {
                 || assigned == EvaluationPlan.AssignedValueMethod.EXPERT_CONSENSUS;
 
         EvaluationPlan.SigmaPtMethod sigma = choice(EvaluationPlan.SigmaPtMethod.class, p.sigmaPtMethod(), where,
-                "σpt method");
+                "sigmaPtMethod", "σpt method");
         e.put("sigmaPtMethod", sigma.name());
         boolean dependsOnRoundData = false;
         switch (sigma) {
-            case FIXED, EARLIER_ROUNDS -> e.put("sigmaPt", positive(p.sigmaPt(), where, "σpt"));
+            case FIXED, EARLIER_ROUNDS -> e.put("sigmaPt", positive(p.sigmaPt(), where, "sigmaPt", "σpt"));
             case PERCENT_OF_ASSIGNED -> {
-                e.put("sigmaPtPercent", positive(p.sigmaPtPercent(), where, "σpt in % of the assigned value"));
+                e.put("sigmaPtPercent", positive(p.sigmaPtPercent(), where, "sigmaPtPercent", "σpt in % of the assigned value"));
                 dependsOnRoundData = consensus;
             }
             case HORWITZ_THOMPSON -> dependsOnRoundData = consensus;
             case PRECISION_DATA -> {
-                String sR = positive(p.reproducibilitySd(), where, "reproducibility SD σR");
-                String sr = positive(p.repeatabilitySd(), where, "repeatability SD σr");
+                String sR = positive(p.reproducibilitySd(), where, "reproducibilitySd", "reproducibility SD σR");
+                String sr = positive(p.repeatabilitySd(), where, "repeatabilitySd", "repeatability SD σr");
                 if (new BigDecimal(sr).compareTo(new BigDecimal(sR)) > 0) {
-                    throw new DomainException.BadRequest(where + ": σr cannot exceed σR.");
+                    throw where.fail("repeatabilitySd", "σr cannot exceed σR.");
                 }
                 e.put("reproducibilitySd", sR);
                 e.put("repeatabilitySd", sr);
-                e.put("replicates", integer(p.replicates(), where, "number of replicates n"));
+                e.put("replicates", integer(p.replicates(), where, "replicates", "number of replicates n"));
             }
             case ROBUST_SD_OF_ROUND -> {
                 dependsOnRoundData = true;
@@ -171,10 +173,10 @@ public final class PlanDocument {
             }
         }
         if (dependsOnRoundData) {
-            e.put("provisionalSigmaPt", positive(p.provisionalSigmaPt(), where,
+            e.put("provisionalSigmaPt", positive(p.provisionalSigmaPt(), where, "provisionalSigmaPt",
                     "provisional σpt (needed for sample qualification, because σpt depends on the round's data)"));
         } else if (p.provisionalSigmaPt() != null && !p.provisionalSigmaPt().isBlank()) {
-            throw new DomainException.BadRequest(where + ": a provisional σpt is only for σpt methods that depend on the round's data.");
+            throw where.fail("provisionalSigmaPt", "a provisional σpt is only for σpt methods that depend on the round's data.");
         }
 
         TreeSet<EvaluationPlan.Score> scores = new TreeSet<>();
@@ -182,52 +184,52 @@ public final class PlanDocument {
             scores.add(EvaluationPlan.Score.Z_OR_Z_PRIME);
         } else {
             for (String s : p.scores()) {
-                scores.add(choice(EvaluationPlan.Score.class, s, where, "score"));
+                scores.add(choice(EvaluationPlan.Score.class, s, where, "scores", "score"));
             }
         }
         if (scores.contains(EvaluationPlan.Score.EN) && consensus) {
-            throw new DomainException.BadRequest(where + ": En needs a reference value with its expanded uncertainty,"
+            throw where.fail("scores", "En needs a reference value with its expanded uncertainty,"
                     + " not a consensus value.");
         }
         ArrayNode scoreArray = e.putArray("scores");
         scores.forEach(s -> scoreArray.add(s.name()));
 
         e.put("minimumParticipants", p.minimumParticipants() == null || p.minimumParticipants().isBlank()
-                ? Integer.toString(DEFAULT_MINIMUM_PARTICIPANTS) : integer(p.minimumParticipants(), where, "minimum participants"));
+                ? Integer.toString(DEFAULT_MINIMUM_PARTICIPANTS) : integer(p.minimumParticipants(), where, "minimumParticipants", "minimum participants"));
         e.put("minimumForDataDerivedSigmaPt", blank(p.minimumForDataDerivedSigmaPt())
                 ? Integer.toString(DEFAULT_MINIMUM_FOR_DATA_DERIVED_SIGMA_PT)
-                : integer(p.minimumForDataDerivedSigmaPt(), where, "minimum participants for a data-derived σpt"));
+                : integer(p.minimumForDataDerivedSigmaPt(), where, "minimumForDataDerivedSigmaPt", "minimum participants for a data-derived σpt"));
         e.put("belowMinimum", blank(p.belowMinimum()) ? EvaluationPlan.BelowMinimum.NOT_SCORED.name()
-                : choice(EvaluationPlan.BelowMinimum.class, p.belowMinimum(), where, "rule below the minimum").name());
+                : choice(EvaluationPlan.BelowMinimum.class, p.belowMinimum(), where, "belowMinimum", "rule below the minimum").name());
         if (blank(p.scoreDecimals())) {
             e.put("scoreDecimals", Integer.toString(DEFAULT_SCORE_DECIMALS));
         } else {
             String decimals = p.scoreDecimals().strip();
             if (!decimals.matches("[0-6]")) {
-                throw new DomainException.BadRequest(where + ": the score decimals are a whole number from 0 to 6.");
+                throw where.fail("scoreDecimals", "the score decimals are a whole number from 0 to 6.");
             }
             e.put("scoreDecimals", decimals);
         }
         e.put("scoreCoverageFactor", blank(p.scoreCoverageFactor()) ? "2"
-                : positive(p.scoreCoverageFactor(), where, "coverage factor k of En"));
+                : positive(p.scoreCoverageFactor(), where, "scoreCoverageFactor", "coverage factor k of En"));
         if (p.allowedMethodGroupDifference() != null && !p.allowedMethodGroupDifference().isBlank()) {
-            e.put("allowedMethodGroupDifference", positive(p.allowedMethodGroupDifference(), where,
+            e.put("allowedMethodGroupDifference", positive(p.allowedMethodGroupDifference(), where, "allowedMethodGroupDifference",
                     "allowed difference between method groups"));
         }
         if (p.exclusionRules() != null && !p.exclusionRules().isBlank()) {
             if (p.exclusionRules().length() > 2000) {
-                throw new DomainException.BadRequest(where + ": the exclusion rules have at most 2000 characters.");
+                throw where.fail("exclusionRules", "the exclusion rules have at most 2000 characters.");
             }
             e.put("exclusionRules", p.exclusionRules().strip());
         }
         e.put("quartileRule", p.quartileRule() == null || p.quartileRule().isBlank() ? QuartileRule.DEFAULT.name()
-                : choice(QuartileRule.class, p.quartileRule(), where, "quartile rule").name());
+                : choice(QuartileRule.class, p.quartileRule(), where, "quartileRule", "quartile rule").name());
         e.put("stoppingRule", p.stoppingRule() == null || p.stoppingRule().isBlank()
                 ? AlgorithmA.StoppingRule.FULL_CONVERGENCE.name()
-                : choice(AlgorithmA.StoppingRule.class, p.stoppingRule(), where, "stopping rule").name());
+                : choice(AlgorithmA.StoppingRule.class, p.stoppingRule(), where, "stoppingRule", "stopping rule").name());
         e.put("boundaryRule", p.boundaryRule() == null || p.boundaryRule().isBlank()
                 ? EvaluationPlan.BoundaryRule.SATISFACTORY_TO_2_UNSATISFACTORY_FROM_3.name()
-                : choice(EvaluationPlan.BoundaryRule.class, p.boundaryRule(), where, "boundary rule").name());
+                : choice(EvaluationPlan.BoundaryRule.class, p.boundaryRule(), where, "boundaryRule", "boundary rule").name());
         return e;
     }
 
@@ -306,19 +308,41 @@ public final class PlanDocument {
         out.append('"').append(JsonStringEncoder.getInstance().quoteAsString(text)).append('"');
     }
 
-    private static <E extends Enum<E>> E choice(Class<E> type, String value, String where, String what) {
-        try {
-            return Enum.valueOf(type, value == null ? "" : value.strip().toUpperCase(Locale.ROOT));
-        } catch (IllegalArgumentException e) {
-            throw new DomainException.BadRequest(where + ": the " + what + " is one of "
-                    + List.of(type.getEnumConstants()) + ".");
+    /**
+     * Where in the plan a check is: the entry's number (from 1) and its words. A failure names the entry and the
+     * field in its detail (row = entry, column = field of {@link EvaluationPlan.MeasurandPlan}), so that a form
+     * can show the problem beside the field.
+     */
+    record Where(int entry, String text) {
+        DomainException fail(String field, String message) {
+            return fail(field, message, message);
+        }
+
+        DomainException fail(String field, String message, String fieldMessage) {
+            String sentence = Character.toUpperCase(fieldMessage.charAt(0)) + fieldMessage.substring(1);
+            return new DomainException.BadRequest(text + ": " + message, List.of(new DomainException.Detail(entry, field, null, "plan." + field, sentence)));
+        }
+
+        @Override
+        public String toString() {
+            return text;
         }
     }
 
-    private static String positive(String value, String where, String what) {
+    private static <E extends Enum<E>> E choice(Class<E> type, String value, Where where, String field, String what) {
+        try {
+            return Enum.valueOf(type, value == null ? "" : value.strip().toUpperCase(Locale.ROOT));
+        } catch (IllegalArgumentException e) {
+            throw where.fail(field, "the " + what + " is one of " + List.of(type.getEnumConstants()) + ".",
+                    "choose one of: " + String.join("; ", java.util.Arrays.stream(type.getEnumConstants())
+                            .map(Labels::of).toList()) + ".");
+        }
+    }
+
+    private static String positive(String value, Where where, String field, String what) {
         String clean = value == null ? "" : value.strip();
         if (!clean.matches("[0-9]{1,12}(\\.[0-9]{1,12})?([eE][-+]?[0-9]{1,2})?") || new BigDecimal(clean).signum() <= 0) {
-            throw new DomainException.BadRequest(where + ": the " + what + " is required, as a positive decimal number.");
+            throw where.fail(field, "the " + what + " is required, as a positive decimal number.");
         }
         return clean;
     }
@@ -327,10 +351,10 @@ public final class PlanDocument {
         return value == null || value.isBlank();
     }
 
-    private static String integer(String value, String where, String what) {
+    private static String integer(String value, Where where, String field, String what) {
         String clean = value == null ? "" : value.strip();
         if (!clean.matches("[1-9][0-9]{0,5}")) {
-            throw new DomainException.BadRequest(where + ": the " + what + " is a whole number of at least 1.");
+            throw where.fail(field, "the " + what + " is a whole number of at least 1.");
         }
         return clean;
     }

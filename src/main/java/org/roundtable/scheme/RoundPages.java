@@ -48,7 +48,7 @@ public class RoundPages {
                                               SchemeService.Provider provider, String error, String message);
 
         static native TemplateInstance rounds(List<RoundService.RoundView> rounds, List<SchemeService.SchemeView> schemes,
-                                              String error);
+                                              String error, NewRound form, java.util.Map<String, String> problems);
 
         static native TemplateInstance round(RoundService.RoundView round, String planText,
                                              List<PlanStore.PlanVersion> versions,
@@ -165,7 +165,57 @@ public class RoundPages {
     @Path("rounds")
     @RolesAllowed(Role.COORDINATOR_NAME)
     public TemplateInstance roundsPage() {
-        return Templates.rounds(rounds.list(), schemes.list(), null);
+        return Templates.rounds(rounds.list(), schemes.list(), null, NewRound.EMPTY, java.util.Map.of());
+    }
+
+    /** The new-round form as typed, shown again when it is refused. */
+    public record NewRound(String schemeId, String code, String itemDescription, String itemsPerLaboratory,
+                           String itemLabels, String dispatchDate, String resultDeadline, String timeZone,
+                           String instructions, String latePolicy, String codeScope) {
+        static final NewRound EMPTY = new NewRound(null, null, null, null, null, null, null, null, null, null, null);
+
+        /** Whether the scheme {@code id} was chosen. */
+        public boolean scheme(long id) {
+            return Long.toString(id).equals(schemeId == null ? null : schemeId.strip());
+        }
+
+        /** The zone chosen, or {@code fallback} before anything was posted. */
+        public String zoneOr(String fallback) {
+            return timeZone == null || timeZone.isBlank() ? fallback : timeZone;
+        }
+    }
+
+    private static java.util.Map<String, String> problemOf(String message) {
+        String field = fieldOf(message);
+        return field == null ? java.util.Map.of() : java.util.Map.of(field, message);
+    }
+
+    /** The field of the new-round form a refusal concerns (by the service's words), or null for none. */
+    static String fieldOf(String message) {
+        if (message == null) {
+            return null;
+        }
+        String m = message.toLowerCase(Locale.ROOT);
+        if (m.contains("round code") || m.contains("with the code")) {
+            return "code";
+        } else if (m.contains("item description")) {
+            return "itemDescription";
+        } else if (m.contains("label")) {
+            return "itemLabels";
+        } else if (m.contains("items per laboratory") || m.contains("split-level")) {
+            return "itemsPerLaboratory";
+        } else if (m.contains("time zone")) {
+            return "timeZone";
+        } else if (m.contains("dispatch date")) {
+            return "dispatchDate";
+        } else if (m.contains("deadline")) {
+            return "resultDeadline";
+        } else if (m.contains("instructions")) {
+            return "instructions";
+        } else if (m.contains("scheme")) {
+            return "schemeId";
+        }
+        return null;
     }
 
     @POST
@@ -188,7 +238,9 @@ public class RoundPages {
                     itemDescription, items, labels, dispatchDate, resultDeadline, timeZone, instructions, latePolicy,
                     codeScope));
             return roundPage(created.id(), null, "Round created as a draft. Write its evaluation plan next.", null);
-        }, e -> Templates.rounds(rounds.list(), schemes.list(), e));
+        }, e -> Templates.rounds(rounds.list(), schemes.list(), e, new NewRound(schemeId, code, itemDescription,
+                itemsPerLaboratory, itemLabels, dispatchDate, resultDeadline, timeZone, instructions, latePolicy,
+                codeScope), problemOf(e)));
     }
 
     @GET
@@ -254,24 +306,6 @@ public class RoundPages {
             }
             default -> Optional.empty();
         };
-    }
-
-    /** Saves the draft plan, or — once frozen — stores a new version with the reason given. */
-    @POST
-    @Path("rounds/{roundId}/plan")
-    @RolesAllowed(Role.COORDINATOR_NAME)
-    @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
-    public Response savePlan(@PathParam("roundId") long roundId, @FormParam("plan") String planText,
-                             @FormParam("reason") String reason) {
-        return FormActions.attempt(() -> {
-            EvaluationPlan plan = parsePlan(planText);
-            if (RoundState.valueOf(rounds.get(roundId).state()) == RoundState.DRAFT) {
-                rounds.saveDraftPlan(roundId, plan);
-                return roundPage(roundId, null, "Draft plan saved.", null);
-            }
-            PlanStore.PlanVersion v = rounds.newPlanVersion(roundId, new RoundService.PlanChange(plan, reason));
-            return roundPage(roundId, null, "Plan version " + v.version() + " stored.", null);
-        }, e -> roundPage(roundId, e, null, null));
     }
 
     @POST
@@ -376,18 +410,6 @@ public class RoundPages {
             return mapper.writerWithDefaultPrettyPrinter().writeValueAsString(mapper.readTree(json));
         } catch (JsonProcessingException e) {
             return json;
-        }
-    }
-
-    private EvaluationPlan parsePlan(String text) {
-        if (text == null || text.isBlank()) {
-            throw new DomainException.BadRequest("The plan is empty.");
-        }
-        try {
-            return mapper.readValue(text, EvaluationPlan.class);
-        } catch (JsonProcessingException e) {
-            throw new DomainException.BadRequest("The plan is not valid JSON (line " + e.getLocation().getLineNr()
-                    + ", column " + e.getLocation().getColumnNr() + ").");
         }
     }
 
