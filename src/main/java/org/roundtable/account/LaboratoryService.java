@@ -103,6 +103,14 @@ public class LaboratoryService {
         return new Page<>(items, laboratories.count(where, like));
     }
 
+    /** The {@code limit} laboratories created last, newest first, and how many there are in all. */
+    @Transactional
+    public Page<LaboratoryView> recent(int limit) {
+        List<LaboratoryView> items = laboratories.findAll(Sort.descending("id")).range(0, limit - 1).list().stream()
+                .map(LaboratoryView::of).toList();
+        return new Page<>(items, laboratories.count());
+    }
+
     /** The laboratories with these ids, in one query (for a page of users). */
     @Transactional
     public java.util.Map<Long, LaboratoryView> byIds(java.util.Collection<Long> ids) {

@@ -53,10 +53,14 @@ public class RoundPages {
         static native TemplateInstance round(RoundService.RoundView round, String planText,
                                              List<PlanStore.PlanVersion> versions,
                                              List<EnrolmentService.Participant> participants,
-                                             List<EnrolmentService.ItemView> items, List<EnrolmentService.Notice> notices,
+                                             org.roundtable.platform.Paging participantsPaging,
+                                             List<EnrolmentService.ItemView> items,
+                                             org.roundtable.platform.Paging itemsPaging,
+                                             List<EnrolmentService.Notice> notices,
                                              List<QualificationService.MeasurandQualification> qualification,
-                                             List<LaboratoryService.LaboratoryView> laboratories,
-                                             List<String> decisions, String error, String message, String link);
+                                             List<LaboratoryService.LaboratoryView> laboratories, long laboratoriesFound,
+                                             String find, List<String> decisions, String error, String message,
+                                             String link);
 
         static native TemplateInstance myRounds(List<EnrolmentService.MyRoundSummary> rounds);
 
@@ -82,10 +86,15 @@ public class RoundPages {
     private final Confirmations confirmations;
     private final RoundResults results;
     private final Clock clock;
+    private final org.roundtable.platform.DisplaySettings display;
+    /** Laboratories offered in the enrolment form's list at most. */
+    static final int ENROL_CHOICES = 100;
 
     public RoundPages(SchemeService schemes, RoundService rounds, EnrolmentService enrolments,
                       QualificationService qualification, LaboratoryService laboratories, ObjectMapper mapper,
-                      HttpServerRequest request, Confirmations confirmations, RoundResults results, Clock clock) {
+                      HttpServerRequest request, Confirmations confirmations, RoundResults results, Clock clock,
+                      org.roundtable.platform.DisplaySettings display) {
+        this.display = display;
         this.confirmations = confirmations;
         this.results = results;
         this.clock = clock;
@@ -246,8 +255,11 @@ public class RoundPages {
     @GET
     @Path("rounds/{roundId}")
     @RolesAllowed(Role.COORDINATOR_NAME)
-    public TemplateInstance roundDetail(@PathParam("roundId") long roundId) {
-        return roundPage(roundId, null, null, null);
+    public TemplateInstance roundDetail(@PathParam("roundId") long roundId,
+                                        @jakarta.ws.rs.QueryParam("participants") Integer participantsPage,
+                                        @jakarta.ws.rs.QueryParam("items") Integer itemsPage,
+                                        @jakarta.ws.rs.QueryParam("find") String find) {
+        return roundPage(roundId, null, null, null, participantsPage, itemsPage, find);
     }
 
     @POST
@@ -396,12 +408,34 @@ public class RoundPages {
     }
 
     private TemplateInstance roundPage(long roundId, String error, String message, String link) {
+        return roundPage(roundId, error, message, link, null, null, null);
+    }
+
+    /**
+     * The round page: participants and items a page at a time (at most the page-size budget of rows, so a round of
+     * 1,000 laboratories has no 1,000-row table or 1,000 forms), the laboratories to enrol found by a search.
+     */
+    private TemplateInstance roundPage(long roundId, String error, String message, String link,
+                                       Integer participantsPage, Integer itemsPage, String find) {
         RoundService.RoundView round = rounds.get(roundId);
+        int size = display.pageSize();
+        List<EnrolmentService.Participant> participants = enrolments.participants(roundId);
+        org.roundtable.platform.Paging participantsPaging = org.roundtable.platform.Paging.of(participantsPage, size,
+                participants.size());
+        List<EnrolmentService.ItemView> items = enrolments.items(roundId);
+        org.roundtable.platform.Paging itemsPaging = org.roundtable.platform.Paging.of(itemsPage, size, items.size());
+        String query = find == null ? "" : find.strip();
+        // the laboratories to choose from: those the search finds, or the ones created last (a new laboratory is
+        // usually enrolled soon after it was made); never a select of every laboratory
+        LaboratoryService.Page<LaboratoryService.LaboratoryView> found = query.isEmpty()
+                ? laboratories.recent(ENROL_CHOICES) : laboratories.search(query, ENROL_CHOICES);
         List<PlanStore.PlanVersion> versions = rounds.planVersions(roundId);
         String planText = round.draftPlan() != null ? pretty(round.draftPlan())
                 : versions.isEmpty() ? PLAN_EXAMPLE : pretty(versions.get(versions.size() - 1).canonicalJson());
-        return Templates.round(round, planText, versions, enrolments.participants(roundId), enrolments.items(roundId),
-                enrolments.notices(roundId), qualification.status(roundId), laboratories.listAll(),
+        return Templates.round(round, planText, versions,
+                participants.subList(participantsPaging.offset(), (int) participantsPaging.last()), participantsPaging,
+                items.subList(itemsPaging.offset(), (int) itemsPaging.last()), itemsPaging,
+                enrolments.notices(roundId), qualification.status(roundId), found.items(), found.total(), query,
                 names(QualificationService.Decision.values()), error, message, link);
     }
 
