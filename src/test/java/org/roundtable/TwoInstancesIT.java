@@ -158,7 +158,7 @@ class TwoInstancesIT {
         List<Long> rounds = new ArrayList<>();
         try (Connection c = db()) {
             ServerData.user(c, coordinator, "coordinator", PASSWORD);
-            for (int r = 0; r < 4; r++) {
+            for (int r = 0; r < 3; r++) {
                 long round = ServerData.openRound(c, code("EVAL"), OffsetDateTime.now().plusDays(1));
                 String[] tokens = ServerData.laboratories(c, round, code("eval"), 6);
                 for (int i = 0; i < tokens.length; i++) {
