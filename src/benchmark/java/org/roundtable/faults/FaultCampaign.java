@@ -67,7 +67,17 @@ public final class FaultCampaign {
     }
 
     /** A fault and its recovery. */
-    record Fault(String kind, double recoverySeconds) {
+    record Fault(String kind, double recoverySeconds, String loadAverage) {
+    }
+
+    /** The machine's load averages (1, 5, 15 min) when a fault is made: recovery is mostly a start under this load. */
+    static String loadAverage() {
+        try {
+            String[] parts = Files.readString(Path.of("/proc/loadavg")).split(" ");
+            return parts[0] + " " + parts[1] + " " + parts[2];
+        } catch (IOException e) {
+            return "";
+        }
     }
 
     private final HttpClient http = HttpClient.newBuilder().version(HttpClient.Version.HTTP_1_1)
@@ -125,17 +135,19 @@ public final class FaultCampaign {
         try {
             for (int i = 1; i <= SERVER_KILLS; i++) {
                 awaitSteadyLoad();
+                String loadAtFault = loadAverage();
                 long fault = System.nanoTime();
                 server.kill();
                 server.start(); // at once, as a supervisor would
-                faults.add(new Fault("server kill -9 #" + i, awaitRecovery(fault, server)));
+                faults.add(new Fault("server kill -9 #" + i, awaitRecovery(fault, server), loadAtFault));
                 System.out.printf("server kill -9 #%d: first receipt after %.1f s%n", i, faults.get(faults.size() - 1).recoverySeconds());
             }
             awaitSteadyLoad();
+            String loadAtFault = loadAverage();
             long postmaster = Long.parseLong(Files.readAllLines(data.resolve("pg").resolve("postmaster.pid")).get(0).strip());
             long fault = System.nanoTime();
             ProcessHandle.of(postmaster).orElseThrow().destroyForcibly();
-            faults.add(new Fault("embedded PostgreSQL kill -9", awaitRecovery(fault, server)));
+            faults.add(new Fault("embedded PostgreSQL kill -9", awaitRecovery(fault, server), loadAtFault));
             System.out.printf("embedded PostgreSQL kill -9: first receipt after %.1f s%n", faults.get(faults.size() - 1).recoverySeconds());
             awaitSteadyLoad();
         } finally {
@@ -167,10 +179,11 @@ public final class FaultCampaign {
             load.start();
             try {
                 awaitSteadyLoad();
+                String loadAtFault = loadAverage();
                 long fault = System.nanoTime();
                 postgres.close();
                 postgres = external(pgData, pgPort);
-                faults.add(new Fault("external PostgreSQL restart", awaitRecovery(fault, server)));
+                faults.add(new Fault("external PostgreSQL restart", awaitRecovery(fault, server), loadAtFault));
                 System.out.printf("external PostgreSQL restart: first receipt after %.1f s%n", faults.get(faults.size() - 1).recoverySeconds());
                 awaitSteadyLoad();
             } finally {
@@ -255,7 +268,11 @@ public final class FaultCampaign {
         figures.put("statuses", new java.util.TreeMap<>(statuses));
         List<Map<String, Object>> list = new ArrayList<>();
         for (Fault f : faults) {
-            list.add(Map.of("fault", f.kind(), "recoverySeconds", f.recoverySeconds()));
+            Map<String, Object> one = new LinkedHashMap<>();
+            one.put("fault", f.kind());
+            one.put("recoverySeconds", f.recoverySeconds());
+            one.put("loadAverage", f.loadAverage());
+            list.add(one);
         }
         figures.put("faults", list);
         figures.put("serverErrorSamples", serverErrorSamples.subList(0, Math.min(10, serverErrorSamples.size())));
