@@ -73,6 +73,7 @@ class TwoInstancesIT {
         if (postgres != null) {
             postgres.close();
         }
+        PackagedServer.deleteTree(pgData);
     }
 
     private static EmbeddedPostgres startPostgres() throws java.io.IOException {

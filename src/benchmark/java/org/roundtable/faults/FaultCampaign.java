@@ -107,6 +107,9 @@ public final class FaultCampaign {
         FaultCampaign campaign = new FaultCampaign();
         campaign.embeddedPhase(work);
         campaign.externalPhase(work);
+        // the logs stay for a look afterwards; the two databases go
+        PackagedServer.deleteTree(work.resolve("data"));
+        PackagedServer.deleteTree(work.resolve("external-pg"));
         Map<String, Object> figures = campaign.figures((System.nanoTime() - started) / 1e9);
         String json = JSON.writerWithDefaultPrettyPrinter().writeValueAsString(figures);
         Path out = Path.of(args.length > 0 ? args[0] : "faults.json");

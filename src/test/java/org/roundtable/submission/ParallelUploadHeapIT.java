@@ -104,7 +104,7 @@ class ParallelUploadHeapIT {
             for (String token : tokens) {
                 results.add(pool.submit(() -> {
                     go.await();
-                    long until = System.nanoTime() + Duration.ofMinutes(3).toNanos();
+                    long until = System.nanoTime() + Duration.ofMinutes(5).toNanos();
                     while (true) {
                         HttpResponse<String> answer = http.send(HttpRequest.newBuilder(
                                         server.uri("/api/v1/my-rounds/" + round + "/submission/file"))

@@ -196,6 +196,18 @@ public final class PackagedServer implements AutoCloseable {
         }
     }
 
+    /** Deletes a folder and everything in it (a test's PostgreSQL data), quietly. */
+    public static void deleteTree(Path folder) {
+        if (folder == null || !Files.exists(folder)) {
+            return;
+        }
+        try (java.util.stream.Stream<Path> paths = Files.walk(folder)) {
+            paths.sorted(java.util.Comparator.reverseOrder()).forEach(p -> p.toFile().delete());
+        } catch (IOException e) {
+            // left for the system's temporary-file cleanup
+        }
+    }
+
     public static int freePort() {
         try (ServerSocket socket = new ServerSocket(0)) {
             return socket.getLocalPort();
