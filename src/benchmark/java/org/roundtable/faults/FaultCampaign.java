@@ -44,6 +44,8 @@ import java.util.concurrent.atomic.AtomicLong;
  *   <li>with an external PostgreSQL ({@code DB_URL}; a second embedded PostgreSQL plays it): one restart of that
  *       PostgreSQL (stopped, then started again at once on the same data and port).</li>
  * </ol>
+ * The server runs as {@code rounds-demo/start.sh} runs it with respect to start time: the first start writes a
+ * class-data archive when it stops, every later start maps it.
  * Recovery of a fault is the time from the fault to the first receipt of a request sent after it. Afterwards the
  * database is compared with the ledger. Writes {@code faults.json} in the working directory (target/benchmarks):
  * {@code acknowledged} (receipts in the ledger), {@code stored} (revisions in the database), {@code duplicates}
@@ -110,6 +112,7 @@ public final class FaultCampaign {
         // the logs stay for a look afterwards; the two databases go
         PackagedServer.deleteTree(work.resolve("data"));
         PackagedServer.deleteTree(work.resolve("external-pg"));
+        Files.deleteIfExists(cds(work));
         Map<String, Object> figures = campaign.figures((System.nanoTime() - started) / 1e9);
         String json = JSON.writerWithDefaultPrettyPrinter().writeValueAsString(figures);
         Path out = Path.of(args.length > 0 ? args[0] : "faults.json");
@@ -122,7 +125,12 @@ public final class FaultCampaign {
     private void embeddedPhase(Path work) throws Exception {
         Path data = work.resolve("data");
         int dbPort = PackagedServer.freePort();
-        PackagedServer server = new PackagedServer("embedded", work).jvm("-Xmx512m")
+        // as rounds-demo/start.sh does: the first start writes the class-data archive when it stops, the others use it
+        PackagedServer first = new PackagedServer("embedded-first", work).jvm("-Xmx512m", "-XX:ArchiveClassesAtExit=" + cds(work))
+                .env("ROUNDTABLE_DATA_DIR", data.toString()).env("ROUNDTABLE_DB_PORT", Integer.toString(dbPort));
+        first.start().awaitReady(Duration.ofSeconds(240));
+        first.stop();
+        PackagedServer server = new PackagedServer("embedded", work).jvm("-Xmx512m", "-XX:SharedArchiveFile=" + cds(work))
                 .env("ROUNDTABLE_DATA_DIR", data.toString()).env("ROUNDTABLE_DB_PORT", Integer.toString(dbPort));
         server.start().awaitReady(Duration.ofSeconds(240));
         String jdbc = "jdbc:postgresql://127.0.0.1:" + dbPort + "/postgres";
@@ -169,7 +177,8 @@ public final class FaultCampaign {
         int pgPort = PackagedServer.freePort();
         EmbeddedPostgres postgres = external(pgData, pgPort);
         String jdbc = "jdbc:postgresql://127.0.0.1:" + pgPort + "/postgres";
-        PackagedServer server = new PackagedServer("external", work).jvm("-Xmx512m").database(jdbc, "postgres", "");
+        PackagedServer server = new PackagedServer("external", work).jvm("-Xmx512m", "-XX:SharedArchiveFile=" + cds(work))
+                .database(jdbc, "postgres", "");
         try {
             server.start().awaitReady(Duration.ofSeconds(240));
             long round;
@@ -199,6 +208,11 @@ public final class FaultCampaign {
             server.stop();
             postgres.close();
         }
+    }
+
+    /** The class-data archive of the application, written by the first start (see rounds-demo/start.sh). */
+    private static Path cds(Path work) {
+        return work.resolve("app-cds.jsa");
     }
 
     private static EmbeddedPostgres external(Path data, int port) throws IOException {
@@ -280,6 +294,7 @@ public final class FaultCampaign {
         figures.put("faults", list);
         figures.put("serverErrorSamples", serverErrorSamples.subList(0, Math.min(10, serverErrorSamples.size())));
         figures.put("workers", WORKERS);
+        figures.put("classDataSharing", true);
         figures.put("runSeconds", Math.round(seconds));
         return figures;
     }
