@@ -32,13 +32,19 @@ import static org.assertj.core.api.Assertions.assertThat;
  * Memory under parallel uploads (issue 13, part 6), against the packaged jar with {@code -Xmx768m} and the JVM's
  * default collector, as {@code rounds-demo/start.sh} runs it: 64 laboratories send a maximal CSV (just under 2 MiB,
  * 5 000 rows) at once, each retrying after a 503 until it has its answer. The heap in use after each collection
- * (from the JVM's own GC log) stays under 512 MiB.
+ * that reaches the old generation (from the JVM's own GC log) stays under 512 MiB.
  */
 class ParallelUploadHeapIT {
 
     private static final int UPLOADS = 64;
     private static final long MIB = 1024 * 1024;
     private static final Pattern GC = Pattern.compile("(\\d+)([KMG])->(\\d+)([KMG])\\((\\d+)([KMG])\\)");
+    /**
+     * The collections whose result bounds the live heap from above: the end of a marking cycle (G1's Remark), a mixed
+     * collection (young and old regions) and a full one. A young collection leaves the old generation's garbage in
+     * place, so the heap after it says how long G1 waited, not what the uploads keep.
+     */
+    private static final Pattern OLD_GENERATION = Pattern.compile("Pause (Remark|Young \\(Mixed\\)|Full)");
 
     @Test
     void sixtyFourParallelMaximalUploadsKeepTheHeapUnder512MiB() throws Exception {
@@ -67,24 +73,32 @@ class ParallelUploadHeapIT {
                 List<String> gcLines = Files.readAllLines(gcLog);
                 long peakAfter = 0;
                 long peakBefore = 0;
+                long peakLive = 0;
                 int collections = 0;
+                int oldCollections = 0;
                 for (String line : gcLines.subList((int) gcLinesBefore, gcLines.size())) {
                     Matcher m = GC.matcher(line);
                     if (m.find()) {
                         collections++;
+                        long after = bytes(m.group(3), m.group(4));
                         peakBefore = Math.max(peakBefore, bytes(m.group(1), m.group(2)));
-                        peakAfter = Math.max(peakAfter, bytes(m.group(3), m.group(4)));
+                        peakAfter = Math.max(peakAfter, after);
+                        if (OLD_GENERATION.matcher(line).find()) {
+                            oldCollections++;
+                            peakLive = Math.max(peakLive, after);
+                        }
                     }
                 }
                 long residentPeak = residentPeak(server.pid());
-                System.out.printf("ParallelUploadHeapIT: %d uploads, answers %s, %d collections, heap after GC at most "
-                                + "%d MiB, before GC at most %d MiB, resident set peak %d MiB%n", UPLOADS, answers,
-                        collections, peakAfter / MIB, peakBefore / MIB, residentPeak / MIB);
+                System.out.printf("ParallelUploadHeapIT: %d uploads, answers %s, %d collections (%d that reach the old "
+                                + "generation), heap after those at most %d MiB, after any collection at most %d MiB, "
+                                + "before a collection at most %d MiB, resident set peak %d MiB%n", UPLOADS, answers,
+                        collections, oldCollections, peakLive / MIB, peakAfter / MIB, peakBefore / MIB, residentPeak / MIB);
                 assertThat(answers.values().stream().mapToInt(Integer::intValue).sum()).isEqualTo(UPLOADS);
                 assertThat(answers).as("every upload was read and answered (not refused for load)").doesNotContainKey(503);
                 assertThat(answers.keySet()).allSatisfy(status -> assertThat(status).isLessThan(500));
-                assertThat(collections).as("collections while the uploads were parsed").isPositive();
-                assertThat(peakAfter).as("heap in use after a collection").isLessThan(512 * MIB);
+                assertThat(oldCollections).as("collections of the old generation while the uploads were parsed").isPositive();
+                assertThat(peakLive).as("heap in use after a collection that reaches the old generation").isLessThan(512 * MIB);
                 assertThat(server.alive()).isTrue();
             } finally {
                 server.stop();
