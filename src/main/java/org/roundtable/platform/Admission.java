@@ -11,11 +11,19 @@ import java.io.InputStream;
 import java.net.ConnectException;
 import java.sql.Connection;
 import java.sql.SQLException;
+import java.sql.SQLNonTransientConnectionException;
+import java.sql.SQLRecoverableException;
 import java.sql.SQLTransientConnectionException;
 import java.time.Clock;
 import java.time.Duration;
 import java.time.Instant;
+import java.util.ArrayDeque;
+import java.util.Arrays;
+import java.util.Collections;
+import java.util.Deque;
+import java.util.IdentityHashMap;
 import java.util.List;
+import java.util.Set;
 import java.util.concurrent.ConcurrentHashMap;
 import java.util.concurrent.Semaphore;
 import java.util.concurrent.TimeUnit;
@@ -147,27 +155,71 @@ public class Admission {
 
     /**
      * Whether {@code failure} says the database cannot be reached (as opposed to a refused statement): a connection
-     * failure (SQLState class 08), the server shutting down or not yet accepting (57P01–57P03), or the pool giving up.
-     * When it is, the outage is recorded (and logged if it is new).
+     * failure (SQLState class 08, or a closed connection without a state), the server shutting down or not yet
+     * accepting (57P01–57P03), or the pool giving up. When it is, the outage is recorded (and logged if it is new).
+     * See {@link #outageCause(Throwable)} for where the cause is looked for.
      */
     public boolean isDatabaseOutage(Throwable failure) {
-        for (Throwable t = failure; t != null; t = t.getCause() == t ? null : t.getCause()) {
-            if (t instanceof ConnectException || t instanceof SQLTransientConnectionException) {
-                return recordOutage(t);
+        Throwable cause = outageCause(failure);
+        return cause != null && recordOutage(cause);
+    }
+
+    /** SQLStates that say the server is going away or not there yet: admin/crash shutdown, cannot connect now. */
+    private static final Set<String> SHUTDOWN_STATES = Set.of("57P01", "57P02", "57P03");
+
+    /** Messages of a closed connection where the driver or the pool gives no SQLState. */
+    private static final List<String> CLOSED_CONNECTION = List.of("This connection has been closed",
+            "Connection is closed", "An I/O error occurred while sending to the backend", "Acquisition timeout");
+
+    /**
+     * The exception among {@code failure}, its causes, its suppressed exceptions (a failed commit carries the
+     * driver's exception there: {@code RollbackException} → suppressed {@code XAException} → {@code PSQLException})
+     * and the next exceptions of an {@link SQLException}, to any depth and whatever wraps them (CDI's
+     * {@code ArcUndeclaredThrowableException}, Hibernate, the transaction manager), that says the database cannot be
+     * reached; null when none does.
+     */
+    static Throwable outageCause(Throwable failure) {
+        Deque<Throwable> pending = new ArrayDeque<>();
+        Set<Throwable> seen = Collections.newSetFromMap(new IdentityHashMap<>());
+        if (failure != null) {
+            pending.add(failure);
+        }
+        while (!pending.isEmpty() && seen.size() < 100) {
+            Throwable t = pending.poll();
+            if (!seen.add(t)) {
+                continue;
             }
-            if (t instanceof SQLException sql && sql.getSQLState() != null
-                    && (sql.getSQLState().startsWith("08") || List.of("57P01", "57P02", "57P03").contains(sql.getSQLState()))) {
-                return recordOutage(t);
+            if (saysDatabaseUnreachable(t)) {
+                return t;
             }
-            if (t instanceof SQLException sql && sql.getMessage() != null
-                    && sql.getMessage().startsWith("Acquisition timeout")) {
-                return recordOutage(t);
+            if (t.getCause() != null) {
+                pending.add(t.getCause());
             }
-            if (t.getClass().getName().equals("org.hibernate.exception.JDBCConnectionException")) {
-                return recordOutage(t);
+            pending.addAll(Arrays.asList(t.getSuppressed()));
+            if (t instanceof SQLException sql && sql.getNextException() != null) {
+                pending.add(sql.getNextException());
             }
         }
-        return false;
+        return null;
+    }
+
+    private static boolean saysDatabaseUnreachable(Throwable t) {
+        if (t instanceof ConnectException || t instanceof SQLTransientConnectionException
+                || t instanceof SQLNonTransientConnectionException || t instanceof SQLRecoverableException) {
+            return true;
+        }
+        if (t instanceof SQLException sql) {
+            String state = sql.getSQLState();
+            if (state != null && (state.startsWith("08") || SHUTDOWN_STATES.contains(state))) {
+                return true;
+            }
+            String message = sql.getMessage();
+            if (message != null && (state == null || message.startsWith("Acquisition timeout"))
+                    && CLOSED_CONNECTION.stream().anyMatch(message::startsWith)) {
+                return true;
+            }
+        }
+        return t.getClass().getName().equals("org.hibernate.exception.JDBCConnectionException");
     }
 
     private boolean recordOutage(Throwable t) {

@@ -70,4 +70,43 @@ class AdmissionTest {
         assertThat(admission.isDatabaseOutage(new IllegalStateException("no"))).isFalse();
         assertThat(admission.databaseAvailable()).isTrue();
     }
+
+    /**
+     * The shape the fault campaign found (a 500 during an external PostgreSQL restart): a commit that failed because
+     * the server went away reaches the error mapper as CDI's wrapper around the transaction manager's
+     * RollbackException, whose only trace of the database is a suppressed XAException caused by the driver's
+     * "terminating connection due to administrator command" (SQLState 57P01).
+     */
+    @Test
+    void aCommitThatFailedBecauseTheServerWentAwayIsAnOutageThoughTheCauseIsOnlySuppressed() {
+        SQLException driver = new SQLException("FATAL: terminating connection due to administrator command", "57P01");
+        javax.transaction.xa.XAException xa = new javax.transaction.xa.XAException(
+                "Error trying to transactionCommit local transaction: " + driver.getMessage());
+        xa.initCause(driver);
+        jakarta.transaction.RollbackException rollback = new jakarta.transaction.RollbackException(
+                "ARJUNA016053: Could not commit transaction.");
+        rollback.addSuppressed(xa);
+        RuntimeException wrapped = new io.quarkus.arc.ArcUndeclaredThrowableException("Error invoking subclass method", rollback);
+        assertThat(Admission.outageCause(wrapped)).isSameAs(driver);
+    }
+
+    @Test
+    void aClosedConnectionWithoutSqlStateIsAnOutage() {
+        SQLException closed = new SQLException("This connection has been closed.");
+        assertThat(Admission.outageCause(new IllegalStateException("rollback failed",
+                new RuntimeException("Unable to rollback against JDBC Connection", closed)))).isSameAs(closed);
+        SQLException next = new SQLException("batch entry 3 failed", "25P02");
+        SQLException lost = new SQLException("An I/O error occurred while sending to the backend.", "08006");
+        next.setNextException(lost);
+        assertThat(Admission.outageCause(next)).isSameAs(lost);
+    }
+
+    @Test
+    void aCycleOfCausesEndsTheSearchWithoutAnOutage() {
+        RuntimeException first = new RuntimeException("first");
+        RuntimeException second = new RuntimeException("second", first);
+        first.addSuppressed(second);
+        assertThat(Admission.outageCause(second)).isNull();
+        assertThat(Admission.outageCause(new SQLException("closed text but a refused statement", "23505"))).isNull();
+    }
 }
