@@ -142,6 +142,11 @@ public class ReportLifecycle {
     public record Overview(long roundId, String roundCode, String state, boolean secondReviewerRequired,
                            int nextSignOffSequence, List<RunChoice> runs, List<IssueView> issues,
                            List<SignOffView> signOffs, List<CommentView> comments, List<DocumentView> documents) {
+
+        /** Whether an issue job is running (its page then follows the progress by itself). */
+        public boolean issuing() {
+            return issues.stream().anyMatch(i -> !i.done() && "RUNNING".equals(i.jobStatus()));
+        }
     }
 
     /**

@@ -268,8 +268,9 @@ class AuthorizationMatrixTest {
                     + "recipient_id, params, link, created_at) VALUES ('reminder', ?, ?, '{}', '/my-rounds', now()) RETURNING id",
                     World.unique("matrix"), owner)));
         }
-        if (resolved.contains("{measurandId}")) {
-            // a measurand of the published round's scheme (one item: the section is named by the element)
+        if (resolved.contains("{measurandId}") && !resolved.contains("/evaluation/{version}/")) {
+            // a measurand of the published round's scheme (one item: the section is named by the element); an
+            // evaluation run's measurand pages name element and item (resolved with {version} below)
             resolved = resolved.replace("{measurandId}", "Cr");
         }
         if (resolved.contains("{chart}")) {
