@@ -20,7 +20,9 @@ import static org.assertj.core.api.Assertions.assertThat;
  * The statement budget of a submission through the JSON API, counted by the tests' JDBC wrapper
  * ({@link CountingDriver}: one execute or one batch is one statement; commits apart): the whole request, token check
  * included, in steady state (the round's upload rules already cached by an earlier laboratory's submission).
- * Speed itself is shown by the submission benchmark, not here.
+ * Speed itself is shown by the submission benchmark, not here. Counted on 2026-12-02: before the lean path 20
+ * statements in 6 transactions (22 with an Idempotency-Key); now 11 in 2 (13 with an Idempotency-Key, 11 for a
+ * second revision, 4 for "no change").
  */
 @QuarkusTest
 class SubmissionStatementsTest {
@@ -108,7 +110,8 @@ class SubmissionStatementsTest {
                 + listing("the same values again (no change)", unchanged);
         System.out.println(report);
         assertThat(statements(plain)).as(report).isLessThanOrEqualTo(BUDGET);
-        assertThat(transactions(plain)).as(report).isEqualTo(1);
+        // the token check's own transaction (account feature), then the submission's one
+        assertThat(transactions(plain)).as(report).isLessThanOrEqualTo(2);
         // the Idempotency-Key adds its claim and its stored answer
         assertThat(statements(keyed)).as(report).isLessThanOrEqualTo(statements(plain) + 2);
         assertThat(statements(revised)).as(report).isLessThanOrEqualTo(BUDGET + 1);
