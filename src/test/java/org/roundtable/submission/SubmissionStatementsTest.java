@@ -117,4 +117,37 @@ class SubmissionStatementsTest {
         assertThat(statements(revised)).as(report).isLessThanOrEqualTo(BUDGET + 1);
         assertThat(statements(unchanged)).as(report).isLessThan(statements(plain));
     }
+
+    @Test
+    void theKeptUploadRulesFollowAWithdrawnMeasurandAndAChangedCatalogue() {
+        long first = world.laboratory();
+        long second = world.laboratory();
+        long round = world.round(RoundState.OPEN_FOR_RESULTS, crAndMn(), org.roundtable.scheme.Round.LatePolicy.REFUSE,
+                first, second);
+        String firstToken = world.apiToken(first);
+        String secondToken = world.apiToken(second);
+        String uri = "/api/v1/my-rounds/" + round + "/submission";
+        given().header("Authorization", "Bearer " + firstToken).contentType("application/json")
+                .body(results("18.10", "0.700")).post(uri).then().statusCode(201);
+
+        // the coordinator withdraws Mn (a qualification decision, as QualificationService appends it)
+        world.insert("INSERT INTO qualification_decision (round_id, element, decision, reason, decided_by, decided_at) "
+                + "VALUES (?, 'Mn', 'WITHDRAW_MEASURAND', 'Lot inhomogeneous', 'world', now()) RETURNING id", round);
+        Response refused = given().header("Authorization", "Bearer " + secondToken).contentType("application/json")
+                .body(results("18.11", "0.710")).post(uri);
+        assertThat(refused.statusCode()).isEqualTo(422);
+        assertThat(refused.body().asString()).contains("Mn is not a measurand of this round");
+
+        // the catalogue's expected range of Cr changes (a versioned row, as SchemeService.putMeasurand writes it)
+        String crOnly = "{\"results\":[{\"measurand\":\"Cr\",\"value\":\"18.11\",\"unit\":\"%\",\"method\":\"spark-oes\","
+                + "\"replicates\":1}]}";
+        world.sql("UPDATE measurand SET expected_min = 19, version = version + 1 WHERE element = 'Cr' AND scheme_id = "
+                + "(SELECT scheme_id FROM round WHERE id = ?)", round);
+        Response warned = given().header("Authorization", "Bearer " + secondToken).contentType("application/json")
+                .body(crOnly).post(uri);
+        assertThat(warned.statusCode()).as(warned.body().asString()).isEqualTo(422);
+        assertThat(warned.body().asString()).contains("warning.");
+        given().header("Authorization", "Bearer " + secondToken).contentType("application/json").body(crOnly)
+                .queryParam("confirmWarnings", true).post(uri).then().statusCode(201);
+    }
 }
