@@ -34,7 +34,9 @@ import java.util.concurrent.atomic.AtomicReference;
  *   <li><b>submission queue</b>: at most {@code roundtable.submissions.queue-bound} submissions (default 64) are
  *       admitted at once, being read or waiting for the database; another waits up to
  *       {@code roundtable.submissions.queue-wait} (default 500 ms) for a place, then is refused with
- *       {@code Retry-After: 1}, instead of queueing for seconds behind the others. Taken before the upload slot.</li>
+ *       {@code Retry-After: 1}, instead of queueing for seconds behind the others. For the JSON API it is taken on
+ *       the event loop, before the request waits for a worker thread (web.EdgeLimits), so nothing queues unbounded
+ *       ahead of it; the results pages take it in the endpoint. Taken before the upload slot.</li>
  *   <li><b>queue bounds</b>: {@link #gate} gives any bounded section the same behaviour.</li>
  * </ul>
  */
@@ -78,8 +80,22 @@ public class Admission {
             } catch (InterruptedException e) {
                 Thread.currentThread().interrupt();
             }
-            throw new Unavailable("Too many " + what + " are being handled at once. Try again in a few seconds.",
+            throw refusal();
+        }
+
+        /** Enters the section if a place is free now, without waiting; else null. */
+        public Slot tryEnter() {
+            return permits.tryAcquire() ? permits::release : null;
+        }
+
+        /** The answer to a caller that found no place within the wait. */
+        public Unavailable refusal() {
+            return new Unavailable("Too many " + what + " are being handled at once. Try again in a few seconds.",
                     (int) Math.max(1, wait.toSeconds()));
+        }
+
+        public Duration waitFor() {
+            return wait;
         }
 
         public int available() {
@@ -120,6 +136,11 @@ public class Admission {
      */
     public Slot submissionPlace() {
         return submissions.enter();
+    }
+
+    /** The submission queue itself, for admission before a worker thread is taken (see web.EdgeLimits). */
+    public Gate submissionQueue() {
+        return submissions;
     }
 
     /** Places left in the submission queue. */
