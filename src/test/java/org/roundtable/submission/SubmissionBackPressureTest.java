@@ -58,6 +58,36 @@ class SubmissionBackPressureTest {
         assertThat(placesLeftOnceSettled()).as("the place is given back when the response ends").isEqualTo(64);
     }
 
+    @Test
+    void aSubmissionThatFindsAPlaceFreedWithinTheShortWaitIsAccepted() throws Exception {
+        long lab = world.laboratory();
+        long round = world.round(RoundState.OPEN_FOR_RESULTS, lab);
+        String token = world.apiToken(lab);
+        String json = "{\"results\":[{\"measurand\":\"Cr\",\"value\":\"18.30\",\"unit\":\"%\",\"method\":\"spark-oes\",\"replicates\":1}]}";
+        List<Admission.Slot> taken = new ArrayList<>();
+        while (admission.submissionPlacesLeft() > 0) {
+            taken.add(admission.submissionPlace());
+        }
+        Thread freeing = new Thread(() -> {
+            try {
+                Thread.sleep(150);
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+            }
+            taken.remove(0).close();
+        });
+        try {
+            freeing.start();
+            // the request's body waits (unread) until the place is free, then is read whole
+            given().header("Authorization", "Bearer " + token).contentType("application/json").body(json)
+                    .post("/api/v1/my-rounds/" + round + "/submission").then().statusCode(201);
+        } finally {
+            freeing.join();
+            taken.forEach(Admission.Slot::close);
+        }
+        assertThat(placesLeftOnceSettled()).isEqualTo(64);
+    }
+
     /** The places left once the last response has ended (the place is given back on the event loop just after). */
     private int placesLeftOnceSettled() throws InterruptedException {
         for (int i = 0; i < 100 && admission.submissionPlacesLeft() < 64; i++) {
