@@ -39,7 +39,13 @@ import java.util.concurrent.atomic.AtomicReference;
  *   <li><b>upload slots</b>: at most {@code roundtable.admission.upload-slots} uploads (default 2) are read and
  *       parsed at once; another waits up to {@code roundtable.admission.upload-wait} (default 2 s), then is refused.
  *       A waiting upload's body is not read yet, so waiting costs no memory.</li>
- *   <li><b>queue bounds</b>: {@link #gate} gives any bounded section (e.g. a submission queue) the same behaviour.</li>
+ *   <li><b>submission queue</b>: at most {@code roundtable.submissions.queue-bound} submissions (default 64) are
+ *       admitted at once, being read or waiting for the database; another waits up to
+ *       {@code roundtable.submissions.queue-wait} (default 500 ms) for a place, then is refused with
+ *       {@code Retry-After: 1}, instead of queueing for seconds behind the others. For the JSON API it is taken on
+ *       the event loop, before the request waits for a worker thread (web.EdgeLimits), so nothing queues unbounded
+ *       ahead of it; the results pages take it in the endpoint. Taken before the upload slot.</li>
+ *   <li><b>queue bounds</b>: {@link #gate} gives any bounded section the same behaviour.</li>
  * </ul>
  */
 @ApplicationScoped
@@ -82,8 +88,22 @@ public class Admission {
             } catch (InterruptedException e) {
                 Thread.currentThread().interrupt();
             }
-            throw new Unavailable("Too many " + what + " are being handled at once. Try again in a few seconds.",
+            throw refusal();
+        }
+
+        /** Enters the section if a place is free now, without waiting; else null. */
+        public Slot tryEnter() {
+            return permits.tryAcquire() ? permits::release : null;
+        }
+
+        /** The answer to a caller that found no place within the wait. */
+        public Unavailable refusal() {
+            return new Unavailable("Too many " + what + " are being handled at once. Try again in a few seconds.",
                     (int) Math.max(1, wait.toSeconds()));
+        }
+
+        public Duration waitFor() {
+            return wait;
         }
 
         public int available() {
@@ -103,15 +123,37 @@ public class Admission {
     private final AgroalDataSource dataSource;
     private final Clock clock;
     private final Gate uploads;
+    private final Gate submissions;
     private final ConcurrentHashMap<String, Gate> gates = new ConcurrentHashMap<>();
     private final AtomicReference<Outage> outage = new AtomicReference<>();
 
     public Admission(AgroalDataSource dataSource, Clock clock,
                      @ConfigProperty(name = "roundtable.admission.upload-slots", defaultValue = "2") int uploadSlots,
-                     @ConfigProperty(name = "roundtable.admission.upload-wait", defaultValue = "2s") Duration uploadWait) {
+                     @ConfigProperty(name = "roundtable.admission.upload-wait", defaultValue = "2s") Duration uploadWait,
+                     @ConfigProperty(name = "roundtable.submissions.queue-bound", defaultValue = "64") int submissionQueueBound,
+                     @ConfigProperty(name = "roundtable.submissions.queue-wait", defaultValue = "500ms") Duration submissionQueueWait) {
         this.dataSource = dataSource;
         this.clock = clock;
         this.uploads = new Gate("uploads", uploadSlots, uploadWait);
+        this.submissions = new Gate("submissions", submissionQueueBound, submissionQueueWait);
+    }
+
+    /**
+     * A place in the submission queue: every submission of results (API, form, file) holds one from before its body
+     * is read until its receipt; past the bound a submission is refused after a short wait (503, Retry-After).
+     */
+    public Slot submissionPlace() {
+        return submissions.enter();
+    }
+
+    /** The submission queue itself, for admission before a worker thread is taken (see web.EdgeLimits). */
+    public Gate submissionQueue() {
+        return submissions;
+    }
+
+    /** Places left in the submission queue. */
+    public int submissionPlacesLeft() {
+        return submissions.available();
     }
 
     /** The upload slots: every upload is read and parsed inside one. */

@@ -122,6 +122,50 @@ public class RoundAccess {
         return window(round);
     }
 
+    /**
+     * What a submission needs to know of the round, read in one statement under the shared row lock of
+     * {@link #lockForSubmission(long)}: the window, the kind of round, the laboratory's participant code (empty when
+     * it is not enrolled) and the stamp of everything the round's upload rules are made of.
+     *
+     * @param rulesStamp changes whenever the upload rules may change: a new version of the round row (state, item
+     *                   labels, kind…), a new frozen plan version (evaluation or precision plan), a new qualification
+     *                   decision (a withdrawn measurand), a measurand of the scheme's catalogue added or changed
+     */
+    public record SubmissionHead(SubmissionWindow window, boolean precisionExperiment, Optional<String> participantCode,
+                                 String rulesStamp) {
+    }
+
+    /**
+     * As {@link #lockForSubmission(long)}, with the laboratory's enrolment and the stamp of the upload rules in the
+     * same statement (one round trip for everything a submission reads of the round).
+     *
+     * @throws DomainException.NotFound the round does not exist
+     */
+    @Transactional(Transactional.TxType.MANDATORY)
+    public SubmissionHead lockForSubmission(long roundId, long laboratoryId) {
+        @SuppressWarnings("unchecked")
+        List<Object[]> rows = entityManager.createNativeQuery("""
+                SELECT r.id, r.code, r.state, r.result_deadline, r.deadline_time_zone, r.late_policy, r.item_labels, r.kind,
+                       p.participant_code,
+                       r.version || ':' || coalesce((SELECT max(e.plan_version) FROM evaluation_plan e WHERE e.round_id = r.id), 0)
+                         || ':' || coalesce((SELECT max(pp.plan_version) FROM precision_plan pp WHERE pp.round_id = r.id), 0)
+                         || ':' || coalesce((SELECT max(q.id) FROM qualification_decision q WHERE q.round_id = r.id), 0)
+                         || ':' || (SELECT count(*) || '.' || coalesce(sum(m.version), 0) FROM measurand m WHERE m.scheme_id = r.scheme_id)
+                  FROM round r LEFT JOIN round_participant p ON p.round_id = r.id AND p.laboratory_id = :l
+                 WHERE r.id = :r
+                   FOR SHARE OF r
+                """).setParameter("r", roundId).setParameter("l", laboratoryId).getResultList();
+        if (rows.isEmpty()) {
+            throw new DomainException.NotFound("The round");
+        }
+        Object[] row = rows.get(0);
+        SubmissionWindow window = new SubmissionWindow(((Number) row[0]).longValue(), (String) row[1], (String) row[2],
+                org.roundtable.platform.Timestamps.utc(row[3]), (String) row[4], (String) row[5],
+                List.of(((String) row[6]).split(",")));
+        return new SubmissionHead(window, RoundKind.PRECISION_EXPERIMENT.name().equals(row[7]),
+                Optional.ofNullable((String) row[8]), (String) row[9]);
+    }
+
     @Transactional
     public SubmissionWindow window(long roundId) {
         Round round = entityManager.find(Round.class, roundId);

@@ -171,9 +171,13 @@ public class SubmissionPages {
         FormJson json = formAsJson(rows(roundId, null, Map.of()), form);
         SubmissionService.Consent consent = tokens.consent(roundId, form.getFirst("confirmationToken"),
                 ticked(form.get("confirm")), "yes".equals(form.getFirst("replaceAll")));
-        return attempt(roundId, form, json.keys(), false, () -> submissions.submit(roundId,
-                new SubmissionService.Upload(SubmissionService.Channel.FORM, UploadFormat.JSON, json.json(), null, null),
-                consent, null, clientAddress()));
+        return attempt(roundId, form, json.keys(), false, () -> {
+            try (Admission.Slot place = admission.submissionPlace()) {
+                return submissions.submit(roundId,
+                        new SubmissionService.Upload(SubmissionService.Channel.FORM, UploadFormat.JSON, json.json(), null, null),
+                        consent, null, clientAddress());
+            }
+        });
     }
 
     /** A CSV or XLSX file; its warnings and left-out measurands are agreed to as on the form, by sending it again. */
@@ -195,11 +199,16 @@ public class SubmissionPages {
             if (format == null) {
                 throw new DomainException.BadRequest("Upload a .csv or .xlsx file.");
             }
-            // the file waits on disk (multipart parts are spooled) until an upload slot is free
-            try (Admission.Slot ignored = admission.uploadSlot()) {
-                return submissions.submit(roundId, new SubmissionService.Upload(
-                        format == UploadFormat.XLSX ? SubmissionService.Channel.XLSX : SubmissionService.Channel.CSV, format,
-                        read(file), file.fileName(), file.contentType()), consent, null, clientAddress());
+            // a place in the submission queue; the file waits on disk (multipart parts are spooled) until an upload
+            // slot is free, and is read and parsed inside it; the database work is done outside the slot
+            try (Admission.Slot place = admission.submissionPlace()) {
+                SubmissionService.Prepared prepared;
+                try (Admission.Slot ignored = admission.uploadSlot()) {
+                    prepared = submissions.prepare(roundId, new SubmissionService.Upload(
+                            format == UploadFormat.XLSX ? SubmissionService.Channel.XLSX : SubmissionService.Channel.CSV,
+                            format, read(file), file.fileName(), file.contentType()));
+                }
+                return submissions.submit(prepared, consent, null, clientAddress());
             }
         });
     }

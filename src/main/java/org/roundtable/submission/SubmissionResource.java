@@ -69,11 +69,14 @@ public class SubmissionResource {
                                @QueryParam("confirmWarnings") boolean confirmWarnings,
                                @QueryParam("replaceAll") boolean replaceAll,
                                @HeaderParam("Idempotency-Key") String idempotencyKey) {
-        // the body is read only once an upload slot is free: a waiting upload holds no memory
-        SubmissionViews.Receipt receipt = admission.withUpload(body, Limits.defaults().maxFileBytes(), content ->
-                submissions.submit(roundId, new SubmissionService.Upload(SubmissionService.Channel.JSON, UploadFormat.JSON,
-                        content, null, MediaType.APPLICATION_JSON),
-                        SubmissionService.Consent.flags(confirmWarnings, replaceAll), idempotencyKey, clientAddress()));
+        // the request holds a place in the submission queue (taken on the event loop by web.EdgeLimits; past its
+        // bound: 503); the body is read and parsed only once an upload slot is free (a waiting upload holds no
+        // memory); the database work is done outside the slot
+        SubmissionService.Prepared prepared = admission.withUpload(body, Limits.defaults().maxFileBytes(), content ->
+                submissions.prepare(roundId, new SubmissionService.Upload(SubmissionService.Channel.JSON,
+                        UploadFormat.JSON, content, null, MediaType.APPLICATION_JSON)));
+        SubmissionViews.Receipt receipt = submissions.submit(prepared,
+                SubmissionService.Consent.flags(confirmWarnings, replaceAll), idempotencyKey, clientAddress());
         return Response.status(receipt.unchanged() ? 200 : 201).entity(receipt).build();
     }
 
@@ -88,12 +91,13 @@ public class SubmissionResource {
                                @QueryParam("replaceAll") boolean replaceAll,
                                @HeaderParam("Idempotency-Key") String idempotencyKey) {
         boolean xlsx = contentType != null && contentType.startsWith(XLSX_TYPE);
-        SubmissionViews.Receipt receipt = admission.withUpload(body, Limits.defaults().maxFileBytes(), content ->
-                submissions.submit(roundId, new SubmissionService.Upload(
+        SubmissionService.Prepared prepared = admission.withUpload(body, Limits.defaults().maxFileBytes(), content ->
+                submissions.prepare(roundId, new SubmissionService.Upload(
                         xlsx ? SubmissionService.Channel.XLSX : SubmissionService.Channel.CSV,
                         xlsx ? UploadFormat.XLSX : UploadFormat.CSV, content,
-                        xlsx ? "api-upload.xlsx" : "api-upload.csv", contentType),
-                        SubmissionService.Consent.flags(confirmWarnings, replaceAll), idempotencyKey, clientAddress()));
+                        xlsx ? "api-upload.xlsx" : "api-upload.csv", contentType)));
+        SubmissionViews.Receipt receipt = submissions.submit(prepared,
+                SubmissionService.Consent.flags(confirmWarnings, replaceAll), idempotencyKey, clientAddress());
         return Response.status(receipt.unchanged() ? 200 : 201).entity(receipt).build();
     }
 

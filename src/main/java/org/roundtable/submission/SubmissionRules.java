@@ -18,9 +18,29 @@ import java.util.Set;
  * Turns a round's open measurands into the intake's {@link UploadRules}: the measurand's own unit and, for
  * convenience, the other mass-fraction unit too (converted exactly); "less than" results allowed; a missing
  * expected range means no range warning.
+ *
+ * <p>The rules are kept per round with the stamp they were built for ({@link RoundAccess.SubmissionHead#rulesStamp()},
+ * read with the round row under its lock by every submission), so a submission rebuilds nothing while they hold.
+ * Every writer of what they are made of changes the stamp, on any instance: a new frozen plan version
+ * ({@code PlanStore}, {@code PrecisionPlanStore}), a qualification decision such as a withdrawn measurand
+ * ({@code QualificationService}), a measurand added to or changed in the scheme's catalogue
+ * ({@code SchemeService.putMeasurand}, versioned rows, never deleted), any change of the round row itself
+ * ({@code Round} is versioned: state, item labels, kind).
  */
 @ApplicationScoped
 public class SubmissionRules {
+
+    /**
+     * What a round's uploads are read with, as of one stamp: for a proficiency test the upload rules and the
+     * catalogue's order of elements; for a precision experiment its intake rules.
+     */
+    record Basis(String stamp, UploadRules upload, org.roundtable.submission.intake.PrecisionIntake.Rules precision,
+                 List<String> measurandOrder) {
+    }
+
+    /** Rounds whose rules are kept at most (rounds open at once are a handful; past this the cache starts over). */
+    private static final int KEPT = 512;
+    private final java.util.concurrent.ConcurrentHashMap<Long, Basis> kept = new java.util.concurrent.ConcurrentHashMap<>();
 
     /** The most replicate values a laboratory may list per result. */
     static final int MAXIMUM_REPLICATES = 10;
@@ -33,14 +53,40 @@ public class SubmissionRules {
         this.rounds = rounds;
     }
 
-    public UploadRules forRound(long roundId) {
-        RoundAccess.SubmissionWindow window = rounds.window(roundId);
-        List<RoundAccess.OpenMeasurand> measurands = rounds.openMeasurands(roundId);
+    /** The rules last built for the round, whatever their stamp, or null: for reading an upload before the lock. */
+    Basis cached(long roundId) {
+        return kept.get(roundId);
+    }
+
+    /**
+     * The rules for the round as of {@code head}'s stamp: the kept ones when the stamp is theirs, else built now
+     * (inside the caller's transaction) and kept.
+     */
+    Basis current(long roundId, RoundAccess.SubmissionHead head) {
+        Basis basis = kept.get(roundId);
+        if (basis != null && basis.stamp().equals(head.rulesStamp())) {
+            return basis;
+        }
+        Basis built = head.precisionExperiment()
+                ? new Basis(head.rulesStamp(), null, forPrecisionExperiment(roundId).orElseThrow(), List.of())
+                : new Basis(head.rulesStamp(), rules(rounds.openMeasurands(roundId), head.window().itemLabels()), null,
+                rounds.measurandOrder(roundId));
+        if (kept.size() >= KEPT) {
+            kept.clear();
+        }
+        kept.put(roundId, built);
+        return built;
+    }
+
+    private static UploadRules rules(List<RoundAccess.OpenMeasurand> measurands, List<String> itemLabels) {
         if (measurands.isEmpty()) {
             throw new DomainException.Conflict("This round has no measurand open for results.");
         }
-        List<MeasurandRule> rules = measurands.stream().map(SubmissionRules::rule).toList();
-        return new UploadRules(rules, window.itemLabels(), MAXIMUM_REPLICATES);
+        return new UploadRules(measurands.stream().map(SubmissionRules::rule).toList(), itemLabels, MAXIMUM_REPLICATES);
+    }
+
+    public UploadRules forRound(long roundId) {
+        return rules(rounds.openMeasurands(roundId), rounds.window(roundId).itemLabels());
     }
 
     /** The intake rules of a precision experiment, or empty for another kind of round. */

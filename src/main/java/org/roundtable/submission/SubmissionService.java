@@ -22,7 +22,6 @@ import org.roundtable.submission.intake.ReportedNumber;
 import org.roundtable.submission.intake.ReportedResult;
 import org.roundtable.submission.intake.ResultIntake;
 import org.roundtable.submission.intake.UploadFormat;
-import org.roundtable.submission.intake.UploadRules;
 
 import java.nio.charset.StandardCharsets;
 import java.sql.PreparedStatement;
@@ -40,12 +39,17 @@ import java.util.stream.Collectors;
  * Accepting a laboratory's results: one validation path for every channel (form, CSV, XLSX, JSON API), all or
  * nothing, each accepted submit a new immutable revision with a receipt given only after commit.
  *
- * <p>Order of work: the upload is parsed and validated first, outside any transaction (a rejected upload touches
- * nothing). Then, in one transaction: the round row is read under a shared lock and its state and deadline checked
- * (a lifecycle step waits for writes in flight, so a submit racing the close is fully in or refused); the
- * Idempotency-Key, if any, is claimed (a retry gets the original receipt); the laboratory's submission row is locked
- * ({@code FOR UPDATE}, so two simultaneous submits become revisions n and n+1); the revision, its results and the
- * uploaded file are written; review flags are raised; one audit event records the revision with its payload hash.
+ * <p>Order of work: the upload is parsed and validated first, outside any transaction, with the round's upload
+ * rules as {@link SubmissionRules} keeps them (a rejected upload writes nothing). Then, in one transaction: the round
+ * row is read under a shared lock in one statement with the laboratory's enrolment and the stamp of the upload rules
+ * (a lifecycle step waits for writes in flight, so a submit racing the close is fully in or refused); a laboratory
+ * not enrolled gets 404 before any verdict on its upload; if the rules changed (or were not kept yet) the upload is
+ * read again with the new ones; the Idempotency-Key, if any, is claimed (a retry gets the original receipt); the
+ * laboratory's submission row is created or locked by one upsert (so two simultaneous submits become revisions n and
+ * n+1); the current revision is read with what it reports in one statement; the revision, its results (one JDBC
+ * batch) and the uploaded file are written; review flags are raised; one audit event records the revision with its
+ * payload hash. A first submission without Idempotency-Key sends 7 statements in this transaction
+ * ({@code SubmissionStatementsTest} holds the whole request to its budget).
  */
 @ApplicationScoped
 public class SubmissionService {
@@ -180,23 +184,64 @@ public class SubmissionService {
      */
     public SubmissionViews.Receipt submit(long roundId, Upload upload, Consent consent, String idempotencyKey,
                                           String clientAddress) {
-        return submitFor(currentUser.requireLaboratoryId(), roundId, upload, consent, idempotencyKey, clientAddress);
+        return submitFor(currentUser.requireLaboratoryId(), prepare(roundId, upload), consent, idempotencyKey, clientAddress);
+    }
+
+    /**
+     * An upload read against the round's rules as they are kept, before any transaction: the costly part of a
+     * submission, done inside an upload slot by the endpoints; its verdict is given by {@link #submit(Prepared,
+     * Consent, String, String)} once the laboratory's enrolment is checked.
+     */
+    public static final class Prepared {
+        private final long roundId;
+        private final Upload upload;
+        private final SubmissionRules.Basis basis;
+        private final Reading reading;
+
+        private Prepared(long roundId, Upload upload, SubmissionRules.Basis basis, Reading reading) {
+            this.roundId = roundId;
+            this.upload = upload;
+            this.basis = basis;
+            this.reading = reading;
+        }
+    }
+
+    /** Reads and checks {@code upload} for the round (no database work while the round's rules are kept). */
+    public Prepared prepare(long roundId, Upload upload) {
+        SubmissionRules.Basis early = rules.cached(roundId);
+        return new Prepared(roundId, upload, early, early == null ? null : read(early, upload));
+    }
+
+    /** As {@link #submit(long, Upload, Consent, String, String)} for an upload already {@link #prepare prepared}. */
+    public SubmissionViews.Receipt submit(Prepared prepared, Consent consent, String idempotencyKey, String clientAddress) {
+        return submitFor(currentUser.requireLaboratoryId(), prepared, consent, idempotencyKey, clientAddress);
     }
 
     /** As {@link #submit}, for a laboratory named by the caller: only the demo loader, which acts for the laboratories. */
     SubmissionViews.Receipt submitFor(long laboratoryId, long roundId, Upload upload, boolean confirmWarnings,
                                       String idempotencyKey, String clientAddress) {
-        return submitFor(laboratoryId, roundId, upload, Consent.flags(confirmWarnings, false), idempotencyKey,
+        return submitFor(laboratoryId, prepare(roundId, upload), Consent.flags(confirmWarnings, false), idempotencyKey,
                 clientAddress);
     }
 
-    private SubmissionViews.Receipt submitFor(long laboratoryId, long roundId, Upload upload, Consent consent,
+    private SubmissionViews.Receipt submitFor(long laboratoryId, Prepared prepared, Consent consent,
                                               String idempotencyKey, String clientAddress) {
-        rounds.participantCode(roundId, laboratoryId).orElseThrow(() -> new DomainException.NotFound("The round"));
-        Payload accepted = validate(roundId, upload);
+        // read with the rules kept for the round, before any transaction (prepare); its verdict is given only once
+        // the enrolment is known (another laboratory learns nothing of the round), and it is read again under the
+        // lock if the round's rules changed meanwhile (or were not kept yet)
+        long roundId = prepared.roundId;
+        Upload upload = prepared.upload;
+        SubmissionRules.Basis early = prepared.basis;
+        Reading earlyReading = prepared.reading;
         String requestHash = Secrets.sha256Hex(roundId + "\n" + upload.channel() + "\n" + Secrets.sha256Hex(upload.content()));
         return QuarkusTransaction.requiringNew().call(() -> {
-            RoundAccess.SubmissionWindow window = rounds.lockForSubmission(roundId);
+            RoundAccess.SubmissionHead head = rounds.lockForSubmission(roundId, laboratoryId);
+            if (head.participantCode().isEmpty()) {
+                throw new DomainException.NotFound("The round");
+            }
+            SubmissionRules.Basis basis = rules.current(roundId, head);
+            Payload accepted = (basis == early ? earlyReading : read(basis, upload)).accepted();
+            RoundAccess.SubmissionWindow window = head.window();
             if (idempotencyKey != null) {
                 // a retry gets its original receipt even if the round closed in between
                 Optional<IdempotencyStore.StoredAnswer> earlier = idempotency.claim(scope(laboratoryId), idempotencyKey, requestHash);
@@ -214,16 +259,17 @@ public class SubmissionService {
                 throw new DomainException.Conflict("The result deadline passed at " + deadlineText(window)
                         + ". This round does not accept late results.");
             }
-            Current current = current(roundId, laboratoryId);
+            Head submission = lockSubmission(roundId, laboratoryId, now);
+            Current current = current(submission);
             SubmissionViews.Receipt receipt;
             if (current != null && current.sha256().equals(accepted.sha256())) {
                 // the same values again: no new revision, the current one's receipt
                 receipt = current.receipt();
             } else {
-                agree(roundId, window, accepted, current, consent);
+                agree(basis, window, accepted, current, consent);
                 boolean late = timing != ResultTiming.ON_TIME;
                 // only browser sessions are compared by address: LIMS integrations of many laboratories often share one host
-                receipt = store(roundId, laboratoryId, upload, accepted, late, now, null, null,
+                receipt = store(roundId, laboratoryId, submission, upload, accepted, late, now, null, null,
                         currentUser.viaApiToken() ? null : fingerprint(clientAddress));
             }
             if (idempotencyKey != null) {
@@ -233,10 +279,46 @@ public class SubmissionService {
         });
     }
 
+    /** An upload read against one set of rules: what it stores, or why it is refused (given only after the enrolment check). */
+    private record Reading(Payload payload, DomainException refusal) {
+        Payload accepted() {
+            if (refusal != null) {
+                throw refusal;
+            }
+            return payload;
+        }
+    }
+
+    private Reading read(SubmissionRules.Basis basis, Upload upload) {
+        try {
+            return new Reading(validate(basis, upload), null);
+        } catch (DomainException refused) {
+            return new Reading(null, refused);
+        }
+    }
+
+    /** The laboratory's submission row, created if need be, locked until the transaction ends. */
+    private record Head(long id, int currentRevision) {
+    }
+
+    /**
+     * Creates or locks the laboratory's submission row in one statement (an upsert takes the row lock, like
+     * {@code FOR UPDATE}): two simultaneous submits of one laboratory become revisions n and n+1, each seeing the
+     * other's as current.
+     */
+    private Head lockSubmission(long roundId, long laboratoryId, OffsetDateTime now) {
+        Object[] row = (Object[]) entityManager.createNativeQuery("""
+                INSERT INTO submission (round_id, laboratory_id, created_at, updated_at) VALUES (:r, :l, :now, :now)
+                ON CONFLICT (round_id, laboratory_id) DO UPDATE SET round_id = EXCLUDED.round_id
+                RETURNING id, current_revision
+                """).setParameter("r", roundId).setParameter("l", laboratoryId).setParameter("now", now).getSingleResult();
+        return new Head(((Number) row[0]).longValue(), ((Number) row[1]).intValue());
+    }
+
     /** Refuses the submit unless the laboratory agreed to its warnings and to the measurands it would drop. */
-    private void agree(long roundId, RoundAccess.SubmissionWindow window, Payload accepted, Current current,
+    private void agree(SubmissionRules.Basis basis, RoundAccess.SubmissionWindow window, Payload accepted, Current current,
                        Consent consent) {
-        List<String> dropped = current == null ? List.of() : dropped(roundId, window, current.keys(), accepted.keys());
+        List<String> dropped = current == null ? List.of() : dropped(basis.measurandOrder(), window, current.keys(), accepted.keys());
         List<SubmissionViews.Warning> warnings = accepted.warnings().stream()
                 .map(w -> new SubmissionViews.Warning(w.row(), w.column(), w.value(), w.key(), w.message())).toList();
         Shown shown = new Shown(accepted.sha256(), warnings, dropped, current == null ? 0 : current.keys().size());
@@ -261,10 +343,9 @@ public class SubmissionService {
     }
 
     /** The measurands of {@code before} missing from {@code after}, in the scheme's order, with the item where needed. */
-    private List<String> dropped(long roundId, RoundAccess.SubmissionWindow window, List<String[]> before,
-                                 List<String[]> after) {
+    private static List<String> dropped(List<String> order, RoundAccess.SubmissionWindow window, List<String[]> before,
+                                        List<String[]> after) {
         java.util.Set<String> kept = after.stream().map(k -> k[0] + "|" + k[1]).collect(Collectors.toSet());
-        List<String> order = rounds.measurandOrder(roundId);
         boolean paired = window.itemLabels().size() > 1;
         return before.stream().filter(k -> !kept.contains(k[0] + "|" + k[1]))
                 .sorted(java.util.Comparator.<String[]>comparingInt(k -> order.contains(k[0]) ? order.indexOf(k[0]) : order.size())
@@ -277,29 +358,26 @@ public class SubmissionService {
     private record Current(String sha256, List<String[]> keys, SubmissionViews.Receipt receipt) {
     }
 
-    private Current current(long roundId, long laboratoryId) {
-        @SuppressWarnings("unchecked")
-        List<Object[]> heads = entityManager.createNativeQuery("""
-                SELECT v.id, s.id, v.revision, v.receipt_id, v.payload_sha256, v.submitted_at, v.late, v.channel,
-                       v.warnings_json, v.detection_json
-                  FROM submission s JOIN submission_revision v ON v.submission_id = s.id AND v.revision = s.current_revision
-                 WHERE s.round_id = :r AND s.laboratory_id = :l
-                """).setParameter("r", roundId).setParameter("l", laboratoryId).getResultList();
-        if (heads.isEmpty()) {
+    /** The current revision of the locked submission row with what it reports, in one statement; null before the first. */
+    private Current current(Head submission) {
+        if (submission.currentRevision() == 0) {
             return null;
         }
-        Object[] h = heads.get(0);
-        @SuppressWarnings("unchecked")
-        List<Object[]> rows = entityManager.createNativeQuery(
-                        "SELECT element, item_label FROM reported_result WHERE revision_id = :id ORDER BY element, item_label")
-                .setParameter("id", ((Number) h[0]).longValue()).getResultList();
-        List<String[]> keys = rows.stream().map(r -> new String[]{(String) r[0], (String) r[1]}).toList();
-        String sha = h[4].toString().strip();
-        List<SubmissionViews.Warning> warnings = readWarnings((String) h[8]);
-        String detected = h[9] == null ? null : describe(readDetection((String) h[9]));
-        SubmissionViews.Receipt receipt = new SubmissionViews.Receipt(((Number) h[1]).longValue(),
-                ((Number) h[2]).intValue(), (String) h[3], sha, org.roundtable.platform.Timestamps.utc(h[5]),
-                (Boolean) h[6], (String) h[7], warnings, detected, true);
+        Object[] h = (Object[]) entityManager.createNativeQuery("""
+                SELECT v.receipt_id, v.payload_sha256, v.submitted_at, v.late, v.channel, v.warnings_json, v.detection_json,
+                       (SELECT string_agg(r.element || '|' || r.item_label, ',' ORDER BY r.element, r.item_label)
+                          FROM reported_result r WHERE r.revision_id = v.id)
+                  FROM submission_revision v WHERE v.submission_id = :s AND v.revision = :revision
+                """).setParameter("s", submission.id()).setParameter("revision", submission.currentRevision())
+                .getSingleResult();
+        List<String[]> keys = h[7] == null ? List.of()
+                : java.util.Arrays.stream(((String) h[7]).split(",")).map(k -> k.split("\\|", 2)).toList();
+        String sha = h[1].toString().strip();
+        List<SubmissionViews.Warning> warnings = readWarnings((String) h[5]);
+        String detected = h[6] == null ? null : describe(readDetection((String) h[6]));
+        SubmissionViews.Receipt receipt = new SubmissionViews.Receipt(submission.id(), submission.currentRevision(),
+                (String) h[0], sha, org.roundtable.platform.Timestamps.utc(h[2]), (Boolean) h[3], (String) h[4], warnings,
+                detected, true);
         return new Current(sha, keys, receipt);
     }
 
@@ -330,24 +408,31 @@ public class SubmissionService {
         if (reason == null || reason.isBlank() || evidence == null || evidence.isBlank()) {
             throw new DomainException.BadRequest("A correction needs a reason and the evidence (e.g. the lab's raw data).");
         }
-        rounds.participantCode(roundId, laboratoryId).orElseThrow(() -> new DomainException.NotFound("The laboratory's submission"));
         Upload upload = new Upload(Channel.CORRECTION, UploadFormat.JSON, json, null, null);
-        Payload accepted = validate(roundId, upload);
+        SubmissionRules.Basis early = rules.cached(roundId);
+        Reading earlyReading = early == null ? null : read(early, upload);
         return QuarkusTransaction.requiringNew().call(() -> {
-            RoundAccess.SubmissionWindow window = rounds.lockForSubmission(roundId);
+            RoundAccess.SubmissionHead head = rounds.lockForSubmission(roundId, laboratoryId);
+            if (head.participantCode().isEmpty()) {
+                throw new DomainException.NotFound("The laboratory's submission");
+            }
+            SubmissionRules.Basis basis = rules.current(roundId, head);
+            Payload accepted = (basis == early ? earlyReading : read(basis, upload)).accepted();
+            RoundAccess.SubmissionWindow window = head.window();
             if (!window.closedBeforeIssue()) {
                 throw new DomainException.Conflict("Corrections are made after the round closes and before a report is"
                         + " issued; the round is " + window.state().toLowerCase().replace('_', ' ') + ".");
             }
-            return store(roundId, laboratoryId, upload, accepted, false, now(), strip(reason, 2000), strip(evidence, 2000), null);
+            OffsetDateTime now = now();
+            return store(roundId, laboratoryId, lockSubmission(roundId, laboratoryId, now), upload, accepted, false, now,
+                    strip(reason, 2000), strip(evidence, 2000), null);
         });
     }
 
     /** Parses and validates the upload (errors refuse it at once); warnings are agreed to later, under the lock. */
-    private Payload validate(long roundId, Upload upload) {
-        Optional<PrecisionIntake.Rules> precision = rules.forPrecisionExperiment(roundId);
-        if (precision.isPresent()) {
-            PrecisionIntake.Outcome outcome = precisionIntake.read(upload.content(), upload.format(), precision.get());
+    private Payload validate(SubmissionRules.Basis basis, Upload upload) {
+        if (basis.precision() != null) {
+            PrecisionIntake.Outcome outcome = precisionIntake.read(upload.content(), upload.format(), basis.precision());
             if (outcome instanceof PrecisionIntake.Rejected rejected) {
                 throw refused(rejected.problems(), rejected.detection());
             }
@@ -358,8 +443,7 @@ public class SubmissionService {
                     ok.warnings(), ok.detection(), ok.replicates().size(), List.of(),
                     id -> insertReplicates(id, ok.replicates()));
         }
-        UploadRules uploadRules = rules.forRound(roundId);
-        IntakeResult result = intake.read(upload.content(), upload.format(), uploadRules);
+        IntakeResult result = intake.read(upload.content(), upload.format(), basis.upload());
         if (result instanceof IntakeResult.Rejected rejected) {
             throw refused(rejected.problems(), rejected.detection());
         }
@@ -379,18 +463,11 @@ public class SubmissionService {
                 + describe(detection) + ".", details);
     }
 
-    private SubmissionViews.Receipt store(long roundId, long laboratoryId, Upload upload, Payload accepted,
+    private SubmissionViews.Receipt store(long roundId, long laboratoryId, Head submission, Upload upload, Payload accepted,
                                          boolean late, OffsetDateTime now, String correctionReason, String evidence,
                                          String clientFingerprint) {
-        entityManager.createNativeQuery("""
-                INSERT INTO submission (round_id, laboratory_id, created_at, updated_at) VALUES (:r, :l, :now, :now)
-                ON CONFLICT (round_id, laboratory_id) DO NOTHING
-                """).setParameter("r", roundId).setParameter("l", laboratoryId).setParameter("now", now).executeUpdate();
-        Object[] submission = (Object[]) entityManager.createNativeQuery("""
-                SELECT id, current_revision FROM submission WHERE round_id = :r AND laboratory_id = :l FOR UPDATE
-                """).setParameter("r", roundId).setParameter("l", laboratoryId).getSingleResult();
-        long submissionId = ((Number) submission[0]).longValue();
-        int revision = ((Number) submission[1]).intValue() + 1;
+        long submissionId = submission.id();
+        int revision = submission.currentRevision() + 1;
         String receiptId = "RT-" + Secrets.randomToken(16);
         String valuesHash = accepted.valuesHash();
         List<SubmissionViews.Warning> warnings = accepted.warnings().stream()

@@ -22,6 +22,11 @@ import java.util.Map;
  * ({@code quarkus.http.limits.max-header-size}) is set well above ours, so that requests reach this check; only a
  * request beyond the codec's limit still gets the codec's bare answer.
  * <p>
+ * Submissions through the JSON API take their place in the submission queue here, on the event loop, before they
+ * wait for a worker thread ({@link Admission#submissionQueue()}): a free place is held until the response ends;
+ * without one the request is looked at again every 20 ms for the queue's short wait, then answered 503 with
+ * {@code Retry-After} (the worker pool's own queue, which has no bound, is never reached).
+ * <p>
  * A failure handler gives the same body to an API token refused during authentication (401), which Quarkus would
  * otherwise answer with an empty challenge.
  */
@@ -73,7 +78,39 @@ public class EdgeLimits {
                 return;
             }
         }
+        if (request.method() == io.vertx.core.http.HttpMethod.POST && SUBMISSION_API.matcher(request.path()).matches()) {
+            admitSubmission(context, System.nanoTime() + admission.submissionQueue().waitFor().toNanos());
+            return;
+        }
         context.next();
+    }
+
+    /** POST of results through the JSON API (JSON body or file). */
+    private static final java.util.regex.Pattern SUBMISSION_API =
+            java.util.regex.Pattern.compile("/api/v1/my-rounds/[^/]+/submission(/file)?/?");
+
+    private void admitSubmission(RoutingContext context, long until) {
+        Admission.Slot place = admission.submissionQueue().tryEnter();
+        if (place != null) {
+            java.util.concurrent.atomic.AtomicBoolean left = new java.util.concurrent.atomic.AtomicBoolean();
+            context.addEndHandler(ended -> {
+                if (left.compareAndSet(false, true)) {
+                    place.close();
+                }
+            });
+            context.next();
+            return;
+        }
+        if (context.response().closed()) {
+            return;
+        }
+        if (System.nanoTime() >= until) {
+            Admission.Unavailable refused = admission.submissionQueue().refusal();
+            context.response().headers().set("Retry-After", Integer.toString(refused.retryAfterSeconds()));
+            problem(context, 503, refused.title(), refused.detail());
+            return;
+        }
+        context.vertx().setTimer(20, id -> admitSubmission(context, until));
     }
 
     private void failed(RoutingContext context) {

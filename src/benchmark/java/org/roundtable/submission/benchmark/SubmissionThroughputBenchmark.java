@@ -41,13 +41,24 @@ import java.util.concurrent.atomic.AtomicInteger;
  *
  * <p>Run by {@code mvn -Pbenchmark verify}: starts an embedded PostgreSQL 17 and the packaged jar
  * ({@code target/quarkus-app/quarkus-run.jar}) as a separate process, sets up the round and the laboratories' API
- * tokens with set-based SQL, then measures. Writes {@code target/benchmarks/submissions.json}. Bounded in count and
- * time; all traffic stays on 127.0.0.1.
+ * tokens with set-based SQL, then measures: a closed loop of {@code bench.clients} clients (capacity), an open loop
+ * at a fixed arrival rate ({@code bench.openLoopRate}, default 100/s, for {@code bench.openLoopSeconds}, latency from
+ * the scheduled time: {@code openLoopP99Millis}), optionally an overload run ({@code bench.overloadRate}; 503 answers
+ * counted apart), and the statements per submission from the server's statement log
+ * ({@code statementsPerSubmission}). Writes {@code target/benchmarks/submissions.json}. Bounded in count and time;
+ * all traffic stays on 127.0.0.1.
  */
 public final class SubmissionThroughputBenchmark {
 
     static final int LABORATORIES = Integer.getInteger("bench.laboratories", 10_000);
     static final int CLIENTS = Integer.getInteger("bench.clients", 16);
+    /** Arrival rate of the open-loop run (submissions per second) and its length. */
+    static final double OPEN_LOOP_RATE = Double.parseDouble(System.getProperty("bench.openLoopRate", "100"));
+    static final int OPEN_LOOP_SECONDS = Integer.getInteger("bench.openLoopSeconds", 20);
+    /** An optional overload run at this rate for 5 s (0: none), to see 503 answers rather than queueing. */
+    static final double OVERLOAD_RATE = Double.parseDouble(System.getProperty("bench.overloadRate", "0"));
+    /** Sequential submissions whose statements are counted from the server's statement log. */
+    static final int COUNTED = 20;
     static final List<String> ELEMENTS = List.of("C", "Si", "Mn", "P", "S", "Cr", "Ni", "Mo", "Cu", "V", "Ti", "Nb", "Al",
             "B", "Co", "As", "Sn", "Sb", "Ca", "Zr", "W", "Pb", "Bi", "Zn", "Mg", "Ce", "La", "Ta", "Se", "Te", "Fe", "Be",
             "Li", "Na", "K", "Ga", "Ge", "In", "Cd", "Ag", "Au", "Pt", "Pd", "Rh", "Y", "Hf", "Re", "Os", "Ir", "Ru");
@@ -61,8 +72,13 @@ public final class SubmissionThroughputBenchmark {
         if (!Files.exists(jar)) {
             throw new IllegalStateException("package the application first: " + jar);
         }
+        Path pgLog = work.resolve("pglog");
         try (EmbeddedPostgres postgres = EmbeddedPostgres.builder().setDataDirectory(work.resolve("pg"))
-                .setServerConfig("fsync", "on").setServerConfig("synchronous_commit", "on").start()) {
+                .setServerConfig("fsync", "on").setServerConfig("synchronous_commit", "on")
+                // the statement log is switched on only while the statements of a few submissions are counted
+                .setServerConfig("logging_collector", "on").setServerConfig("log_directory", pgLog.toString())
+                .setServerConfig("log_filename", "postgresql.log").setServerConfig("log_line_prefix", "%p ")
+                .start()) {
             String jdbc = postgres.getJdbcUrl("postgres", "postgres");
             int port = freePort();
             Process app = startApplication(jar, jdbc, port, work);
@@ -72,9 +88,35 @@ public final class SubmissionThroughputBenchmark {
                 long roundId;
                 try (Connection c = DriverManager.getConnection(jdbc, "postgres", "")) {
                     roundId = setUpRound(c);
-                    tokens = setUpLaboratories(c, roundId);
+                    // the closed loop's laboratories, then the open loop's, the overload run's and the counted ones
+                    tokens = setUpLaboratories(c, roundId, LABORATORIES + (int) Math.round(OPEN_LOOP_RATE * OPEN_LOOP_SECONDS)
+                            + (int) Math.round(OVERLOAD_RATE * 5) + COUNTED);
                 }
-                Map<String, Object> figures = surge(port, roundId, tokens);
+                int openLoopCount = (int) Math.round(OPEN_LOOP_RATE * OPEN_LOOP_SECONDS);
+                int overloadCount = (int) Math.round(OVERLOAD_RATE * 5);
+                int closed = tokens.length - openLoopCount - overloadCount - COUNTED;
+                Map<String, Object> figures = surge(port, roundId, java.util.Arrays.copyOfRange(tokens, 0, closed));
+                HttpClient client = HttpClient.newBuilder().connectTimeout(Duration.ofSeconds(10)).build();
+                URI uri = URI.create("http://127.0.0.1:" + port + "/api/v1/my-rounds/" + roundId + "/submission");
+                Map<String, Object> open = openLoop(client, uri, tokens, closed, closed + openLoopCount, OPEN_LOOP_RATE);
+                figures.put("openLoopRate", OPEN_LOOP_RATE);
+                figures.put("openLoopSubmissions", openLoopCount);
+                figures.put("openLoopP50Millis", open.get("p50Millis"));
+                figures.put("openLoopP99Millis", open.get("p99Millis"));
+                figures.put("openLoopRefused", open.get("refused"));
+                figures.put("openLoopFailures", open.get("failures"));
+                if (overloadCount > 0) {
+                    Map<String, Object> over = openLoop(client, uri, tokens, closed + openLoopCount,
+                            closed + openLoopCount + overloadCount, OVERLOAD_RATE);
+                    figures.put("overloadRate", OVERLOAD_RATE);
+                    figures.put("overloadSubmissions", overloadCount);
+                    figures.put("overloadAccepted", over.get("accepted"));
+                    figures.put("overloadRefused503", over.get("refused"));
+                    figures.put("overloadAcceptedP99Millis", over.get("p99Millis"));
+                    figures.put("overloadRefusedP99Millis", over.get("refusedP99Millis"));
+                }
+                figures.put("statementsPerSubmission", countStatements(jdbc, pgLog, client, uri,
+                        java.util.Arrays.copyOfRange(tokens, tokens.length - COUNTED, tokens.length)));
                 try (Connection c = DriverManager.getConnection(jdbc, "postgres", "");
                      Statement s = c.createStatement();
                      ResultSet rs = s.executeQuery("SELECT count(*) FROM reported_result")) {
@@ -95,10 +137,11 @@ public final class SubmissionThroughputBenchmark {
     private static Map<String, Object> surge(int port, long roundId, String[] tokens) throws Exception {
         HttpClient client = HttpClient.newBuilder().connectTimeout(Duration.ofSeconds(10)).build();
         URI uri = URI.create("http://127.0.0.1:" + port + "/api/v1/my-rounds/" + roundId + "/submission");
-        // warm-up: 200 submissions, not measured
-        runSubmissions(client, uri, tokens, 0, Math.min(200, tokens.length));
+        // warm-up: 200 submissions (a quarter of a small run), not measured
+        int warmUp = Math.min(200, tokens.length / 4);
+        runSubmissions(client, uri, tokens, 0, warmUp);
         long start = System.nanoTime();
-        long[] latencies = runSubmissions(client, uri, tokens, Math.min(200, tokens.length), tokens.length);
+        long[] latencies = runSubmissions(client, uri, tokens, warmUp, tokens.length);
         double seconds = (System.nanoTime() - start) / 1e9;
         long[] sorted = Arrays.stream(latencies).filter(l -> l >= 0).sorted().toArray();
         int failures = (int) Arrays.stream(latencies).filter(l -> l < 0).count();
@@ -114,6 +157,129 @@ public final class SubmissionThroughputBenchmark {
         figures.put("p99Millis", round(percentile(sorted, 0.99) / 1e6));
         figures.put("failures", failures);
         return figures;
+    }
+
+    /**
+     * Open loop: submission i of [from, to) is due at start + i / rate whatever happened before it (no coordinated
+     * omission); its latency is measured from that scheduled time to the answer. 503 answers are counted apart.
+     */
+    private static Map<String, Object> openLoop(HttpClient client, URI uri, String[] tokens, int from, int to, double rate)
+            throws Exception {
+        int n = to - from;
+        long[] latencies = new long[n];
+        int[] statuses = new int[n];
+        ExecutorService pool = Executors.newFixedThreadPool(256);
+        long start = System.nanoTime() + 200_000_000L;
+        try {
+            List<Future<?>> answers = new ArrayList<>();
+            for (int k = 0; k < n; k++) {
+                int index = k;
+                long due = start + (long) (index * 1e9 / rate);
+                answers.add(pool.submit(() -> {
+                    long wait;
+                    while ((wait = due - System.nanoTime()) > 0) {
+                        java.util.concurrent.locks.LockSupport.parkNanos(wait);
+                    }
+                    int i = from + index;
+                    HttpRequest request = HttpRequest.newBuilder(uri).timeout(Duration.ofSeconds(60))
+                            .header("Authorization", "Bearer " + tokens[i]).header("Content-Type", "application/json")
+                            .header("Idempotency-Key", "benchmark-" + i)
+                            .POST(HttpRequest.BodyPublishers.ofString(payload(i))).build();
+                    try {
+                        statuses[index] = client.send(request, HttpResponse.BodyHandlers.ofString()).statusCode();
+                    } catch (IOException | InterruptedException e) {
+                        statuses[index] = -1;
+                    }
+                    latencies[index] = System.nanoTime() - due;
+                    return null;
+                }));
+            }
+            for (Future<?> answer : answers) {
+                answer.get();
+            }
+        } finally {
+            pool.shutdownNow();
+        }
+        List<Long> ok = new ArrayList<>();
+        List<Long> refused = new ArrayList<>();
+        int failures = 0;
+        for (int k = 0; k < n; k++) {
+            if (statuses[k] == 201) {
+                ok.add(latencies[k]);
+            } else if (statuses[k] == 503) {
+                refused.add(latencies[k]);
+            } else {
+                failures++;
+            }
+        }
+        long[] sortedOk = ok.stream().mapToLong(Long::longValue).sorted().toArray();
+        long[] sortedRefused = refused.stream().mapToLong(Long::longValue).sorted().toArray();
+        Map<String, Object> figures = new LinkedHashMap<>();
+        figures.put("accepted", sortedOk.length);
+        figures.put("refused", sortedRefused.length);
+        figures.put("failures", failures);
+        figures.put("p50Millis", round(percentile(sortedOk, 0.50) / 1e6));
+        figures.put("p99Millis", round(percentile(sortedOk, 0.99) / 1e6));
+        figures.put("refusedP99Millis", round(percentile(sortedRefused, 0.99) / 1e6));
+        return figures;
+    }
+
+    /**
+     * Statements per submission as the server saw them: the statement log switched on for {@link #COUNTED}
+     * sequential submissions (steady state, rules kept), then each backend's logged statements counted, consecutive
+     * executions of one statement in one backend counted once (a JDBC batch is sent in one go), transaction control
+     * (BEGIN, COMMIT, ROLLBACK), the pool's empty validity checks and this benchmark's own connection left out. The
+     * application's background pollers are off in this benchmark ({@link #startApplication}).
+     */
+    private static double countStatements(String jdbc, Path pgLog, HttpClient client, URI uri, String[] tokens)
+            throws Exception {
+        Path log = pgLog.resolve("postgresql.log");
+        long from;
+        int ownPid;
+        try (Connection c = DriverManager.getConnection(jdbc, "postgres", ""); Statement s = c.createStatement()) {
+            try (ResultSet rs = s.executeQuery("SELECT pg_backend_pid()")) {
+                rs.next();
+                ownPid = rs.getInt(1);
+            }
+            s.execute("ALTER SYSTEM SET log_statement = 'all'");
+            s.execute("SELECT pg_reload_conf()");
+            Thread.sleep(1000);
+            from = Files.exists(log) ? Files.size(log) : 0;
+            for (int i = 0; i < tokens.length; i++) {
+                HttpResponse<String> answer = client.send(HttpRequest.newBuilder(uri).timeout(Duration.ofSeconds(60))
+                        .header("Authorization", "Bearer " + tokens[i]).header("Content-Type", "application/json")
+                        .POST(HttpRequest.BodyPublishers.ofString(payload(i))).build(), HttpResponse.BodyHandlers.ofString());
+                if (answer.statusCode() != 201) {
+                    throw new IllegalStateException("counted submission: " + answer.statusCode() + " " + answer.body());
+                }
+            }
+            s.execute("ALTER SYSTEM RESET log_statement");
+            s.execute("SELECT pg_reload_conf()");
+        }
+        Thread.sleep(1000);
+        byte[] bytes = Files.readAllBytes(log);
+        String text = new String(bytes, (int) from, bytes.length - (int) from, java.nio.charset.StandardCharsets.UTF_8);
+        java.util.regex.Pattern line = java.util.regex.Pattern.compile("^(\\d+)\\s*LOG:  (?:statement|execute [^:]*): ?(.*)$");
+        Map<Integer, String> last = new java.util.HashMap<>();
+        int statements = 0;
+        for (String l : text.split("\n")) {
+            java.util.regex.Matcher m = line.matcher(l);
+            if (!m.matches()) {
+                continue;
+            }
+            int pid = Integer.parseInt(m.group(1));
+            String sql = m.group(2).strip();
+            String word = sql.isEmpty() ? "" : sql.split("\\s+")[0].toUpperCase(java.util.Locale.ROOT);
+            if (pid == ownPid || sql.isEmpty() || List.of("BEGIN", "COMMIT", "ROLLBACK", "SET", "SHOW").contains(word)) {
+                last.remove(pid);
+                continue;
+            }
+            if (!sql.equals(last.get(pid))) {
+                statements++;
+            }
+            last.put(pid, sql);
+        }
+        return round((double) statements / tokens.length);
     }
 
     /** Submits for laboratories [from, to); returns each latency in ns, or -1 for a failed submission. */
@@ -221,13 +387,13 @@ public final class SubmissionThroughputBenchmark {
         return round;
     }
 
-    private static String[] setUpLaboratories(Connection c, long roundId) throws Exception {
-        String[] tokens = new String[LABORATORIES];
+    private static String[] setUpLaboratories(Connection c, long roundId, int count) throws Exception {
+        String[] tokens = new String[count];
         c.setAutoCommit(false);
         long creator;
         try (Statement s = c.createStatement()) {
             s.executeUpdate("INSERT INTO laboratory (name, organisation, country) "
-                    + "SELECT 'Lab ' || g, 'Benchmark org ' || g, 'DE' FROM generate_series(1, " + LABORATORIES + ") g");
+                    + "SELECT 'Lab ' || g, 'Benchmark org ' || g, 'DE' FROM generate_series(1, " + count + ") g");
             ResultSet rs = s.executeQuery("INSERT INTO app_user (username, display_name, role, laboratory_id) "
                     + "SELECT 'bench-creator', 'benchmark', 'lab-manager', min(id) FROM laboratory RETURNING id");
             rs.next();
@@ -273,6 +439,9 @@ public final class SubmissionThroughputBenchmark {
         env.put("QUARKUS_HTTP_AUTH_SESSION_ENCRYPTION_KEY", Secrets.randomToken(32));
         env.put("ROUNDTABLE_SECURE_COOKIES", "false");
         env.put("DB_POOL_SIZE", "20");
+        // no background pollers: the statement count sees the submissions alone
+        env.put("ROUNDTABLE_JOBS_POLL_INTERVAL", "off");
+        env.put("ROUNDTABLE_NOTICES_CHECK_INTERVAL", "off");
         builder.redirectErrorStream(true).redirectOutput(work.resolve("app.log").toFile());
         System.out.println("Application log: " + work.resolve("app.log"));
         return builder.start();
