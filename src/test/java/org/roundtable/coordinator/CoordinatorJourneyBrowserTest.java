@@ -199,8 +199,14 @@ class CoordinatorJourneyBrowserTest {
         show(browser.findElement(By.id("scores")));
         Browser.screenshot(browser, "coordinator/journey-14b-measurand-unsatisfactory");
 
-        // 12. the preliminary report: the second step names who receives it
-        browser.get(home + "rounds/" + round + "/reports");
+        // 12. the home lists the reviewed round; from its page to the reports, where the preliminary report is issued
+        Browser.submit(browser, By.cssSelector("nav a[href='/coordinator']"));
+        WebElement needs = Browser.waitFor(browser, By.cssSelector("#needs-me tr[data-round='" + code + "']"));
+        assertThat(needs.getText()).contains("Evaluation ready for review");
+        Browser.screenshot(browser, "coordinator/journey-14c-home-review");
+        Browser.submit(browser, By.cssSelector("#needs-me tr[data-round='" + code + "'] a[href='/rounds/" + round + "']"));
+        Browser.submit(browser, By.id("reports-link"));
+        // the second step names who receives it
         Browser.submit(browser, By.id("issue-preliminary"));
         assertThat(browser.findElement(By.id("confirm-consequence")).getText()).contains("Every participant receives");
         Browser.screenshot(browser, "coordinator/journey-15-preliminary-confirm");
@@ -215,7 +221,11 @@ class CoordinatorJourneyBrowserTest {
         World.Browser member = world.signIn(world.user("lab-member", labs[5]));
         member.json().body("{\"body\": \"Please check our Cr result: we found 18.14 % on re-measurement.\"}")
                 .post("/api/v1/my-rounds/" + round + "/comments").then().statusCode(201);
-        browser.get(home + "rounds/" + round + "/reports");
+        Browser.submit(browser, By.cssSelector("nav a[href='/coordinator']"));
+        WebElement waiting = Browser.waitFor(browser, By.cssSelector("#needs-me tr[data-round='" + code + "']"));
+        assertThat(waiting.getText()).contains("1 comment waiting for an answer");
+        Browser.submit(browser, By.cssSelector("#needs-me tr[data-round='" + code + "'] a.button"));
+        assertThat(browser.getCurrentUrl()).contains("/rounds/" + round + "/reports");
         WebElement comment = browser.findElement(By.cssSelector(".comment"));
         assertThat(comment.getText()).contains("we found 18.14 %");
         show(comment);
