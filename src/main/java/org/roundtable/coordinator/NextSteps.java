@@ -166,6 +166,10 @@ public class NextSteps {
                             count + " Remind the " + missing + " missing before the deadline.",
                             "See who has not reported", round + "/submissions");
                 }
+                if (missing == 0) {
+                    return step.due(r).waiting("collecting", "Open for results, every result in",
+                            count + " The round can be closed before its deadline.", "Close the round", steps);
+                }
                 return step.due(r).waiting("collecting", "Open for results",
                         count + " Nothing to do before the deadline.", "See the submissions", round + "/submissions");
             }
