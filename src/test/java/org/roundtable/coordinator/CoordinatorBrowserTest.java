@@ -43,11 +43,7 @@ class CoordinatorBrowserTest {
     }
 
     private void signIn(String username) {
-        browser.get(home + "login");
-        browser.findElement(By.id("username")).sendKeys(username);
-        browser.findElement(By.id("password")).sendKeys(World.PASSWORD);
-        Browser.submit(browser, By.cssSelector("form button[type=submit]"));
-        Browser.waitForUrl(browser, url -> !url.contains("/login"));
+        Browser.signIn(browser, home, username);
     }
 
     private void show(WebElement element) {

@@ -298,7 +298,12 @@ class NoticeDeliveryTest {
         } finally {
             pool.shutdown();
         }
+        // the SMTP server may still be storing the last message the job handed over
         List<Mailbox.Message> received = mailbox.to(address(member));
+        for (int wait = 0; wait < 50 && received.size() < 13; wait++) {
+            Thread.sleep(200);
+            received = mailbox.to(address(member));
+        }
         assertThat(received).hasSize(13);
         assertThat(received.stream().map(Mailbox.Message::subject).distinct()).hasSize(13);
     }

@@ -42,11 +42,7 @@ class PrecisionPagesBrowserTest {
     }
 
     private void signIn(String username) {
-        browser.get(home + "login");
-        browser.findElement(By.id("username")).sendKeys(username);
-        browser.findElement(By.id("password")).sendKeys(World.PASSWORD);
-        browser.findElement(By.cssSelector("form button[type=submit]")).click();
-        Browser.waitForUrl(browser, url -> !url.contains("/login"));
+        Browser.signIn(browser, home, username);
     }
 
     private void scrollTo(String id) {

@@ -109,11 +109,7 @@ class CoordinatorPagesBrowserTest {
     }
 
     private void signIn(String username) {
-        browser.get(home + "login");
-        browser.findElement(By.id("username")).sendKeys(username);
-        browser.findElement(By.id("password")).sendKeys(World.PASSWORD);
-        browser.findElement(By.cssSelector("form button[type=submit]")).click();
-        wait(d -> !d.getCurrentUrl().contains("/login"));
+        Browser.signIn(browser, home, username);
     }
 
     private void wait(java.util.function.Function<WebDriver, Boolean> condition) {

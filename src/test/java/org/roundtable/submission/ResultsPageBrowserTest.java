@@ -38,11 +38,7 @@ class ResultsPageBrowserTest {
     }
 
     private void signIn(String username) {
-        browser.get(base + "login");
-        browser.findElement(By.id("username")).sendKeys(username);
-        browser.findElement(By.id("password")).sendKeys(World.PASSWORD);
-        browser.findElement(By.cssSelector("form[action='/login'] button")).click();
-        Browser.waitForUrl(browser, url -> !url.contains("/login"));
+        Browser.signIn(browser, base, username);
     }
 
     @Test

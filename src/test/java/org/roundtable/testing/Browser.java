@@ -164,6 +164,18 @@ public final class Browser {
                 .until(d -> condition.test(d.getCurrentUrl()));
     }
 
+    /**
+     * Signs {@code username} in through the sign-in form of the server at {@code base} (ending in "/"), with the
+     * tests' password, and waits until the browser has left the sign-in page.
+     */
+    public static void signIn(WebDriver driver, Object base, String username) {
+        driver.get(base + "login");
+        driver.findElement(org.openqa.selenium.By.id("username")).sendKeys(username);
+        driver.findElement(org.openqa.selenium.By.id("password")).sendKeys(World.PASSWORD);
+        submit(driver, org.openqa.selenium.By.cssSelector("form[action='/login'] button[type=submit]"));
+        waitForUrl(driver, url -> !url.contains("/login"));
+    }
+
     /** Saves a screenshot under target/screenshots for a person to look at. */
     public static void screenshot(WebDriver driver, String name) {
         try {

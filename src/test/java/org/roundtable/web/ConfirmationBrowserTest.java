@@ -124,10 +124,6 @@ class ConfirmationBrowserTest {
     }
 
     private void signIn(String username) {
-        browser.get(home + "login");
-        browser.findElement(By.id("username")).sendKeys(username);
-        browser.findElement(By.id("password")).sendKeys(World.PASSWORD);
-        Browser.submit(browser, By.cssSelector("form button[type=submit]"));
-        Browser.waitForUrl(browser, u -> !u.contains("/login"));
+        Browser.signIn(browser, home, username);
     }
 }
