@@ -40,8 +40,8 @@ import org.roundtable.submission.DemoSubmissions;
  * </ul>
  *
  * Problems planted where a user would meet them: carbon by spark OES reads about 0.02 % higher than by
- * combustion (a method-group difference, flagged); in the second round Dunmore enters sulfur in mg/kg as % ("84"
- * instead of 0.0084) and confirms the range warning — an outlier; in the third round Salzach slips a decimal in Mn;
+ * combustion (a method-group difference, flagged); in the second round Dunmore enters sulfur in mg/kg as % ("87"
+ * instead of 0.0087) and confirms the range warning — an outlier; in the third round Salzach slips a decimal in Mn;
  * in the first round Mures reports five hours late (flagged, not scored); in the second round Ebro does not report;
  * "less than" results for V (two consistent, one not); Pomorze's Mn drifts from questionable to unsatisfactory over
  * the three rounds, and its corrective action is recorded after the third; each round has homogeneity data for Mn
