@@ -161,8 +161,6 @@ class RoundSubmissionsPageTest {
     }
 
     private void sendMail() {
-        while (runner.runNext(NoticeService.JOB_KIND)) {
-            // send every queued notice e-mail
-        }
+        org.roundtable.testing.MailJobs.runAll(runner, world, NoticeService.JOB_KIND);
     }
 }
