@@ -20,11 +20,11 @@ public final class MailJobs {
             while (kind == null ? runner.runNext() : runner.runNext(kind)) {
                 // run every queued job
             }
-            String timedOut = "FROM job WHERE kind = ? AND status = 'QUEUED' AND error LIKE '%421%socket timeout%'";
-            if (world.text("SELECT count(*) " + timedOut, NoticeService.JOB_KIND).strip().equals("0")) {
+            String timedOut = " WHERE kind = ? AND status = 'QUEUED' AND error LIKE '%421%socket timeout%'";
+            if (world.text("SELECT count(*) FROM job" + timedOut, NoticeService.JOB_KIND).strip().equals("0")) {
                 return;
             }
-            world.sql("UPDATE job SET not_before = now() - interval '1 second' " + timedOut, NoticeService.JOB_KIND);
+            world.sql("UPDATE job SET not_before = now() - interval '1 second'" + timedOut, NoticeService.JOB_KIND);
         }
     }
 }
