@@ -167,7 +167,7 @@ public class AuditorLibrary {
                   JOIN scheme s ON s.id = r.scheme_id
                   LEFT JOIN round_participant p ON p.round_id = d.round_id AND p.laboratory_id = d.laboratory_id
                   LEFT JOIN LATERAL (SELECT (min(f.issued_at) AT TIME ZONE 'UTC')::date AS day FROM issued_document f
-                                      WHERE f.round_id = d.round_id AND f.kind = 'ROUND' AND f.status = 'FINAL') ff ON true
+                                      WHERE f.round_id = d.round_id AND f.status = 'FINAL') ff ON true
                  WHERE d.kind = 'LABORATORY' AND d.status IN ('FINAL', 'AMENDED') AND (""" + access + ")";
         // the scheme list offers the schemes the auditor has reports of (before the other filters)
         List<Choice> schemes = schemes(from, params);

@@ -168,10 +168,6 @@ public class ReportLifecycle {
                                  boolean commentPeriodOpen, List<DocumentView> documents, List<CommentView> comments) {
     }
 
-    /** A round with reports for auditors. */
-    public record AuditorRound(long roundId, String roundCode, List<DocumentView> documents) {
-    }
-
     /** Who acts: the audit actor and the name printed on a report. */
     public record Signer(Actor actor, String displayName) {
     }
@@ -403,19 +399,6 @@ public class ReportLifecycle {
     }
 
     // ---- auditors ----------------------------------------------------------------------------------------
-
-    /** Rounds with a final or amended report, with what the calling auditor may read of each. */
-    @Transactional
-    public List<AuditorRound> forAuditor() {
-        @SuppressWarnings("unchecked")
-        List<Object[]> rows = entityManager.createNativeQuery("""
-                SELECT DISTINCT r.id, r.code FROM round r JOIN issued_document d ON d.round_id = r.id
-                 WHERE d.kind = 'ROUND' AND d.status IN ('FINAL', 'AMENDED') ORDER BY r.code
-                """).getResultList();
-        return rows.stream().map(r -> new AuditorRound(((Number) r[0]).longValue(), (String) r[1],
-                auditorDocuments(((Number) r[0]).longValue()))).toList();
-    }
-
     // ---- documents for any reader ------------------------------------------------------------------------
 
     /** The round's documents the caller may read: coordinators all, auditors final and amended ones (see class). */
@@ -465,14 +448,30 @@ public class ReportLifecycle {
                 .orElseThrow(() -> new DomainException.NotFound("The document"));
     }
 
+    /**
+     * What an auditor may read of a round: the final and amended laboratory reports of the laboratories whose valid
+     * grant's data window holds the round (the day its first final report was issued, UTC — the rule of the
+     * auditor's library), and the round reports (which name participant codes only). Every download goes through
+     * here, so a laboratory report outside the window answers like a missing one.
+     */
     private List<DocumentView> auditorDocuments(long roundId) {
         long auditor = currentUser.requireUserId();
         Map<Long, String> codes = roundAccess.participantCodes(roundId);
+        List<IssuedDocument> all = documents.ofRound(roundId);
+        java.time.LocalDate firstFinal = all.stream()
+                .filter(d -> d.status() == ReportStatus.FINAL)
+                .map(d -> d.issuedAt().atZone(ZoneOffset.UTC).toLocalDate()).min(java.util.Comparator.naturalOrder())
+                .orElse(null);
+        if (firstFinal == null) {
+            return List.of();
+        }
         Map<Long, Boolean> granted = new LinkedHashMap<>();
-        return documents.ofRound(roundId).stream()
+        java.util.function.LongPredicate inWindow = lab -> granted.computeIfAbsent(lab, l -> grants
+                .activeDataWindows(auditor, l).stream().anyMatch(w -> w.contains(firstFinal)));
+        return all.stream()
                 .filter(d -> FOR_AUDITORS.contains(d.status()))
-                .filter(d -> d.kind() == DocumentKind.ROUND || d.kind() == DocumentKind.LABORATORY
-                        && granted.computeIfAbsent(d.laboratoryId(), l -> grants.hasActiveGrant(auditor, l)))
+                .filter(d -> d.kind() == DocumentKind.ROUND
+                        || d.kind() == DocumentKind.LABORATORY && d.laboratoryId() != null && inWindow.test(d.laboratoryId()))
                 .map(d -> view(d, codes)).toList();
     }
 

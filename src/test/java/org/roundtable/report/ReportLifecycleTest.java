@@ -148,6 +148,16 @@ class ReportLifecycleTest {
         Map<String, Object> labBFinal = documents(coordinator, "/api/v1/rounds/").stream()
                 .filter(d -> (code + "-" + codeB + "-F").equals(d.get("reportId"))).findFirst().orElseThrow();
         granted.request().get("/api/v1/rounds/" + round + "/documents/" + labBFinal.get("id")).then().statusCode(404);
+        // a grant whose data window ends before the round's final report does not reach the laboratory's report,
+        // not even by its id (the library's rule, applied to every download)
+        Map<String, Object> labAFinal = documents(coordinator, "/api/v1/rounds/").stream()
+                .filter(d -> (code + "-" + codeA + "-F").equals(d.get("reportId"))).findFirst().orElseThrow();
+        world.sql("UPDATE auditor_grant SET data_until = current_date - 1 WHERE auditor_id = (SELECT id FROM app_user "
+                + "WHERE username = ?)", grantedName);
+        granted.request().get("/api/v1/rounds/" + round + "/documents/" + labAFinal.get("id")).then().statusCode(404);
+        assertThat(reportIds(documents(granted, "/api/v1/rounds/"))).containsExactly(code + "-R-F");
+        world.sql("UPDATE auditor_grant SET data_until = NULL WHERE auditor_id = (SELECT id FROM app_user WHERE username = ?)",
+                grantedName);
 
         // an amendment: new sign-off, a reason, new documents linked to the ones they replace
         coordinator.json().body("{\"reason\": \"Typo\"}").post("/api/v1/rounds/" + round + "/reports/amendments")
