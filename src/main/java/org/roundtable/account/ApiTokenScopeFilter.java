@@ -8,8 +8,9 @@ import org.roundtable.platform.DomainException;
 import java.lang.reflect.Method;
 
 /**
- * Enforces {@link ApiTokenScope.Required}: a request made with an API token of another scope is refused (403)
- * before the endpoint runs. Requests of signed-in people pass.
+ * Enforces the token scopes before the endpoint runs (403): a token that reads scores may only read; an endpoint
+ * marked {@link ApiTokenScope.Required} — scores, reports, history, published results — takes only a token of that
+ * scope. Requests of signed-in people pass.
  */
 public class ApiTokenScopeFilter {
 
@@ -34,11 +35,17 @@ public class ApiTokenScopeFilter {
         if (method == null || !currentUser.viaApiToken()) {
             return;
         }
+        ApiTokenScope scope = currentUser.tokenScope().orElse(ApiTokenScope.SUBMIT);
+        // a token that reads scores changes nothing: every request of it other than a read is refused
+        String verb = context.getMethod();
+        if (scope == ApiTokenScope.READ_SCORES && !"GET".equals(verb) && !"HEAD".equals(verb)) {
+            throw new OutOfScope(ApiTokenScope.SUBMIT);
+        }
         ApiTokenScope.Required required = method.getAnnotation(ApiTokenScope.Required.class);
         if (required == null) {
             required = resource.getResourceClass().getAnnotation(ApiTokenScope.Required.class);
         }
-        if (required != null && currentUser.tokenScope().orElse(ApiTokenScope.SUBMIT) != required.value()) {
+        if (required != null && scope != required.value()) {
             throw new OutOfScope(required.value());
         }
     }

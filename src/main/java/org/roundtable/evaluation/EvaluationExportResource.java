@@ -58,6 +58,7 @@ public class EvaluationExportResource {
     // ---- the published run ---------------------------------------------------------------------------------
 
     @GET
+    @org.roundtable.account.ApiTokenScope.Required(org.roundtable.account.ApiTokenScope.READ_SCORES)
     @Path("{roundId}/published/results.json")
     @Produces(MediaType.APPLICATION_JSON)
     @RolesAllowed({Role.COORDINATOR_NAME, Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME, Role.AUDITOR_NAME})
@@ -66,6 +67,7 @@ public class EvaluationExportResource {
     }
 
     @GET
+    @org.roundtable.account.ApiTokenScope.Required(org.roundtable.account.ApiTokenScope.READ_SCORES)
     @Path("{roundId}/published/results.csv")
     @Produces("text/csv")
     @RolesAllowed({Role.COORDINATOR_NAME, Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME, Role.AUDITOR_NAME})
@@ -75,6 +77,7 @@ public class EvaluationExportResource {
     }
 
     @GET
+    @org.roundtable.account.ApiTokenScope.Required(org.roundtable.account.ApiTokenScope.READ_SCORES)
     @Path("{roundId}/published/evaluate-input.csv")
     @Produces("text/csv")
     @RolesAllowed({Role.COORDINATOR_NAME, Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME, Role.AUDITOR_NAME})

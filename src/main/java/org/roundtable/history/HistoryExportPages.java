@@ -23,6 +23,7 @@ import java.util.List;
  * The laboratory's exports for its assessor: choose a period, confirm, and the PDF and CSV are issued (and listed
  * with their SHA-256 for the public verification).
  */
+@org.roundtable.account.ApiTokenScope.Required(org.roundtable.account.ApiTokenScope.READ_SCORES)
 @Path("/my-laboratory/history/exports")
 @Produces(MediaType.TEXT_HTML)
 @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})

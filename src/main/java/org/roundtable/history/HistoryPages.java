@@ -77,6 +77,7 @@ public class HistoryPages {
     }
 
     @GET
+    @org.roundtable.account.ApiTokenScope.Required(org.roundtable.account.ApiTokenScope.READ_SCORES)
     @Path("my-laboratory/history")
     @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
     public TemplateInstance own(@QueryParam("scheme") String scheme, @QueryParam("measurand") String measurand,

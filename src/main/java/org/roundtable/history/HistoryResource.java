@@ -53,6 +53,7 @@ public class HistoryResource {
     }
 
     @GET
+    @org.roundtable.account.ApiTokenScope.Required(org.roundtable.account.ApiTokenScope.READ_SCORES)
     @Path("my-laboratory/history")
     @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
     public HistoryService.History own(@QueryParam("scheme") String scheme, @QueryParam("measurand") String measurand,

@@ -31,12 +31,14 @@ public class MyReportResource {
     }
 
     @GET
+    @org.roundtable.account.ApiTokenScope.Required(org.roundtable.account.ApiTokenScope.READ_SCORES)
     @Path("{roundId}/documents")
     public List<ReportLifecycle.DocumentView> documents(@PathParam("roundId") long roundId) {
         return lifecycle.forLaboratory(roundId).documents();
     }
 
     @GET
+    @org.roundtable.account.ApiTokenScope.Required(org.roundtable.account.ApiTokenScope.READ_SCORES)
     @Path("{roundId}/documents/{documentId}")
     @Produces({"application/pdf", MediaType.APPLICATION_JSON})
     public Response download(@PathParam("roundId") long roundId, @PathParam("documentId") long documentId) {
@@ -45,6 +47,7 @@ public class MyReportResource {
 
     /** The document's HTML view, to read in the browser (same access as the PDF). */
     @GET
+    @org.roundtable.account.ApiTokenScope.Required(org.roundtable.account.ApiTokenScope.READ_SCORES)
     @Path("{roundId}/documents/{documentId}/html")
     @Produces(MediaType.TEXT_HTML)
     public Response html(@PathParam("roundId") long roundId, @PathParam("documentId") long documentId) {

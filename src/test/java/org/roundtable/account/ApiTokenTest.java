@@ -153,4 +153,27 @@ class ApiTokenTest {
         manager.request().get("/api/v1/my-laboratory/tokens").then().body("find { it.id == " + id + " }.revokedAt",
                 nullValue());
     }
+
+    @Test
+    void aTokenThatReadsScoresChangesNothingAndATokenThatSubmitsReadsNoReportsOrHistory() {
+        long lab = world.laboratory();
+        long round = world.round(org.roundtable.scheme.RoundState.OPEN_FOR_RESULTS, lab);
+        String reader = world.apiToken(lab, "READ_SCORES");
+        given().header("Authorization", "Bearer " + reader).contentType("application/json")
+                .body("{\"results\":[{\"measurand\":\"Cr\",\"value\":\"18.10\",\"unit\":\"%\",\"method\":\"spark-oes\","
+                        + "\"replicates\":2}]}")
+                .post("/api/v1/my-rounds/" + round + "/submission").then().statusCode(403)
+                .body("detail", startsWith("This API token reads scores only"));
+        given().header("Authorization", "Bearer " + reader).contentType("application/json").body("{\"body\":\"hello\"}")
+                .post("/api/v1/my-rounds/" + round + "/messages").then().statusCode(403);
+        assertThat(world.text("SELECT count(*) FROM submission WHERE round_id = ?", round)).isEqualTo("0");
+
+        String submitter = world.apiToken(lab);
+        for (String path : java.util.List.of("/api/v1/my-rounds/" + round + "/documents", "/api/v1/my-laboratory/history",
+                "/api/v1/rounds/" + round + "/published/results.json")) {
+            given().header("Authorization", "Bearer " + submitter).get(path).then().statusCode(403)
+                    .body("detail", startsWith("This API token submits results only"));
+        }
+        given().header("Authorization", "Bearer " + reader).get("/api/v1/my-laboratory/history").then().statusCode(200);
+    }
 }

@@ -336,7 +336,7 @@ class EvaluationExportsTest {
 
         // the same for a laboratory once the second run is published
         publications.issueRoundReport(round, 2, ReportStatus.PRELIMINARY);
-        String token = world.apiToken(labs[1]);
+        String token = world.apiToken(labs[1], "READ_SCORES");
         assertThat(given().header("Authorization", "Bearer " + token)
                 .get("/api/v1/rounds/" + round + "/published/evaluate-input.csv").then().statusCode(200).extract()
                 .asString()).isEqualTo(second.asString());
