@@ -136,7 +136,7 @@ public class NextSteps {
                 return step.needs(82, "qualify", "Enrolling",
                         r.enrolled() + (r.enrolled() == 1 ? " laboratory is" : " laboratories are")
                                 + " enrolled. Check homogeneity and stability of the items, then confirm the qualification.",
-                        "Qualify the items", round + "#qualification");
+                        "Qualify the items", round + "/qualification");
             }
             case ITEMS_QUALIFIED -> {
                 return step.needs(83, "dispatch", "Items qualified",
