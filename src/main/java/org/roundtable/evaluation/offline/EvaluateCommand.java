@@ -5,7 +5,6 @@ import com.fasterxml.jackson.core.JsonGenerator;
 import java.util.ArrayList;
 import java.io.IOException;
 import java.io.PrintStream;
-import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.LinkedHashMap;
 import java.util.List;
@@ -38,8 +37,9 @@ import org.roundtable.statistics.StatisticsWarning;
  * progress lines for files of {@value #PROGRESS_ROWS} results or more.
  *
  * <p>Memory: the file is read record by record into primitive columns ({@code ResultColumns}, about 45 bytes a
- * result); each measurand is evaluated, written and dropped in turn, so a 1,000,000-row file runs in a 256 MB
- * heap.
+ * result); measurands are evaluated a few at a time (two per core, each one's output built as text), written in
+ * file order and dropped, so memory grows with the measurands in work, not with the file: 1,000,000 rows of 100
+ * measurands run in a 256 MB heap.
  *
  * <p>The options are a plan's choices for one measurand, with the plan's defaults: score decimals 2 (scores are
  * classified as printed), En with both expanded uncertainties at k = 2, at least 10 results for a consensus x_pt
@@ -187,10 +187,15 @@ public final class EvaluateCommand {
                 Thread.currentThread().interrupt();
                 throw new IOException("interrupted", e);
             } catch (java.util.concurrent.ExecutionException e) {
+                // a failure of the evaluation itself (an OutOfMemoryError included) is not bad input: it leaves
+                // as it came, and the command does not exit 2
                 if (e.getCause() instanceof RuntimeException runtime) {
                     throw runtime;
                 }
-                throw new IOException(e.getCause());
+                if (e.getCause() instanceof Error error) {
+                    throw error;
+                }
+                throw new IllegalStateException(e.getCause());
             } finally {
                 pool.shutdownNow();
             }
