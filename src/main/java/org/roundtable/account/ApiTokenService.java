@@ -79,11 +79,6 @@ public class ApiTokenService {
     public record CreatedToken(TokenView token, String secret) {
     }
 
-    @Transactional
-    public CreatedToken create(String name) {
-        return create(name, ApiTokenScope.SUBMIT, null);
-    }
-
     /**
      * A new token of the caller's laboratory with a scope and an optional expiry (the token stops working at that
      * moment; in the future, within {@value #MAX_EXPIRY_DAYS} days).
@@ -139,12 +134,6 @@ public class ApiTokenService {
                     token.id.toString(), before, hash(token), "name=" + token.name));
         }
         return TokenView.of(token, now());
-    }
-
-    /** The laboratory and name behind a presented token, or empty when unknown, revoked or expired. */
-    @Transactional
-    public Optional<TokenPrincipal> resolve(String secret) {
-        return resolution(secret) instanceof Resolution.Valid valid ? Optional.of(valid.principal()) : Optional.empty();
     }
 
     /**

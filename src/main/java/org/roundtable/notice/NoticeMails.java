@@ -32,7 +32,6 @@ public class NoticeMails {
     enum Way { SMTP, OUTBOX, OFF }
 
     private final Mailer mailer;
-    private final Object smtpLock = new Object();
     private final EntityManager entityManager;
     private final NoticeSettings settings;
     private final Clock clock;
@@ -84,13 +83,7 @@ public class NoticeMails {
     /** Sends the message; throws when the SMTP server refuses or cannot be reached (the job then retries). */
     void deliver(NoticeService.Mail mail) {
         switch (way) {
-            case SMTP -> {
-                // one message at a time per instance: two threads sending through the blocking mailer at once were
-                // seen to stall until the SMTP server's read timeout (the job runner sends one at a time anyway)
-                synchronized (smtpLock) {
-                    mailer.send(Mail.withText(mail.to(), mail.subject(), mail.text()).setHtml(mail.html()));
-                }
-            }
+            case SMTP -> mailer.send(Mail.withText(mail.to(), mail.subject(), mail.text()).setHtml(mail.html()));
             case OUTBOX -> writeToOutbox(mail);
             case OFF -> {
             }

@@ -46,11 +46,6 @@ public final class LoaderClock extends Clock {
         });
     }
 
-    /** Whether this thread runs at a loader's time. */
-    public static boolean active() {
-        return LOADER_TIME.get() != null;
-    }
-
     @Override
     public Instant instant() {
         Instant loader = LOADER_TIME.get();

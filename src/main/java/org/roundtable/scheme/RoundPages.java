@@ -1,7 +1,5 @@
 package org.roundtable.scheme;
 
-import com.fasterxml.jackson.core.JsonProcessingException;
-import com.fasterxml.jackson.databind.ObjectMapper;
 import io.quarkus.qute.CheckedTemplate;
 import io.quarkus.qute.TemplateInstance;
 import io.vertx.core.http.HttpServerRequest;
@@ -50,7 +48,7 @@ public class RoundPages {
         static native TemplateInstance rounds(List<RoundService.RoundView> rounds, List<SchemeService.SchemeView> schemes,
                                               String error, NewRound form, java.util.Map<String, String> problems);
 
-        static native TemplateInstance round(RoundService.RoundView round, String planText,
+        static native TemplateInstance round(RoundService.RoundView round,
                                              List<PlanStore.PlanVersion> versions,
                                              List<EnrolmentService.Participant> participants,
                                              org.roundtable.platform.Paging participantsPaging,
@@ -59,7 +57,7 @@ public class RoundPages {
                                              List<EnrolmentService.Notice> notices,
                                              List<QualificationService.MeasurandQualification> qualification,
                                              List<LaboratoryService.LaboratoryView> laboratories, long laboratoriesFound,
-                                             String find, List<String> decisions, String error, String message,
+                                             String find, String error, String message,
                                              String link);
 
         static native TemplateInstance myRounds(List<EnrolmentService.MyRoundSummary> rounds);
@@ -70,18 +68,11 @@ public class RoundPages {
     /** The scheme page's provider form when the scheme names none of its own (empty fields). */
     private static final SchemeService.Provider NO_PROVIDER = new SchemeService.Provider(null, null, null);
 
-    private static final String PLAN_EXAMPLE = """
-            {"measurands": [
-              {"element": "Cr", "assignedValueMethod": "CONSENSUS_ALL",
-               "sigmaPtMethod": "FIXED", "sigmaPt": "0.10", "scores": ["Z_OR_Z_PRIME"]}
-            ]}""";
-
     private final SchemeService schemes;
     private final RoundService rounds;
     private final EnrolmentService enrolments;
     private final QualificationService qualification;
     private final LaboratoryService laboratories;
-    private final ObjectMapper mapper;
     private final HttpServerRequest request;
     private final Confirmations confirmations;
     private final RoundResults results;
@@ -91,7 +82,7 @@ public class RoundPages {
     static final int ENROL_CHOICES = 100;
 
     public RoundPages(SchemeService schemes, RoundService rounds, EnrolmentService enrolments,
-                      QualificationService qualification, LaboratoryService laboratories, ObjectMapper mapper,
+                      QualificationService qualification, LaboratoryService laboratories,
                       HttpServerRequest request, Confirmations confirmations, RoundResults results, Clock clock,
                       org.roundtable.platform.DisplaySettings display) {
         this.display = display;
@@ -103,7 +94,6 @@ public class RoundPages {
         this.enrolments = enrolments;
         this.qualification = qualification;
         this.laboratories = laboratories;
-        this.mapper = mapper;
         this.request = request;
     }
 
@@ -430,21 +420,11 @@ public class RoundPages {
         LaboratoryService.Page<LaboratoryService.LaboratoryView> found = query.isEmpty()
                 ? laboratories.recent(ENROL_CHOICES) : laboratories.search(query, ENROL_CHOICES);
         List<PlanStore.PlanVersion> versions = rounds.planVersions(roundId);
-        String planText = round.draftPlan() != null ? pretty(round.draftPlan())
-                : versions.isEmpty() ? PLAN_EXAMPLE : pretty(versions.get(versions.size() - 1).canonicalJson());
-        return Templates.round(round, planText, versions,
+        return Templates.round(round, versions,
                 participants.subList(participantsPaging.offset(), (int) participantsPaging.last()), participantsPaging,
                 items.subList(itemsPaging.offset(), (int) itemsPaging.last()), itemsPaging,
                 enrolments.notices(roundId), qualification.status(roundId), found.items(), found.total(), query,
-                names(QualificationService.Decision.values()), error, message, link);
-    }
-
-    private String pretty(String json) {
-        try {
-            return mapper.writerWithDefaultPrettyPrinter().writeValueAsString(mapper.readTree(json));
-        } catch (JsonProcessingException e) {
-            return json;
-        }
+                error, message, link);
     }
 
     private static List<String> names(Enum<?>[] values) {

@@ -85,10 +85,6 @@ public class SubmissionRules {
         return new UploadRules(measurands.stream().map(SubmissionRules::rule).toList(), itemLabels, MAXIMUM_REPLICATES);
     }
 
-    public UploadRules forRound(long roundId) {
-        return rules(rounds.openMeasurands(roundId), rounds.window(roundId).itemLabels());
-    }
-
     /** The intake rules of a precision experiment, or empty for another kind of round. */
     public java.util.Optional<org.roundtable.submission.intake.PrecisionIntake.Rules> forPrecisionExperiment(long roundId) {
         if (!rounds.isPrecisionExperiment(roundId)) {
