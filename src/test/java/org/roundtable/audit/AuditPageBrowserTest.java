@@ -52,11 +52,7 @@ class AuditPageBrowserTest {
         }
 
         browser = Browser.start();
-        browser.get(base + "login");
-        browser.findElement(By.id("username")).sendKeys(world.user("coordinator", null));
-        browser.findElement(By.id("password")).sendKeys(World.PASSWORD);
-        browser.findElement(By.cssSelector("form[action='/login'] button")).click();
-        Browser.waitForUrl(browser, url -> !url.contains("/login"));
+        Browser.signIn(browser, base, world.user("coordinator", null));
 
         browser.get(base + "audit");
         assertThat(browser.findElement(By.id("chain-status")).getText()).startsWith("Verified up to entry");

@@ -71,11 +71,8 @@ class CoordinatorJourneyBrowserTest {
         browser = Browser.start();
 
         // 1. sign in through the form: the coordinator lands on what needs them now
-        browser.get(home + "login");
-        browser.findElement(By.id("username")).sendKeys(world.user("coordinator", null));
-        browser.findElement(By.id("password")).sendKeys(World.PASSWORD);
-        Browser.submit(browser, By.cssSelector("form[action='/login'] button"));
-        Browser.waitForUrl(browser, url -> url.endsWith("/coordinator"));
+        Browser.signIn(browser, home, world.user("coordinator", null));
+        assertThat(browser.getCurrentUrl()).endsWith("/coordinator");
         assertThat(browser.findElement(By.tagName("h1")).getText()).isEqualTo("What needs you now");
         Browser.screenshot(browser, "coordinator/journey-01-home");
 

@@ -58,11 +58,7 @@ class EvaluationPagesBrowserTest {
         world.signIn(member).request().get("/rounds/" + round + "/evaluation").then().statusCode(403);
 
         browser = Browser.start();
-        browser.get(base + "login");
-        browser.findElement(By.id("username")).sendKeys(world.user("coordinator", null));
-        browser.findElement(By.id("password")).sendKeys(World.PASSWORD);
-        browser.findElement(By.cssSelector("form[action='/login'] button")).click();
-        Browser.waitForUrl(browser, url -> !url.contains("/login"));
+        Browser.signIn(browser, base, world.user("coordinator", null));
 
         browser.get(base + "rounds/" + round + "/evaluation");
         assertThat(browser.findElement(By.id("runs")).getText()).contains("No evaluation yet");
