@@ -11,7 +11,7 @@ import java.util.List;
 
 /**
  * The demo scenario's people and laboratories (all invented): the "Northmarch Alloy Proficiency Office" runs the
- * schemes; 24 laboratories in 17 countries take part, the first five with a manager and an analyst sign-in, the
+ * schemes; 24 laboratories in 18 countries take part, the first five with a manager and an analyst sign-in, the
  * others with a manager's; one auditor follows Kestrel Alloys, Brennholt and Lumeris with their permission.
  */
 @ApplicationScoped

@@ -28,13 +28,13 @@ import org.roundtable.submission.DemoSubmissions;
 
 /**
  * The demo scenario, all invented: the Northmarch Alloy Proficiency Office runs a low-alloy steel scheme for 24
- * laboratories in 17 countries (C, Si, Mn, P, S, Cr, Ni, Mo, Cu, Al, V in %, N in mg/kg) and a smaller wrought
+ * laboratories in 18 countries (C, Si, Mn, P, S, Cr, Ni, Mo, Cu, Al, V in %, N in mg/kg) and a smaller wrought
  * aluminium scheme for 11 of them.
  *
  * <ul>
  *   <li>Steel: three past rounds, about 11, 8 and 5 months before the first start, evaluated with final reports;
  *       one round open for results (dispatched two weeks ago, deadline in two weeks; 14 laboratories have
- *       reported, Kestrel Alloys, Tarnvik and Calderon among those that have not); next year's round as a draft.
+ *       reported, Kestrel Alloys, Tarnvik and Calderon among those that have not); the next round as a draft.
  *       </li>
  *   <li>Aluminium: one past round with its final report.</li>
  * </ul>
@@ -171,7 +171,7 @@ public class DemoScenario {
                 () -> aluminiumScheme[0], ALUMINIUM, aluminiumLabs, aluminiumLoaded,
                 homogeneity(ALUMINIUM, 7, "Mg", null), null, false,
                 (lab, index) -> aluminiumResults(ALUMINIUM_LABS.get(index)), index -> true, index -> true, -1);
-        // next year's steel round, a draft
+        // the next steel round, a draft
         LocalDate nextDispatch = LocalDate.ofInstant(firstStart, ZoneOffset.UTC).plusDays(75);
         String nextCode = "NLS-" + nextDispatch.getYear() + "-" + (perYear.getOrDefault(nextDispatch.getYear(), 0) + 1);
         steps.add(new Step(day(firstStart, -1, 15, 0), "draft round", () -> schemes.draft(steelScheme[0], nextCode,
