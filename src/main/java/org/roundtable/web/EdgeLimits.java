@@ -22,8 +22,8 @@ import java.util.Map;
  * ({@code quarkus.http.limits.max-header-size}) is set well above ours, so that requests reach this check; only a
  * request beyond the codec's limit still gets the codec's bare answer.
  * <p>
- * Submissions through the JSON API take their place in the submission queue here, on the event loop, before they
- * wait for a worker thread ({@link Admission#submissionQueue()}): a free place is held until the response ends;
+ * Submissions through the JSON API that carry a credential take their place in the submission queue here, on the event
+ * loop, before they wait for a worker thread ({@link Admission#submissionQueue()}): a free place is held until the response ends;
  * without one the request is looked at again every 20 ms for the queue's short wait, then answered 503 with
  * {@code Retry-After} (the worker pool's own queue, which has no bound, is never reached).
  * <p>
@@ -78,14 +78,25 @@ public class EdgeLimits {
                 return;
             }
         }
-        if (request.method() == io.vertx.core.http.HttpMethod.POST && SUBMISSION_API.matcher(request.path()).matches()) {
+        if (request.method() == io.vertx.core.http.HttpMethod.POST && SUBMISSION_API.matcher(context.normalizedPath()).matches()
+                && carriesCredentials(request)) {
             admitSubmission(context, System.nanoTime() + admission.submissionQueue().waitFor().toNanos());
             return;
         }
         context.next();
     }
 
-    /** POST of results through the JSON API (JSON body or file). */
+    /**
+     * Whether the request carries a credential (an API token or a cookie, which may be a session): only these take a
+     * place in the submission queue, so that anonymous requests, which authentication refuses at once with 401, cannot
+     * fill it. A forged credential still takes a place until authentication refuses it, which happens before its body
+     * is read.
+     */
+    static boolean carriesCredentials(HttpServerRequest request) {
+        return request.getHeader(HttpHeaders.AUTHORIZATION) != null || request.getHeader(HttpHeaders.COOKIE) != null;
+    }
+
+    /** POST of results through the JSON API (JSON body or file), on the normalised path. */
     private static final java.util.regex.Pattern SUBMISSION_API =
             java.util.regex.Pattern.compile("/api/v1/my-rounds/[^/]+/submission(/file)?/?");
 

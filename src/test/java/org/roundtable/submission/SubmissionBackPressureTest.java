@@ -59,6 +59,24 @@ class SubmissionBackPressureTest {
     }
 
     @Test
+    void anAnonymousSubmissionTakesNoPlaceInTheQueueAndIsRefusedAsUnsignedEvenWhenTheQueueIsFull() {
+        long lab = world.laboratory();
+        long round = world.round(RoundState.OPEN_FOR_RESULTS, lab);
+        String json = "{\"results\":[{\"measurand\":\"Cr\",\"value\":\"18.20\",\"unit\":\"%\",\"method\":\"spark-oes\",\"replicates\":1}]}";
+        List<Admission.Slot> taken = new ArrayList<>();
+        try {
+            while (admission.submissionPlacesLeft() > 0) {
+                taken.add(admission.submissionPlace());
+            }
+            given().contentType("application/json").body(json).post("/api/v1/my-rounds/" + round + "/submission")
+                    .then().statusCode(401);
+        } finally {
+            taken.forEach(Admission.Slot::close);
+        }
+        assertThat(admission.submissionPlacesLeft()).isEqualTo(64);
+    }
+
+    @Test
     void aSubmissionThatFindsAPlaceFreedWithinTheShortWaitIsAccepted() throws Exception {
         long lab = world.laboratory();
         long round = world.round(RoundState.OPEN_FOR_RESULTS, lab);
