@@ -106,6 +106,11 @@ public class EnrolmentService {
                           String resultDeadlineLocal, String timeZone, String latePolicy, String instructions,
                           String cautionsHeading, List<String> cautions, String cautionsDeference,
                           List<MyItem> items, List<Notice> notices, boolean receiptOpen) {
+
+        /** Whether the laboratory's scores have been issued to it (from the preliminary report on). */
+        public boolean scoresIssued() {
+            return RoundState.valueOf(state).resultsVisibleBeyondOwnLab();
+        }
     }
 
     public record MyItem(String itemLabel, String status, OffsetDateTime dispatchedAt, OffsetDateTime receivedAt,
