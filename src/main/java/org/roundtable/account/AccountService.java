@@ -85,8 +85,8 @@ public class AccountService {
     /** Users whose username or name contains {@code query}, {@code limit} of them from row {@code offset}. */
     @Transactional
     public LaboratoryService.Page<UserView> search(String query, int offset, int limit) {
-        String like = "%" + (query == null ? "" : query.strip().toLowerCase(Locale.ROOT)
-                .replace("\\", "\\\\").replace("%", "\\%").replace("_", "\\_")) + "%";
+        String like = org.roundtable.platform.LikePatterns.containing(
+                query == null ? "" : query.strip().toLowerCase(Locale.ROOT));
         String where = "lower(username) like ?1 or lower(displayName) like ?1";
         List<UserView> items = users.find(where, io.quarkus.panache.common.Sort.by("username"), like)
                 .range(offset, offset + limit - 1).list().stream().map(UserView::of).toList();

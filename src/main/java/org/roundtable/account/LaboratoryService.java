@@ -95,8 +95,8 @@ public class LaboratoryService {
     /** Laboratories whose name or organisation contains {@code query}, {@code limit} from row {@code offset}. */
     @Transactional
     public Page<LaboratoryView> search(String query, int offset, int limit) {
-        String like = "%" + (query == null ? "" : query.strip().toLowerCase(Locale.ROOT)
-                .replace("\\", "\\\\").replace("%", "\\%").replace("_", "\\_")) + "%";
+        String like = org.roundtable.platform.LikePatterns.containing(
+                query == null ? "" : query.strip().toLowerCase(Locale.ROOT));
         String where = "lower(name) like ?1 or lower(organisation) like ?1";
         List<LaboratoryView> items = laboratories.find(where, Sort.by("organisation").and("name"), like)
                 .range(offset, offset + limit - 1).list().stream().map(LaboratoryView::of).toList();

@@ -187,8 +187,7 @@ public class EvaluationReview {
         long runId = runId(roundId, version);
         StringBuilder where = new StringBuilder(" WHERE run_id = :run AND element = :e AND item_label = :i");
         String like = code == null || code.isBlank() ? null
-                : "%" + code.strip().toUpperCase(Locale.ROOT).replace("\\", "\\\\").replace("%", "\\%")
-                .replace("_", "\\_") + "%";
+                : org.roundtable.platform.LikePatterns.containing(code.strip().toUpperCase(Locale.ROOT));
         if (like != null) {
             where.append(" AND upper(participant_code) LIKE :code");
         }

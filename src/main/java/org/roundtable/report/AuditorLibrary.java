@@ -182,7 +182,7 @@ public class AuditorLibrary {
         }
         if (filter.query() != null) {
             where.append(" AND (r.code ILIKE :fq OR d.report_id ILIKE :fq OR p.participant_code ILIKE :fq)");
-            params.put("fq", "%" + filter.query().replace("\\", "\\\\").replace("%", "\\%").replace("_", "\\_") + "%");
+            params.put("fq", org.roundtable.platform.LikePatterns.containing(filter.query()));
         }
         if (filter.from() != null) {
             where.append(" AND d.issued_at >= :ffrom");

@@ -140,7 +140,7 @@ public class SubmissionQueries {
         if (clean.length() > 100) {
             clean = clean.substring(0, 100);
         }
-        return "%" + clean.replace("\\", "\\\\").replace("%", "\\%").replace("_", "\\_") + "%";
+        return org.roundtable.platform.LikePatterns.containing(clean);
     }
 
     /** Coordinators: every revision of one laboratory's submission, oldest first. */
