@@ -82,6 +82,12 @@ final class PrecisionStudies {
 
     /** A study of the given create body, frozen, {@code laboratories} enrolled (L01 …), dispatched and open for results. */
     Study openForResults(String code, Map<String, Object> body, int laboratories) {
+        return openForResults(code, body, laboratories, (coordinator, roundId) -> { });
+    }
+
+    /** As above, with {@code whileEnrolling} run once the laboratories are enrolled, before the materials are dispatched. */
+    Study openForResults(String code, Map<String, Object> body, int laboratories,
+                         java.util.function.BiConsumer<World.Browser, Long> whileEnrolling) {
         World.Browser coordinator = world.signIn(world.user("coordinator", null));
         Response created = coordinator.json().body(body).post("/api/v1/precision-experiments");
         if (created.statusCode() != 201) {
@@ -99,6 +105,7 @@ final class PrecisionStudies {
                 throw new AssertionError(r.asString());
             }
         }
+        whileEnrolling.accept(coordinator, roundId);
         transition(coordinator, roundId, "CONFIRM_QUALIFICATION");
         transition(coordinator, roundId, "DISPATCH_ITEMS");
         transition(coordinator, roundId, "OPEN_FOR_RESULTS");
