@@ -32,7 +32,8 @@ final class PrecisionReportDocument {
     record Content(String reportId, String status, String issueDate, String providerName, String roundCode,
                    String schemeName, List<Level> levels, int planVersion, String planSha256, int runNumber,
                    List<PrecisionExperimentService.DataRow> data, List<PrecisionExperimentService.Exclusion> exclusions,
-                   Map<String, Integer> reportingDigits, PrecisionCalculation.Study study) {
+                   Map<String, Integer> reportingDigits, PrecisionCalculation.Study study,
+                   List<PrecisionMaterials.Row> materials) {
     }
 
     /** A level and its material. */
@@ -85,6 +86,7 @@ final class PrecisionReportDocument {
                     + " period; the final report follows after it.</p>\n");
         }
         design();
+        materials();
         statement();
         for (PrecisionCalculation.MeasurandResult m : c.study().measurands()) {
             measurand(m);
@@ -112,6 +114,30 @@ final class PrecisionReportDocument {
                 + " straggler level ").append(percent(s.stragglerLevel())).append(", outlier level ")
                 .append(percent(s.outlierLevel())).append("; precision–level relationship ")
                 .append(s.fitRelationship() ? "fitted" : "not fitted").append(".</p>\n");
+    }
+
+    private void materials() {
+        out.append("<h2>Homogeneity of the materials</h2>\n");
+        if (c.materials().isEmpty()) {
+            out.append("<p>No homogeneity data were recorded for the materials.</p>\n");
+            return;
+        }
+        out.append("<table><thead><tr><th>Level</th><th>Measurand</th><th>Design</th><th>Mean</th><th>s_w</th><th>s_s</th>")
+                .append("<th>Target SD</th><th>0.3 × target</th><th>√c</th><th>Verdict</th><th>0.3 × s_R found</th></tr></thead><tbody>");
+        for (PrecisionMaterials.Row r : c.materials()) {
+            out.append("<tr><td>").append(esc(r.level())).append("</td><td>").append(esc(r.measurand())).append(" (")
+                    .append(esc(r.unit())).append(")</td><td>").append(esc(r.design())).append("</td><td class=\"n\">")
+                    .append(esc(r.mean())).append("</td><td class=\"n\">").append(esc(r.withinSd())).append("</td><td class=\"n\">")
+                    .append(esc(r.betweenSd())).append("</td><td class=\"n\">").append(esc(r.target())).append("</td><td class=\"n\">")
+                    .append(esc(r.limit())).append("</td><td class=\"n\">").append(esc(r.allowance())).append("</td><td")
+                    .append(r.homogeneous() ? ">" : " class=\"flag\">").append(esc(r.verdict())).append("</td><td>")
+                    .append(r.observedLimit() == null ? "–" : esc(r.observedLimit() + (Boolean.TRUE.equals(r.meetsObserved())
+                            ? " (met)" : " (not met)"))).append("</td></tr>");
+        }
+        out.append("</tbody></table>\n<p class=\"caption\">Each level's material checked as a proficiency-test sample"
+                + " (ISO 13528 Annex B): s_s ≤ 0.3 × the target SD the coordinator gave (the expected s_R), and"
+                + " s_s² ≤ F1·(0.3 × target)² + F2·s_w² (Fearn and Thompson 2001); the last column compares s_s with"
+                + " 0.3 × the s_R of this evaluation. The expected s_R in place of σpt is common practice, no source.</p>\n");
     }
 
     private void statement() {

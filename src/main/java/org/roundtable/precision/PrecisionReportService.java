@@ -42,10 +42,11 @@ public class PrecisionReportService {
     private final EntityManager entityManager;
     private final Clock clock;
     private final String providerName;
+    private final PrecisionMaterials materials;
 
     public PrecisionReportService(PrecisionExperimentService studies, RoundService roundService, RoundAccess rounds,
                                   IssuedDocuments documents, CurrentUser currentUser, EntityManager entityManager,
-                                  Clock clock,
+                                  Clock clock, PrecisionMaterials materials,
                                   @ConfigProperty(name = "roundtable.reports.provider-name",
                                           defaultValue = "Roundtable proficiency testing") String providerName) {
         this.studies = studies;
@@ -56,6 +57,7 @@ public class PrecisionReportService {
         this.entityManager = entityManager;
         this.clock = clock;
         this.providerName = providerName;
+        this.materials = materials;
     }
 
     /** An issued report of the study, for the API. */
@@ -164,6 +166,6 @@ public class PrecisionReportService {
         return new PrecisionReportDocument.Content(reportId, status == ReportStatus.PRELIMINARY ? "Draft for comment"
                 : "Final", date, providerName, study.roundCode(), scheme, levels, run.planVersion(), study.planSha256(),
                 run.runNumber(), studies.data(study.roundId()), studies.exclusions(study.roundId()),
-                study.reportingDigits(), run.study());
+                study.reportingDigits(), run.study(), materials.of(study.roundId(), run.study()));
     }
 }

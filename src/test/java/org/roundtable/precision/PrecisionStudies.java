@@ -76,9 +76,20 @@ final class PrecisionStudies {
 
     /** A study created and frozen, 12 laboratories enrolled, items dispatched and open for results. */
     Study openForResults() {
-        World.Browser coordinator = world.signIn(world.user("coordinator", null));
         String code = World.unique("PE").toUpperCase();
-        Response created = coordinator.json().body(createBody(scheme(), code)).post("/api/v1/precision-experiments");
+        return openForResults(code, createBody(scheme(), code), 12);
+    }
+
+    /** A study of the given create body, frozen, {@code laboratories} enrolled (L01 …), dispatched and open for results. */
+    Study openForResults(String code, Map<String, Object> body, int laboratories) {
+        return openForResults(code, body, laboratories, (coordinator, roundId) -> { });
+    }
+
+    /** As above, with {@code whileEnrolling} run once the laboratories are enrolled, before the materials are dispatched. */
+    Study openForResults(String code, Map<String, Object> body, int laboratories,
+                         java.util.function.BiConsumer<World.Browser, Long> whileEnrolling) {
+        World.Browser coordinator = world.signIn(world.user("coordinator", null));
+        Response created = coordinator.json().body(body).post("/api/v1/precision-experiments");
         if (created.statusCode() != 201) {
             throw new AssertionError(created.asString());
         }
@@ -86,7 +97,7 @@ final class PrecisionStudies {
         transition(coordinator, roundId, "FREEZE_PLAN");
         transition(coordinator, roundId, "OPEN_ENROLMENT");
         Map<String, Long> labs = new LinkedHashMap<>();
-        for (int i = 1; i <= 12; i++) {
+        for (int i = 1; i <= laboratories; i++) {
             long lab = world.laboratory();
             labs.put(String.format("L%02d", i), lab);
             Response r = coordinator.json().body(Map.of("laboratoryId", lab)).post("/api/v1/rounds/" + roundId + "/enrolments");
@@ -94,6 +105,7 @@ final class PrecisionStudies {
                 throw new AssertionError(r.asString());
             }
         }
+        whileEnrolling.accept(coordinator, roundId);
         transition(coordinator, roundId, "CONFIRM_QUALIFICATION");
         transition(coordinator, roundId, "DISPATCH_ITEMS");
         transition(coordinator, roundId, "OPEN_FOR_RESULTS");

@@ -13,6 +13,8 @@ import org.roundtable.platform.Secrets;
 import org.roundtable.scheme.EvaluationPlan;
 import org.roundtable.scheme.PlanDocument;
 import org.roundtable.scheme.PlanStore;
+import org.roundtable.scheme.PrecisionPlan;
+import org.roundtable.scheme.RoundAccess;
 import org.roundtable.scheme.RoundAction;
 import org.roundtable.scheme.RoundGate;
 import org.roundtable.statistics.StatisticsWarning;
@@ -62,9 +64,11 @@ public class QualificationService {
     private final EntityManager entityManager;
     private final ObjectMapper mapper;
     private final Clock clock;
+    private final RoundAccess rounds;
 
     public QualificationService(RoundGate gate, PlanStore plans, AuditTrail audit, CurrentUser currentUser,
-                                EntityManager entityManager, ObjectMapper mapper, Clock clock) {
+                                EntityManager entityManager, ObjectMapper mapper, Clock clock, RoundAccess rounds) {
+        this.rounds = rounds;
         this.gate = gate;
         this.plans = plans;
         this.audit = audit;
@@ -169,16 +173,7 @@ public class QualificationService {
             PlannedMeasurand m = planned.get(e.getKey());
             double[][] items = items(e.getKey(), e.getValue());
             HomogeneityCheck.Result r = HomogeneityCheck.evaluate(items, m.sigma().value());
-            HomogeneityFigures figures = new HomogeneityFigures(m.sigma().value(), m.sigma().source(), r.itemCount(),
-                    r.replicates(), r.grandMean(), r.itemMeansSd(), r.withinItemSd(), r.betweenItemSd(),
-                    r.betweenItemVariance(), HomogeneityCheck.ALLOWANCE_FACTOR * m.sigma().value(),
-                    r.passesSimpleCriterion(), r.f1(), r.f2(), r.allowance(), Math.sqrt(r.allowance()),
-                    r.passesAllowanceCriterion(), r.sufficientlyHomogeneous(), r.withinToSigmaRatio(),
-                    r.cochran() == null ? null : r.cochran().statistic(),
-                    r.cochran() == null ? null : r.cochran().critical5(),
-                    r.cochran() == null ? null : r.cochran().critical1(),
-                    r.cochran() == null ? null : r.cochran().verdict().name(),
-                    r.warnings().stream().map(StatisticsWarning::message).toList());
+            HomogeneityFigures figures = figures(r, m.sigma().value(), m.sigma().source());
             toStore.add(new Stored(e.getKey(), "HOMOGENEITY", m.sigma(), csvOf(e.getValue()), json(figures),
                     figures.sufficientlyHomogeneous()));
         }
@@ -327,6 +322,138 @@ public class QualificationService {
         return java.util.Set.copyOf(elements);
     }
 
+    // ---- materials of a precision experiment -----------------------------------------------------------
+
+    /**
+     * The latest homogeneity check of one level (material) and measurand of a precision experiment, against the
+     * target SD the coordinator gave with the data (the expected s_R at that level): the figures of
+     * {@link HomogeneityCheck} with σpt read as that target, so the criterion is s_s ≤ 0.3·target, with the F1/F2
+     * allowance for the within-item SD.
+     */
+    public record LevelHomogeneity(String level, String material, String element, String unit, int reportingDigits,
+                                   HomogeneityFigures figures, String uploadedBy, OffsetDateTime uploadedAt) {
+    }
+
+    /** Where {@link HomogeneityFigures#sigmaPtSource} names the target of a precision experiment's material. */
+    public static final String EXPECTED_REPRODUCIBILITY = "expected s_R";
+
+    /**
+     * Homogeneity data of one level of a precision experiment (columns item, replicate, measurand, value; g ≥ 10
+     * items, equal replicates ≥ 2) with the target SD per measurand ({@code targets}: element → decimal text in the
+     * measurand's unit); only the measurands in the data need a target. All-or-nothing, like a round's upload.
+     */
+    @Transactional
+    public List<LevelHomogeneity> uploadLevelHomogeneity(long roundId, String level, Map<String, String> targets,
+                                                         Upload upload) {
+        return levelHomogeneity(roundId, level, targets, () -> QualificationCsv.homogeneity(upload == null ? null : upload.csv()));
+    }
+
+    /** The same as {@link #uploadLevelHomogeneity} from a CSV or XLSX file. */
+    @Transactional
+    public List<LevelHomogeneity> uploadLevelHomogeneityFile(long roundId, String level, Map<String, String> targets,
+                                                             DataFile file) {
+        return levelHomogeneity(roundId, level, targets, () -> QualificationCsv.homogeneity(file.content(), file.format()));
+    }
+
+    private List<LevelHomogeneity> levelHomogeneity(long roundId, String levelText, Map<String, String> targets,
+                                                    Supplier<List<QualificationCsv.HomogeneityRow>> read) {
+        RoundAccess.PrecisionStudy study = precisionStudy(roundId);
+        gate.enter(roundId, RoundAction.UPLOAD_QUALIFICATION_DATA);
+        String level = levelText == null ? "" : levelText.strip();
+        if (!study.plan().levelLabels().contains(level)) {
+            throw new DomainException.BadRequest("Choose one of the study's levels: "
+                    + String.join(", ", study.plan().levelLabels()) + ".");
+        }
+        List<QualificationCsv.HomogeneityRow> rows = read.get();
+        Map<String, List<QualificationCsv.HomogeneityRow>> byElement = new TreeMap<>();
+        for (QualificationCsv.HomogeneityRow row : rows) {
+            if (!study.plan().measurands().contains(row.element())) {
+                throw QualificationCsv.error(row.line(), "measurand", row.element() + " is not a measurand of the study");
+            }
+            byElement.computeIfAbsent(row.element(), e -> new ArrayList<>()).add(row);
+        }
+        List<Stored> toStore = new ArrayList<>();
+        for (Map.Entry<String, List<QualificationCsv.HomogeneityRow>> e : byElement.entrySet()) {
+            String unit = study.units().get(e.getKey());
+            double target = target(targets == null ? null : targets.get(e.getKey()), e.getKey(), unit);
+            double[][] items = items(e.getKey(), e.getValue());
+            HomogeneityFigures figures = figures(HomogeneityCheck.evaluate(items, target), target, EXPECTED_REPRODUCIBILITY);
+            toStore.add(new Stored(e.getKey(), "HOMOGENEITY", new PlanDocument.QualificationSigma(target, EXPECTED_REPRODUCIBILITY),
+                    csvOf(e.getValue()), json(figures), figures.sufficientlyHomogeneous(), level));
+        }
+        store(roundId, toStore);
+        return levelHomogeneity(roundId);
+    }
+
+    /** The latest check of every level and measurand of a precision experiment that has one, in plan order. */
+    @Transactional
+    public List<LevelHomogeneity> levelHomogeneity(long roundId) {
+        RoundAccess.PrecisionStudy study = precisionStudy(roundId);
+        @SuppressWarnings("unchecked")
+        List<Object[]> rows = entityManager.createNativeQuery("""
+                SELECT DISTINCT ON (level_label, element) level_label, element, figures_json, uploaded_by, uploaded_at
+                  FROM qualification_check WHERE round_id = :r AND kind = 'HOMOGENEITY' AND level_label IS NOT NULL
+                 ORDER BY level_label, element, id DESC
+                """).setParameter("r", roundId).getResultList();
+        Map<String, Object[]> latest = new java.util.HashMap<>();
+        rows.forEach(r -> latest.put(r[0] + "|" + r[1], r));
+        List<LevelHomogeneity> out = new ArrayList<>();
+        for (PrecisionPlan.Level l : study.plan().levels()) {
+            for (String element : study.plan().measurands()) {
+                Object[] r = latest.get(l.label() + "|" + element);
+                if (r != null) {
+                    out.add(new LevelHomogeneity(l.label(), l.material(), element, study.units().get(element),
+                            study.reportingDigits().getOrDefault(element, 2), read((String) r[2], HomogeneityFigures.class),
+                            (String) r[3], Timestamps.utc(r[4])));
+                }
+            }
+        }
+        return out;
+    }
+
+    private RoundAccess.PrecisionStudy precisionStudy(long roundId) {
+        if (!rounds.isPrecisionExperiment(roundId)) {
+            throw new DomainException.NotFound("The precision experiment");
+        }
+        return rounds.precisionStudy(roundId)
+                .orElseThrow(() -> new DomainException.Conflict("Freeze the study's plan first: the materials are checked against its levels and measurands."));
+    }
+
+    private static double target(String text, String element, String unit) {
+        String t = text == null ? "" : text.strip().replace(',', '.');
+        try {
+            double v = new java.math.BigDecimal(t).doubleValue();
+            if (v > 0 && Double.isFinite(v)) {
+                return v;
+            }
+        } catch (NumberFormatException e) {
+            // the message below
+        }
+        throw new DomainException.BadRequest("Give the target SD of " + element + " (the expected s_R at this level, in "
+                + unit + "), a number above 0.");
+    }
+
+    private static HomogeneityFigures figures(HomogeneityCheck.Result r, double sigma, String source) {
+        return new HomogeneityFigures(sigma, source, r.itemCount(),
+                r.replicates(), r.grandMean(), r.itemMeansSd(), r.withinItemSd(), r.betweenItemSd(),
+                r.betweenItemVariance(), HomogeneityCheck.ALLOWANCE_FACTOR * sigma,
+                r.passesSimpleCriterion(), r.f1(), r.f2(), r.allowance(), Math.sqrt(r.allowance()),
+                r.passesAllowanceCriterion(), r.sufficientlyHomogeneous(), r.withinToSigmaRatio(),
+                r.cochran() == null ? null : r.cochran().statistic(),
+                r.cochran() == null ? null : r.cochran().critical5(),
+                r.cochran() == null ? null : r.cochran().critical1(),
+                r.cochran() == null ? null : r.cochran().verdict().name(),
+                r.warnings().stream().map(StatisticsWarning::message).toList());
+    }
+
+    private <T> T read(String json, Class<T> type) {
+        try {
+            return mapper.readValue(json, type);
+        } catch (JsonProcessingException e) {
+            throw new IllegalStateException(e);
+        }
+    }
+
     // ---- internals -------------------------------------------------------------------------------------
 
     private record PlannedMeasurand(String element, String unit, PlanDocument.QualificationSigma sigma, boolean consensus,
@@ -334,7 +461,11 @@ public class QualificationService {
     }
 
     private record Stored(String element, String kind, PlanDocument.QualificationSigma sigma, String csv, String figures,
-                          boolean passed) {
+                          boolean passed, String level) {
+        Stored(String element, String kind, PlanDocument.QualificationSigma sigma, String csv, String figures,
+               boolean passed) {
+            this(element, kind, sigma, csv, figures, passed, null);
+        }
     }
 
     private Map<String, PlannedMeasurand> planned(long roundId) {
@@ -424,9 +555,9 @@ public class QualificationService {
             String dataHash = Secrets.sha256Hex(s.csv());
             entityManager.createNativeQuery("""
                     INSERT INTO qualification_check (round_id, element, kind, sigma_pt, sigma_pt_source, data_csv,
-                           data_sha256, figures_json, passed, uploaded_by, uploaded_at)
-                    VALUES (:r, :e, :k, :sigma, :source, :csv, :sha, :figures, :passed, :by, :at)
-                    """).setParameter("r", roundId).setParameter("e", s.element()).setParameter("k", s.kind())
+                           data_sha256, figures_json, passed, uploaded_by, uploaded_at, level_label)
+                    VALUES (:r, :e, :k, :sigma, :source, :csv, :sha, :figures, :passed, :by, :at, CAST(:level AS varchar))
+                    """).setParameter("r", roundId).setParameter("level", s.level()).setParameter("e", s.element()).setParameter("k", s.kind())
                     .setParameter("sigma", java.math.BigDecimal.valueOf(s.sigma().value()))
                     .setParameter("source", s.sigma().source())
                     .setParameter("csv", s.csv()).setParameter("sha", dataHash).setParameter("figures", s.figures())
@@ -434,7 +565,7 @@ public class QualificationService {
                     .executeUpdate();
             audit.record(new AuditTrail.Event(currentUser.actor(), "qualification." + s.kind().toLowerCase(Locale.ROOT)
                     + "-uploaded", "round", Long.toString(roundId), null, dataHash,
-                    "element=" + s.element() + " passed=" + s.passed()));
+                    "element=" + s.element() + (s.level() == null ? "" : " level=" + s.level()) + " passed=" + s.passed()));
         }
     }
 
@@ -442,7 +573,7 @@ public class QualificationService {
         @SuppressWarnings("unchecked")
         List<String> rows = entityManager.createNativeQuery("""
                 SELECT data_csv FROM qualification_check WHERE round_id = :r AND element = :e AND kind = :k
-                 ORDER BY id DESC LIMIT 1
+                   AND level_label IS NULL ORDER BY id DESC LIMIT 1
                 """).setParameter("r", roundId).setParameter("e", element).setParameter("k", kind).getResultList();
         return rows.stream().findFirst();
     }
@@ -451,7 +582,7 @@ public class QualificationService {
         @SuppressWarnings("unchecked")
         List<String> rows = entityManager.createNativeQuery("""
                 SELECT figures_json FROM qualification_check WHERE round_id = :r AND element = :e AND kind = :k
-                 ORDER BY id DESC LIMIT 1
+                   AND level_label IS NULL ORDER BY id DESC LIMIT 1
                 """).setParameter("r", roundId).setParameter("e", element).setParameter("k", kind).getResultList();
         return rows.stream().findFirst().map(json -> {
             try {
