@@ -101,9 +101,9 @@ public class HistoryService {
 
         /** The score used for this result: z′ where the round used it, else z; null when not scored. */
         public ScoreKind zLikeKind() {
-            if (zPrime != null && scoreUsed != null && scoreUsed.toUpperCase(Locale.ROOT).replace("'", "_PRIME")
-                    .replace("ZPRIME", "Z_PRIME").equals("Z_PRIME")) {
-                return ScoreKind.Z_PRIME;
+            if (zPrime != null && scoreUsed != null && (scoreUsed.equalsIgnoreCase("Z_PRIME")
+                    || scoreUsed.equalsIgnoreCase("Z'") || scoreUsed.equalsIgnoreCase("ZPRIME"))) {
+                return ScoreKind.Z_PRIME; // without building new strings: called several times per result
             }
             return z != null ? ScoreKind.Z : zPrime != null ? ScoreKind.Z_PRIME : null;
         }
@@ -153,9 +153,14 @@ public class HistoryService {
     }
 
     /** The history as the reader may see it. */
+    /**
+     * The history as the reader may see it; {@code visibleRounds} are the rounds of the whole history before the
+     * filter (for the page's corrective actions; not part of the JSON).
+     */
     public record History(long laboratoryId, String laboratoryName, String organisation, Filter filter,
                           List<Entry> entries, List<Series> series, List<EarlyWarnings.Warning> warnings,
-                          Options options, String windowNote) {
+                          Options options, String windowNote,
+                          @com.fasterxml.jackson.annotation.JsonIgnore java.util.Set<Long> visibleRounds) {
     }
 
     private final EntityManager entityManager;
@@ -199,8 +204,10 @@ public class HistoryService {
                 .map(w -> (w.from() == null ? "the start" : w.from().toString()) + " to "
                         + (w.until() == null ? "today" : w.until().toString()))
                 .reduce((a, b) -> a + "; " + b).orElse("");
+        java.util.Set<Long> visibleRounds = new java.util.HashSet<>();
+        all.forEach(e -> visibleRounds.add(e.roundId()));
         return new History(laboratoryId, lab.name(), lab.organisation(), f, shown, series, warnings, options,
-                windowNote);
+                windowNote, java.util.Set.copyOf(visibleRounds));
     }
 
     /**

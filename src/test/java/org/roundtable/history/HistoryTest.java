@@ -93,6 +93,7 @@ class HistoryTest {
         rounds.published(scheme, lab, "17.75", ReportStatus.FINAL); // z = −2.5
         JsonPath h = history(member, "/api/v1/my-laboratory/history", 200);
         assertThat(h.getList("warnings.kind")).containsExactly("QUESTIONABLE_IN_A_ROW");
+        assertThat(h.getMap("")).doesNotContainKey("visibleRounds"); // the page's bookkeeping stays out of the JSON
     }
 
     @Test
