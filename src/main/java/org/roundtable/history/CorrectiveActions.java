@@ -113,12 +113,39 @@ public class CorrectiveActions {
         return Map.entry(attachment(r), (byte[]) r[7]);
     }
 
+    /**
+     * A laboratory's entries for a reader who may see the rounds {@code visibleRounds} of its history (the set the
+     * history page has already read, so that the page does not read the history twice).
+     */
+    @Transactional
+    public List<Entry> forReader(long laboratoryId, java.util.Set<Long> visibleRounds) {
+        return ofLaboratory(laboratoryId).stream().filter(e -> visibleRounds.contains(e.roundId())).toList();
+    }
+
+    /**
+     * Every entry of a laboratory, newest first: two queries (the entries, then all their attachments), not two per
+     * entry ({@code corrective_action_lab_idx}, {@code corrective_action_attachment_action_idx}).
+     */
     List<Entry> ofLaboratory(long laboratoryId) {
         @SuppressWarnings("unchecked")
-        List<Number> ids = entityManager.createNativeQuery(
-                        "SELECT id FROM corrective_action WHERE laboratory_id = :lab ORDER BY created_at DESC, id DESC")
+        List<Object[]> rows = entityManager.createNativeQuery(SELECT_ENTRY
+                        + " WHERE a.laboratory_id = :lab ORDER BY a.created_at DESC, a.id DESC")
                 .setParameter("lab", laboratoryId).getResultList();
-        return ids.stream().map(id -> find(id.longValue(), laboratoryId, false).orElseThrow()).toList();
+        if (rows.isEmpty()) {
+            return List.of();
+        }
+        @SuppressWarnings("unchecked")
+        List<Object[]> files = entityManager.createNativeQuery("""
+                SELECT f.id, f.file_name, f.content_type, octet_length(f.bytes), f.sha256, f.added_by, f.added_at,
+                       f.action_id
+                  FROM corrective_action_attachment f JOIN corrective_action a ON a.id = f.action_id
+                 WHERE a.laboratory_id = :lab ORDER BY f.action_id, f.id
+                """).setParameter("lab", laboratoryId).getResultList();
+        Map<Long, List<Attachment>> byAction = new java.util.HashMap<>();
+        for (Object[] f : files) {
+            byAction.computeIfAbsent(num(f[7]), k -> new java.util.ArrayList<>()).add(attachment(f));
+        }
+        return rows.stream().map(r -> entry(r, byAction.getOrDefault(num(r[0]), List.of()))).toList();
     }
 
     // ---- writing ----------------------------------------------------------------------------------------------
@@ -318,32 +345,37 @@ public class CorrectiveActions {
         return e;
     }
 
+    /** The columns of an entry, as {@link #entry} reads them. */
+    private static final String SELECT_ENTRY = """
+            SELECT a.id, a.laboratory_id, a.round_id, a.round_code, a.element, a.item_label, a.verdict, a.cause,
+                   a.action_taken, a.evidence, a.effectiveness_round_id,
+                   (SELECT p.round_code FROM history_publication p WHERE p.round_id = a.effectiveness_round_id LIMIT 1),
+                   a.effectiveness_note, a.corrects_id,
+                   (SELECT c.id FROM corrective_action c WHERE c.corrects_id = a.id),
+                   a.created_by, a.created_at, a.updated_by, a.updated_at, a.closed_by, a.closed_at, a.version
+              FROM corrective_action a""";
+
     private Optional<Entry> find(long id, long lab, boolean lock) {
         @SuppressWarnings("unchecked")
-        List<Object[]> rows = entityManager.createNativeQuery("""
-                SELECT a.id, a.laboratory_id, a.round_id, a.round_code, a.element, a.item_label, a.verdict, a.cause,
-                       a.action_taken, a.evidence, a.effectiveness_round_id,
-                       (SELECT p.round_code FROM history_publication p WHERE p.round_id = a.effectiveness_round_id LIMIT 1),
-                       a.effectiveness_note, a.corrects_id,
-                       (SELECT c.id FROM corrective_action c WHERE c.corrects_id = a.id),
-                       a.created_by, a.created_at, a.updated_by, a.updated_at, a.closed_by, a.closed_at, a.version
-                  FROM corrective_action a WHERE a.id = :id AND a.laboratory_id = :lab
-                """ + (lock ? " FOR UPDATE OF a" : "")).setParameter("id", id).setParameter("lab", lab).getResultList();
+        List<Object[]> rows = entityManager.createNativeQuery(SELECT_ENTRY + " WHERE a.id = :id AND a.laboratory_id = :lab"
+                + (lock ? " FOR UPDATE OF a" : "")).setParameter("id", id).setParameter("lab", lab).getResultList();
         if (rows.isEmpty()) {
             return Optional.empty();
         }
-        Object[] r = rows.get(0);
         @SuppressWarnings("unchecked")
         List<Object[]> files = entityManager.createNativeQuery("""
                 SELECT id, file_name, content_type, octet_length(bytes), sha256, added_by, added_at
                   FROM corrective_action_attachment WHERE action_id = :id ORDER BY id
                 """).setParameter("id", id).getResultList();
-        return Optional.of(new Entry(num(r[0]), num(r[1]), num(r[2]), (String) r[3], (String) r[4], (String) r[5],
+        return Optional.of(entry(rows.get(0), files.stream().map(CorrectiveActions::attachment).toList()));
+    }
+
+    private static Entry entry(Object[] r, List<Attachment> files) {
+        return new Entry(num(r[0]), num(r[1]), num(r[2]), (String) r[3], (String) r[4], (String) r[5],
                 (String) r[6], (String) r[7], (String) r[8], (String) r[9], r[10] == null ? null : num(r[10]),
                 (String) r[11], (String) r[12], r[13] == null ? null : num(r[13]), r[14] == null ? null : num(r[14]),
                 (String) r[15], Timestamps.utc(r[16]), (String) r[17], Timestamps.utc(r[18]), (String) r[19],
-                r[20] == null ? null : Timestamps.utc(r[20]), ((Number) r[21]).intValue(),
-                files.stream().map(CorrectiveActions::attachment).toList()));
+                r[20] == null ? null : Timestamps.utc(r[20]), ((Number) r[21]).intValue(), files);
     }
 
     private static Attachment attachment(Object[] r) {

@@ -46,24 +46,33 @@ public final class EarlyWarnings {
     }
 
     /**
-     * The thresholds; {@link #DEFAULTS} unless the scheme's settings say otherwise.
+     * The rules in force: each switched on or off, with its numbers; {@link #DEFAULTS} unless the round's
+     * evaluation plan says otherwise (see {@code docs/methods.md}, "Early warnings").
      *
      * @param unsatisfactory     warn on every unsatisfactory result
+     * @param questionable       warn on questionable results in a row
      * @param questionableInARow how many consecutive questionable results warn (≥ 2)
+     * @param bias               warn on scores of one sign in a row
      * @param sameSignRun        how many consecutive scores of one sign warn (≥ 2)
+     * @param drift              warn on |z| increasing round after round
      * @param driftRounds        over how many consecutive results |z| must increase (≥ 2)
-     * @param driftLimit         the |z| the last of them must reach
+     * @param driftLimit         the |z| the last of them must reach (&gt; 0)
      */
-    public record Rules(boolean unsatisfactory, int questionableInARow, int sameSignRun, int driftRounds,
-                        double driftLimit) {
+    public record Rules(boolean unsatisfactory, boolean questionable, int questionableInARow, boolean bias,
+                        int sameSignRun, boolean drift, int driftRounds, double driftLimit) {
         public Rules {
             if (questionableInARow < 2 || sameSignRun < 2 || driftRounds < 2 || !(driftLimit > 0)) {
                 throw new IllegalArgumentException("warning thresholds: runs of at least 2, a positive drift limit");
             }
         }
+
+        /** Every run rule on, with these numbers. */
+        public Rules(boolean unsatisfactory, int questionableInARow, int sameSignRun, int driftRounds, double driftLimit) {
+            this(unsatisfactory, true, questionableInARow, true, sameSignRun, true, driftRounds, driftLimit);
+        }
     }
 
-    /** Unsatisfactory on; 2 questionable; 6 of one sign; 3 rounds of increasing |z| ending at ≥ 2. */
+    /** Everything on: unsatisfactory; 2 questionable; 6 of one sign; 3 rounds of increasing |z| ending at ≥ 2. */
     public static final Rules DEFAULTS = new Rules(true, 2, 6, 3, 2.0);
 
     /**
@@ -119,7 +128,7 @@ public final class EarlyWarnings {
                         measurand + ": unsatisfactory in round " + p.roundCode() + "."));
             }
             questionable = p.verdict() == Verdict.QUESTIONABLE ? questionable + 1 : 0;
-            if (questionable == rules.questionableInARow()) {
+            if (rules.questionable() && questionable == rules.questionableInARow()) {
                 out.add(new Warning(Kind.QUESTIONABLE_IN_A_ROW, measurand, p.roundCode(),
                         scored.get(i - questionable + 1).roundCode(), measurand + ": " + questionable
                         + " questionable results in a row, the last in round " + p.roundCode() + "."));
@@ -131,14 +140,14 @@ public final class EarlyWarnings {
             }
             signRun = s != 0 && s == sign ? signRun + 1 : (s == 0 ? 0 : 1);
             sign = s;
-            if (signRun == rules.sameSignRun()) {
+            if (rules.bias() && signRun == rules.sameSignRun()) {
                 out.add(new Warning(Kind.BIAS, measurand, p.roundCode(), zRound(scored, i, signRun),
                         measurand + ": " + signRun + " scores in a row " + (s > 0 ? "above" : "below")
                         + " the assigned value, the last in round " + p.roundCode() + "."));
             }
             Double previous = previousZ(scored, i);
             rising = previous != null && Math.abs(p.zLike()) > Math.abs(previous) ? rising + 1 : 1;
-            if (rising >= rules.driftRounds() && Math.abs(p.zLike()) >= rules.driftLimit()) {
+            if (rules.drift() && rising >= rules.driftRounds() && Math.abs(p.zLike()) >= rules.driftLimit()) {
                 out.add(new Warning(Kind.DRIFT, measurand, p.roundCode(), zRound(scored, i, rules.driftRounds()),
                         measurand + ": |z| increased over " + rules.driftRounds() + " rounds in a row to "
                         + String.format(java.util.Locale.ROOT, "%.2f", Math.abs(p.zLike())) + " in round "

@@ -3,8 +3,9 @@ package org.roundtable.history;
 import org.roundtable.platform.NumberFormats;
 
 import java.util.ArrayList;
+import java.util.LinkedHashMap;
 import java.util.List;
-import java.util.Locale;
+import java.util.Map;
 import java.util.function.Function;
 
 /**
@@ -41,11 +42,23 @@ public final class HistoryCharts {
 
     /** The score kinds the series has values for, z / z′ first. */
     public static List<Kind> kinds(HistoryService.Series series) {
-        List<Kind> kinds = new ArrayList<>();
-        for (Kind k : Kind.values()) {
-            if (series.entries().stream().anyMatch(e -> score(k).apply(e) != null)) {
-                kinds.add(k);
-            }
+        boolean zLike = false;
+        boolean zeta = false;
+        boolean en = false;
+        for (HistoryService.Entry e : series.entries()) { // one pass over the entries
+            zLike |= e.z() != null || e.zPrime() != null;
+            zeta |= e.zeta() != null;
+            en |= e.en() != null;
+        }
+        List<Kind> kinds = new ArrayList<>(3);
+        if (zLike) {
+            kinds.add(Kind.Z_LIKE);
+        }
+        if (zeta) {
+            kinds.add(Kind.ZETA);
+        }
+        if (en) {
+            kinds.add(Kind.EN);
         }
         return kinds;
     }
@@ -80,15 +93,15 @@ public final class HistoryCharts {
             hline(svg, y, -l, cls, NumberFormats.MINUS + fmt(l));
         }
         hline(svg, y, 0, "zero", "0");
-        List<String> rounds = rounds(entries);
-        xLabels(svg, rounds);
+        Map<String, Double> xs = xs(entries);
+        xLabels(svg, xs);
         for (HistoryService.Entry e : entries) {
             Double v = score.apply(e);
             if (v == null || !Double.isFinite(v)) {
                 continue;
             }
             double shown = Math.max(-top, Math.min(top, v));
-            point(svg, x(rounds, e.roundCode()), y.at(shown), link.apply(e),
+            point(svg, xs.get(e.roundCode()), y.at(shown), link.apply(e),
                     e.roundCode() + " " + e.itemLabel() + ": " + kind.label() + " = " + NumberFormats.signedScore(v, 2)
                             + (e.verdict() == null ? "" : " (" + e.verdict().word() + ")"),
                     e.verdict() == null ? "none" : e.verdict().word());
@@ -115,26 +128,31 @@ public final class HistoryCharts {
         }
         double pad = hi > lo ? (hi - lo) * 0.1 : Math.max(Math.abs(hi) * 0.05, 1e-9);
         Axis y = new Axis(lo - pad, hi + pad);
-        List<String> rounds = rounds(entries);
-        xLabels(svg, rounds);
+        Map<String, Double> xs = xs(entries);
+        xLabels(svg, xs);
         for (double t : new double[]{lo, (lo + hi) / 2, hi}) {
-            svg.append(String.format(Locale.ROOT, "<text fill=\"#333333\" x=\"%d\" y=\"%.1f\" text-anchor=\"end\">%s</text>",
-                    LEFT - 4, y.at(t) + 4, esc(NumberFormats.plain(t, 3))));
+            svg.append("<text fill=\"#333333\" x=\"").append(LEFT - 4).append("\" y=\"");
+            num(svg, y.at(t) + 4).append("\" text-anchor=\"end\">");
+            esc(svg, NumberFormats.plain(t, 3)).append("</text>");
         }
         for (HistoryService.Entry e : entries) {
             Double xpt = e.assignedValue();
             Double low = band(e, -2);
             Double high = band(e, 2);
-            double cx = x(rounds, e.roundCode());
+            double cx = xs.get(e.roundCode());
             if (low != null && high != null) {
-                svg.append(String.format(Locale.ROOT,
-                        "<rect fill=\"#cfe3f5\" x=\"%.1f\" y=\"%.1f\" width=\"12\" height=\"%.1f\"/>",
-                        cx - 6, y.at(high), Math.max(1, y.at(low) - y.at(high))));
+                svg.append("<rect fill=\"#cfe3f5\" x=\"");
+                num(svg, cx - 6).append("\" y=\"");
+                num(svg, y.at(high)).append("\" width=\"12\" height=\"");
+                num(svg, Math.max(1, y.at(low) - y.at(high))).append("\"/>");
             }
             if (xpt != null) {
-                svg.append(String.format(Locale.ROOT,
-                        "<line stroke=\"#1d4f7a\" stroke-width=\"2\" x1=\"%.1f\" x2=\"%.1f\" y1=\"%.1f\" y2=\"%.1f\"/>",
-                        cx - 8, cx + 8, y.at(xpt), y.at(xpt)));
+                double yx = y.at(xpt);
+                svg.append("<line stroke=\"#1d4f7a\" stroke-width=\"2\" x1=\"");
+                num(svg, cx - 8).append("\" x2=\"");
+                num(svg, cx + 8).append("\" y1=\"");
+                num(svg, yx).append("\" y2=\"");
+                num(svg, yx).append("\"/>");
             }
             if (e.value() != null) {
                 point(svg, cx, y.at(e.value()), link.apply(e), e.roundCode() + " " + e.itemLabel() + ": reported "
@@ -156,10 +174,11 @@ public final class HistoryCharts {
     }
 
     private static StringBuilder open(String label) {
-        return new StringBuilder(4096).append(String.format(Locale.ROOT,
-                "<svg xmlns=\"http://www.w3.org/2000/svg\" class=\"history-chart\" width=\"%d\" height=\"%d\" viewBox=\"0 0 %d %d\" "
-                        + "role=\"group\" aria-label=\"%s\" font-family=\"sans-serif\" font-size=\"11\"><title>%s</title>",
-                WIDTH, HEIGHT, WIDTH, HEIGHT, esc(label), esc(label)));
+        StringBuilder svg = new StringBuilder(32_768).append("<svg xmlns=\"http://www.w3.org/2000/svg\" class=\"history-chart\" width=\"")
+                .append(WIDTH).append("\" height=\"").append(HEIGHT).append("\" viewBox=\"0 0 ").append(WIDTH).append(' ')
+                .append(HEIGHT).append("\" role=\"group\" aria-label=\"");
+        esc(svg, label).append("\" font-family=\"sans-serif\" font-size=\"11\"><title>");
+        return esc(svg, label).append("</title>");
     }
 
     private static void hline(StringBuilder svg, Axis y, double v, String cls, String label) {
@@ -169,30 +188,42 @@ public final class HistoryCharts {
             case "action" -> "stroke=\"#b3261e\"";
             default -> "stroke=\"#888888\"";
         };
-        svg.append(String.format(Locale.ROOT,
-                "<line %s x1=\"%d\" x2=\"%d\" y1=\"%.1f\" y2=\"%.1f\"/>"
-                        + "<text fill=\"#333333\" x=\"%d\" y=\"%.1f\" text-anchor=\"end\">%s</text>",
-                stroke, LEFT, WIDTH - RIGHT, y.at(v), y.at(v), LEFT - 4, y.at(v) + 4, esc(label)));
+        double at = y.at(v);
+        svg.append("<line ").append(stroke).append(" x1=\"").append(LEFT).append("\" x2=\"").append(WIDTH - RIGHT)
+                .append("\" y1=\"");
+        num(svg, at).append("\" y2=\"");
+        num(svg, at).append("\"/><text fill=\"#333333\" x=\"").append(LEFT - 4).append("\" y=\"");
+        num(svg, at + 4).append("\" text-anchor=\"end\">");
+        esc(svg, label).append("</text>");
     }
 
-    private static List<String> rounds(List<HistoryService.Entry> entries) {
-        return entries.stream().map(HistoryService.Entry::roundCode).distinct().toList();
+    /** The x of each round of the entries (in their order), looked up once per point instead of searched. */
+    private static Map<String, Double> xs(List<HistoryService.Entry> entries) {
+        Map<String, Double> xs = new LinkedHashMap<>();
+        for (HistoryService.Entry e : entries) {
+            xs.putIfAbsent(e.roundCode(), 0.0);
+        }
+        int n = Math.max(1, xs.size());
+        int i = 0;
+        for (Map.Entry<String, Double> x : xs.entrySet()) {
+            x.setValue(LEFT + (i++ + 0.5) * (WIDTH - LEFT - RIGHT) / n);
+        }
+        return xs;
     }
 
-    private static double x(List<String> rounds, String round) {
-        int i = rounds.indexOf(round);
-        int n = Math.max(1, rounds.size());
-        return LEFT + (i + 0.5) * (WIDTH - LEFT - RIGHT) / n;
-    }
-
-    private static void xLabels(StringBuilder svg, List<String> rounds) {
-        int step = Math.max(1, (int) Math.ceil(rounds.size() / 12.0));
-        for (int i = 0; i < rounds.size(); i += step) {
-            double cx = x(rounds, rounds.get(i));
-            int cy = HEIGHT - BOTTOM + 14;
-            svg.append(String.format(Locale.ROOT,
-                    "<text fill=\"#333333\" x=\"%.1f\" y=\"%d\" text-anchor=\"end\" transform=\"rotate(-30 %.1f %d)\">%s</text>",
-                    cx, cy, cx, cy, esc(shortCode(rounds.get(i)))));
+    private static void xLabels(StringBuilder svg, Map<String, Double> xs) {
+        int step = Math.max(1, (int) Math.ceil(xs.size() / 12.0));
+        int i = 0;
+        int cy = HEIGHT - BOTTOM + 14;
+        for (Map.Entry<String, Double> x : xs.entrySet()) {
+            if (i++ % step != 0) {
+                continue;
+            }
+            double cx = x.getValue();
+            svg.append("<text fill=\"#333333\" x=\"");
+            num(svg, cx).append("\" y=\"").append(cy).append("\" text-anchor=\"end\" transform=\"rotate(-30 ");
+            num(svg, cx).append(' ').append(cy).append(")\">");
+            esc(svg, shortCode(x.getKey())).append("</text>");
         }
     }
 
@@ -201,9 +232,24 @@ public final class HistoryCharts {
     }
 
     private static void point(StringBuilder svg, double cx, double cy, String href, String title, String cls) {
-        svg.append(String.format(Locale.ROOT,
-                "<a href=\"%s\"><circle fill=\"%s\" stroke=\"#222222\" cx=\"%.1f\" cy=\"%.1f\" r=\"5\"><title>%s</title></circle></a>",
-                esc(href), fill(cls), cx, cy, esc(title)));
+        svg.append("<a href=\"");
+        esc(svg, href).append("\"><circle fill=\"").append(fill(cls)).append("\" stroke=\"#222222\" cx=\"");
+        num(svg, cx).append("\" cy=\"");
+        num(svg, cy).append("\" r=\"5\"><title>");
+        esc(svg, title).append("</title></circle></a>");
+    }
+
+    /**
+     * A coordinate with one decimal, as {@code %.1f} would write it in the root locale but without a formatter
+     * (rounded half up in tenths; charts only).
+     */
+    static StringBuilder num(StringBuilder svg, double v) {
+        long tenths = Math.round(v * 10);
+        if (tenths < 0) {
+            svg.append('-');
+            tenths = -tenths;
+        }
+        return svg.append(tenths / 10).append('.').append((char) ('0' + tenths % 10));
     }
 
     private static String fill(String verdict) {
@@ -220,6 +266,21 @@ public final class HistoryCharts {
     }
 
     static String esc(String s) {
-        return s.replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;").replace("\"", "&quot;");
+        return esc(new StringBuilder(s.length() + 16), s).toString();
+    }
+
+    /** Appends {@code s} escaped for SVG text and attributes, in one pass. */
+    static StringBuilder esc(StringBuilder out, String s) {
+        for (int i = 0; i < s.length(); i++) {
+            char c = s.charAt(i);
+            switch (c) {
+                case '&' -> out.append("&amp;");
+                case '<' -> out.append("&lt;");
+                case '>' -> out.append("&gt;");
+                case '"' -> out.append("&quot;");
+                default -> out.append(c);
+            }
+        }
+        return out;
     }
 }

@@ -100,7 +100,7 @@ public class HistoryPages {
         HistoryService.History h = history.history(laboratoryId,
                 HistoryFilters.of(scheme, measurand, method, from, until, rounds, years));
         return Templates.history(view(h, false, "/laboratories/" + laboratoryId + "/history", page,
-                e -> "/api/v1/rounds/" + e.roundId() + "/documents/" + e.documentId(), actions.forReader(laboratoryId)));
+                e -> "/api/v1/rounds/" + e.roundId() + "/documents/" + e.documentId(), actions.forReader(laboratoryId, h.visibleRounds())));
     }
 
     static PageView view(HistoryService.History h, boolean own, String action, String pageParam,

@@ -9,6 +9,8 @@ import org.roundtable.account.LaboratoryService;
 import org.roundtable.account.Role;
 import org.roundtable.platform.DomainException;
 import org.roundtable.platform.Timestamps;
+import org.roundtable.scheme.EvaluationPlan;
+import org.roundtable.scheme.RoundService;
 import org.roundtable.statistics.score.CombinedScores;
 import org.roundtable.statistics.score.ScoreKind;
 
@@ -99,9 +101,9 @@ public class HistoryService {
 
         /** The score used for this result: z′ where the round used it, else z; null when not scored. */
         public ScoreKind zLikeKind() {
-            if (zPrime != null && scoreUsed != null && scoreUsed.toUpperCase(Locale.ROOT).replace("'", "_PRIME")
-                    .replace("ZPRIME", "Z_PRIME").equals("Z_PRIME")) {
-                return ScoreKind.Z_PRIME;
+            if (zPrime != null && scoreUsed != null && (scoreUsed.equalsIgnoreCase("Z_PRIME")
+                    || scoreUsed.equalsIgnoreCase("Z'") || scoreUsed.equalsIgnoreCase("ZPRIME"))) {
+                return ScoreKind.Z_PRIME; // without building new strings: called several times per result
             }
             return z != null ? ScoreKind.Z : zPrime != null ? ScoreKind.Z_PRIME : null;
         }
@@ -151,9 +153,14 @@ public class HistoryService {
     }
 
     /** The history as the reader may see it. */
+    /**
+     * The history as the reader may see it; {@code visibleRounds} are the rounds of the whole history before the
+     * filter (for the page's corrective actions; not part of the JSON).
+     */
     public record History(long laboratoryId, String laboratoryName, String organisation, Filter filter,
                           List<Entry> entries, List<Series> series, List<EarlyWarnings.Warning> warnings,
-                          Options options, String windowNote) {
+                          Options options, String windowNote,
+                          @com.fasterxml.jackson.annotation.JsonIgnore java.util.Set<Long> visibleRounds) {
     }
 
     private final EntityManager entityManager;
@@ -161,10 +168,13 @@ public class HistoryService {
     private final AuditorGrantService grants;
     private final LaboratoryService laboratories;
     private final HistorySettings settings;
+    private final RoundService rounds;
     private final java.time.Clock clock;
 
     public HistoryService(EntityManager entityManager, CurrentUser currentUser, AuditorGrantService grants,
-                          LaboratoryService laboratories, HistorySettings settings, java.time.Clock clock) {
+                          LaboratoryService laboratories, HistorySettings settings, RoundService rounds,
+                          java.time.Clock clock) {
+        this.rounds = rounds;
         this.entityManager = entityManager;
         this.currentUser = currentUser;
         this.grants = grants;
@@ -188,14 +198,16 @@ public class HistoryService {
         List<Entry> all = entries(laboratoryId, reader);
         Options options = options(all);
         List<Entry> shown = all.stream().filter(e -> matches(e, f)).toList();
-        List<Series> series = series(shown, f);
+        List<Series> series = series(shown, f, warningRules(all));
         List<EarlyWarnings.Warning> warnings = series.stream().flatMap(s -> s.warnings().stream()).toList();
         String windowNote = reader.windows == null ? null : reader.windows.stream()
                 .map(w -> (w.from() == null ? "the start" : w.from().toString()) + " to "
                         + (w.until() == null ? "today" : w.until().toString()))
                 .reduce((a, b) -> a + "; " + b).orElse("");
+        java.util.Set<Long> visibleRounds = new java.util.HashSet<>();
+        all.forEach(e -> visibleRounds.add(e.roundId()));
         return new History(laboratoryId, lab.name(), lab.organisation(), f, shown, series, warnings, options,
-                windowNote);
+                windowNote, java.util.Set.copyOf(visibleRounds));
     }
 
     /**
@@ -205,7 +217,7 @@ public class HistoryService {
     @Transactional
     public List<EarlyWarnings.Warning> earlyWarnings(long laboratoryId) {
         List<Entry> all = entries(laboratoryId, new Reader(TO_LABORATORIES, null));
-        return series(all, Filter.none()).stream().flatMap(s -> s.warnings().stream()).toList();
+        return series(all, Filter.none(), warningRules(all)).stream().flatMap(s -> s.warnings().stream()).toList();
     }
 
     /** The rounds of the laboratory's history the caller may see (404 as in {@link #history}). */
@@ -303,20 +315,73 @@ public class HistoryService {
 
     // ---- series, combined scores, warnings ----------------------------------------------------------------------
 
-    List<Series> series(List<Entry> entries, Filter f) {
-        return series(entries, f, settings.warningRules(), LocalDate.now(clock.withZone(ZoneOffset.UTC)));
+    List<Series> series(List<Entry> entries, Filter f, Map<Long, EarlyWarnings.Rules> rulesByScheme) {
+        EarlyWarnings.Rules fallback = settings.warningRules();
+        return series(entries, f, scheme -> rulesByScheme.getOrDefault(scheme, fallback),
+                LocalDate.now(clock.withZone(ZoneOffset.UTC)));
     }
 
-    /** Groups entries into per-measurand series with combined scores and warnings (pure; public for the benchmark). */
+    /**
+     * The early-warning rules of each scheme in {@code all} (the reader's whole history, before any filter): those
+     * of the plan in force of the scheme's latest round in it (the last reported), so one set of rules judges the
+     * whole series and a filter does not change them. A plan that names no early warnings (stored before plans
+     * did) takes the installation's settings ({@link HistorySettings}, by default {@link EarlyWarnings#DEFAULTS}).
+     * One query for all schemes.
+     */
+    Map<Long, EarlyWarnings.Rules> warningRules(List<Entry> all) {
+        Map<Long, Long> latestRound = new LinkedHashMap<>();
+        for (Entry e : all) {
+            latestRound.put(e.schemeId(), e.roundId()); // oldest first: the last one stays
+        }
+        Map<Long, EvaluationPlan.EarlyWarningPlan> plans = rounds.earlyWarningPlans(new TreeSet<>(latestRound.values()));
+        EarlyWarnings.Rules fallback = settings.warningRules();
+        Map<Long, EarlyWarnings.Rules> out = new java.util.HashMap<>();
+        latestRound.forEach((scheme, round) -> out.put(scheme, rules(plans.get(round), fallback)));
+        return out;
+    }
+
+    /** The rules a plan's early warnings state; {@code fallback} for a plan without them or a value left out. */
+    static EarlyWarnings.Rules rules(EvaluationPlan.EarlyWarningPlan w, EarlyWarnings.Rules fallback) {
+        if (w == null) {
+            return fallback;
+        }
+        return new EarlyWarnings.Rules(on(w.unsatisfactory(), fallback.unsatisfactory()),
+                on(w.questionable(), fallback.questionable()), whole(w.questionableInARow(), fallback.questionableInARow()),
+                on(w.bias(), fallback.bias()), whole(w.sameSignRun(), fallback.sameSignRun()),
+                on(w.drift(), fallback.drift()), whole(w.driftRounds(), fallback.driftRounds()),
+                w.driftLimit() == null ? fallback.driftLimit() : Double.parseDouble(w.driftLimit()));
+    }
+
+    private static boolean on(String value, boolean fallback) {
+        return value == null ? fallback : Boolean.parseBoolean(value);
+    }
+
+    private static int whole(String value, int fallback) {
+        return value == null ? fallback : Integer.parseInt(value);
+    }
+
+    /** As {@link #series(List, Filter, java.util.function.Function, LocalDate)} with one set of rules for all. */
     public static List<Series> series(List<Entry> entries, Filter f, EarlyWarnings.Rules warningRules, LocalDate today) {
+        return series(entries, f, scheme -> warningRules, today);
+    }
+
+    /**
+     * Groups entries into per-measurand series with combined scores and warnings, judged by the rules of the
+     * series' scheme (pure; public for the benchmark).
+     */
+    public static List<Series> series(List<Entry> entries, Filter f,
+                                      java.util.function.Function<Long, EarlyWarnings.Rules> rulesOfScheme,
+                                      LocalDate today) {
         Map<String, List<Entry>> byKey = new LinkedHashMap<>();
         for (Entry e : entries) {
             byKey.computeIfAbsent(e.seriesKey(), k -> new ArrayList<>()).add(e);
         }
-        EarlyWarnings rules = new EarlyWarnings(warningRules);
+        Map<Long, EarlyWarnings> rulesBySchemeId = new java.util.HashMap<>();
         List<Series> out = new ArrayList<>();
         for (List<Entry> list : byKey.values()) {
             Entry first = list.get(0);
+            EarlyWarnings rules = rulesBySchemeId.computeIfAbsent(first.schemeId(),
+                    id -> new EarlyWarnings(rulesOfScheme.apply(id)));
             String label = first.element() + " (" + first.schemeName() + ")";
             List<EarlyWarnings.Point> points = list.stream().map(e -> new EarlyWarnings.Point(e.roundCode(),
                     e.zLike(), e.verdict(), e.informationOnly())).toList();

@@ -4,8 +4,9 @@ import io.smallrye.config.ConfigMapping;
 import io.smallrye.config.WithDefault;
 
 /**
- * The history's settings ({@code roundtable.history.*}): the early-warning thresholds of the installation
- * (common practice, no source; see {@link EarlyWarnings}).
+ * The history's settings ({@code roundtable.history.*}): the early-warning thresholds of the installation (common
+ * practice, no source; see {@link EarlyWarnings}), used only for a plan stored before plans named their early
+ * warnings; every newer plan states its own (see {@link HistoryService#warningRules}).
  */
 @ConfigMapping(prefix = "roundtable.history")
 public interface HistorySettings {

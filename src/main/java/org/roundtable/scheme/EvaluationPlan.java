@@ -8,7 +8,33 @@ import java.util.List;
  * digit. {@link PlanDocument} checks a plan against the scheme's catalogue, fills documented defaults and
  * writes the canonical JSON that is hashed and frozen.
  */
-public record EvaluationPlan(List<MeasurandPlan> measurands) {
+public record EvaluationPlan(List<MeasurandPlan> measurands, EarlyWarningPlan earlyWarnings) {
+
+    /** A plan with the usual early warnings (all on, default numbers). */
+    public EvaluationPlan(List<MeasurandPlan> measurands) {
+        this(measurands, null);
+    }
+
+    /**
+     * The early warnings that laboratories' histories raise over the scheme's rounds (see {@code docs/methods.md},
+     * "Early warnings"): each rule switched on ({@code "true"}) or off ({@code "false"}) with its numbers, as
+     * entered. Absent values take the defaults, which are common practice, no source: every unsatisfactory result;
+     * 2 questionable results in a row; 6 scores of one sign in a row; |z| increasing over 3 rounds with the last
+     * |z| ≥ 2.
+     *
+     * @param unsatisfactory     warn on every unsatisfactory result
+     * @param questionable       warn on questionable results in a row
+     * @param questionableInARow how many in a row (2 to 20)
+     * @param bias               warn on scores of one sign in a row
+     * @param sameSignRun        how many in a row (2 to 40)
+     * @param drift              warn on |z| increasing round after round
+     * @param driftRounds        over how many rounds (2 to 20)
+     * @param driftLimit         the |z| the last of them reaches at least (a positive decimal number up to 10)
+     */
+    public record EarlyWarningPlan(String unsatisfactory, String questionable, String questionableInARow,
+                                   String bias, String sameSignRun, String drift, String driftRounds,
+                                   String driftLimit) {
+    }
 
     /** How the assigned value x_pt is obtained. */
     public enum AssignedValueMethod {

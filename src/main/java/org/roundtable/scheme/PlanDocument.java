@@ -28,8 +28,9 @@ import java.util.TreeSet;
  * whitespace, absent values left out (never {@code null}), numbers kept as the decimal strings that were
  * entered, measurands in order of atomic number, score lists in the order of {@link EvaluationPlan.Score}.
  * Defaults are written out (minimum participants 10, minimum for a data-derived σpt 10, not scored below them,
- * quartile rule, stopping rule, boundary rule, coverage factor 2, score decimals 2, En at k = 2, scores z/z′), so
- * the document states every choice. The document also carries what the round
+ * quartile rule, stopping rule, boundary rule, coverage factor 2, score decimals 2, En at k = 2, scores z/z′, the
+ * early warnings of laboratories' histories all on with {@link #DEFAULT_EARLY_WARNINGS}), so the document states
+ * every choice. The document also carries what the round
  * fixes for evaluation: its code, the late-result policy and the participant-code scope, and each
  * measurand's unit and reporting digits from the catalogue. The SHA-256 of the UTF-8 bytes of this text is
  * the plan's hash.
@@ -43,6 +44,9 @@ public final class PlanDocument {
     public static final int DEFAULT_MINIMUM_FOR_DATA_DERIVED_SIGMA_PT = 10;
     /** Score decimals when the plan states none. */
     public static final int DEFAULT_SCORE_DECIMALS = org.roundtable.platform.NumberFormats.DEFAULT_SCORE_DECIMALS;
+    /** Early warnings when the plan states none (common practice, no source): every rule on with these numbers. */
+    public static final EvaluationPlan.EarlyWarningPlan DEFAULT_EARLY_WARNINGS = new EvaluationPlan.EarlyWarningPlan(
+            "true", "true", "2", "true", "6", "true", "3", "2");
 
     private PlanDocument() {
     }
@@ -89,6 +93,7 @@ public final class PlanDocument {
         root.put("participantCodeScope", round.codeScope().name());
         ArrayNode array = root.putArray("measurands");
         entries.forEach(array::add);
+        root.set("earlyWarnings", earlyWarnings(plan.earlyWarnings(), mapper));
         String json = write(root);
         return new Canonical(json, Secrets.sha256Hex(json));
     }
@@ -231,6 +236,53 @@ public final class PlanDocument {
                 ? EvaluationPlan.BoundaryRule.SATISFACTORY_TO_2_UNSATISFACTORY_FROM_3.name()
                 : choice(EvaluationPlan.BoundaryRule.class, p.boundaryRule(), where, "boundaryRule", "boundary rule").name());
         return e;
+    }
+
+    /**
+     * The early warnings with the defaults filled in; a refusal names the field ({@code earlyWarnings.<name>},
+     * no entry) so that a form shows it beside the field.
+     */
+    private static ObjectNode earlyWarnings(EvaluationPlan.EarlyWarningPlan given, ObjectMapper mapper) {
+        EvaluationPlan.EarlyWarningPlan w = given == null ? DEFAULT_EARLY_WARNINGS : given;
+        EvaluationPlan.EarlyWarningPlan d = DEFAULT_EARLY_WARNINGS;
+        ObjectNode e = mapper.createObjectNode();
+        e.put("unsatisfactory", switchValue(w.unsatisfactory(), d.unsatisfactory(), "unsatisfactory"));
+        e.put("questionable", switchValue(w.questionable(), d.questionable(), "questionable"));
+        e.put("questionableInARow", whole(w.questionableInARow(), d.questionableInARow(), 2, 20, "questionableInARow",
+                "questionable results in a row"));
+        e.put("bias", switchValue(w.bias(), d.bias(), "bias"));
+        e.put("sameSignRun", whole(w.sameSignRun(), d.sameSignRun(), 2, 40, "sameSignRun", "scores of one sign in a row"));
+        e.put("drift", switchValue(w.drift(), d.drift(), "drift"));
+        e.put("driftRounds", whole(w.driftRounds(), d.driftRounds(), 2, 20, "driftRounds", "rounds of increasing |z|"));
+        String limit = blank(w.driftLimit()) ? d.driftLimit() : w.driftLimit().strip();
+        if (!limit.matches("[0-9]{1,2}(\\.[0-9]{1,6})?") || new BigDecimal(limit).signum() <= 0
+                || new BigDecimal(limit).compareTo(BigDecimal.TEN) > 0) {
+            throw warningFail("driftLimit", "the last |z| of a drift is a positive decimal number up to 10, such as 2 or 2.5.");
+        }
+        e.put("driftLimit", limit);
+        return e;
+    }
+
+    private static String switchValue(String value, String fallback, String field) {
+        String clean = blank(value) ? fallback : value.strip().toLowerCase(Locale.ROOT);
+        if (!clean.equals("true") && !clean.equals("false")) {
+            throw warningFail(field, "a warning is switched on (true) or off (false).");
+        }
+        return clean;
+    }
+
+    private static String whole(String value, String fallback, int min, int max, String field, String what) {
+        String clean = blank(value) ? fallback : value.strip();
+        if (!clean.matches("[0-9]{1,3}") || Integer.parseInt(clean) < min || Integer.parseInt(clean) > max) {
+            throw warningFail(field, "the number of " + what + " is a whole number from " + min + " to " + max + ".");
+        }
+        return Integer.toString(Integer.parseInt(clean));
+    }
+
+    private static DomainException warningFail(String field, String message) {
+        String sentence = Character.toUpperCase(message.charAt(0)) + message.substring(1);
+        return new DomainException.BadRequest("Early warnings: " + message, List.of(new DomainException.Detail(null,
+                "earlyWarnings." + field, null, "plan.earlyWarnings." + field, sentence)));
     }
 
     /**

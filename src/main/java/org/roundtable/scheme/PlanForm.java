@@ -28,7 +28,15 @@ public final class PlanForm {
     static final List<String> CHOICE_FIELDS = List.of("assignedValueMethod", "methodGroup", "sigmaPtMethod",
             "quartileRule", "stoppingRule", "boundaryRule", "belowMinimum");
 
+    /** The switches of the early warnings (posted as {@code earlyWarnings.<name>} check boxes). */
+    static final List<String> WARNING_SWITCHES = List.of("unsatisfactory", "questionable", "bias", "drift");
+    /** The numbers of the early warnings (posted as {@code earlyWarnings.<name>}). */
+    static final List<String> WARNING_NUMBERS = List.of("questionableInARow", "sameSignRun", "driftRounds", "driftLimit");
+    /** Posted with the early-warning fields, so that an unticked box means "off" and not "not in the form". */
+    static final String WARNINGS_SHOWN = "earlyWarnings.shown";
+
     private final List<Row> rows;
+    private final Warnings warnings = new Warnings();
     private String error;
 
     private PlanForm(List<Row> rows) {
@@ -145,8 +153,77 @@ public final class PlanForm {
         }
     }
 
+    /** The plan's early warnings as the form shows them: each switch, each number as typed, problems per field. */
+    public static final class Warnings {
+        private final Map<String, String> values = new HashMap<>();
+        private final Map<String, String> problems = new HashMap<>();
+
+        /** Whether the rule {@code name} is switched on. */
+        public boolean on(String name) {
+            return "true".equals(values.get(name));
+        }
+
+        /** A number as typed (or the plan's), or empty text. */
+        public String value(String name) {
+            String v = values.get(name);
+            return v == null ? "" : v;
+        }
+
+        /** The posted name of a field. */
+        public String name(String field) {
+            return "earlyWarnings." + field;
+        }
+
+        /** The element id of a field. */
+        public String id(String field) {
+            return "warnings-" + field;
+        }
+
+        /** The problem of a field, or null. */
+        public String problem(String field) {
+            return problems.get(field);
+        }
+
+        public boolean hasProblems() {
+            return !problems.isEmpty();
+        }
+
+        private void fill(EvaluationPlan.EarlyWarningPlan w) {
+            EvaluationPlan.EarlyWarningPlan d = PlanDocument.DEFAULT_EARLY_WARNINGS;
+            EvaluationPlan.EarlyWarningPlan p = w == null ? d : w;
+            values.put("unsatisfactory", or(p.unsatisfactory(), d.unsatisfactory()));
+            values.put("questionable", or(p.questionable(), d.questionable()));
+            values.put("questionableInARow", or(p.questionableInARow(), d.questionableInARow()));
+            values.put("bias", or(p.bias(), d.bias()));
+            values.put("sameSignRun", or(p.sameSignRun(), d.sameSignRun()));
+            values.put("drift", or(p.drift(), d.drift()));
+            values.put("driftRounds", or(p.driftRounds(), d.driftRounds()));
+            values.put("driftLimit", or(p.driftLimit(), d.driftLimit()));
+        }
+
+        private static String or(String value, String fallback) {
+            return value == null ? fallback : value;
+        }
+
+        EvaluationPlan.EarlyWarningPlan plan() {
+            return new EvaluationPlan.EarlyWarningPlan(values.get("unsatisfactory"), values.get("questionable"),
+                    v("questionableInARow"), values.get("bias"), v("sameSignRun"), values.get("drift"),
+                    v("driftRounds"), v("driftLimit"));
+        }
+
+        private String v(String field) {
+            String value = values.get(field);
+            return value == null || value.isBlank() ? null : value.strip();
+        }
+    }
+
     public List<Row> rows() {
         return rows;
+    }
+
+    /** The early warnings of the plan. */
+    public Warnings warnings() {
+        return warnings;
     }
 
     /** The problem of the whole form (shown above it), or null. */
@@ -155,7 +232,7 @@ public final class PlanForm {
     }
 
     public boolean hasProblems() {
-        return error != null || rows.stream().anyMatch(Row::hasProblems);
+        return error != null || warnings.hasProblems() || rows.stream().anyMatch(Row::hasProblems);
     }
 
     /**
@@ -165,6 +242,7 @@ public final class PlanForm {
      */
     static PlanForm of(List<Measurand> catalogue, EvaluationPlan plan) {
         PlanForm form = new PlanForm(catalogue.stream().map(Row::new).toList());
+        form.warnings.fill(plan == null ? null : plan.earlyWarnings());
         Map<String, EvaluationPlan.MeasurandPlan> byElement = new HashMap<>();
         if (plan != null && plan.measurands() != null) {
             plan.measurands().forEach(p -> byElement.put(p.element(), p));
@@ -218,6 +296,17 @@ public final class PlanForm {
     /** The form as posted: every value kept exactly as typed, so that a refused save shows it again. */
     static PlanForm posted(List<Measurand> catalogue, MultivaluedMap<String, String> posted) {
         PlanForm form = new PlanForm(catalogue.stream().map(Row::new).toList());
+        if (posted.containsKey(WARNINGS_SHOWN)) {
+            for (String name : WARNING_SWITCHES) {
+                form.warnings.values.put(name, posted.containsKey("earlyWarnings." + name) ? "true" : "false");
+            }
+            for (String name : WARNING_NUMBERS) {
+                String typed = posted.getFirst("earlyWarnings." + name);
+                form.warnings.values.put(name, typed == null ? "" : typed);
+            }
+        } else {
+            form.warnings.fill(null); // a client that does not post the section keeps the usual warnings
+        }
         for (Row row : form.rows) {
             row.included = posted.containsKey(row.name("include"));
             for (String field : TEXT_FIELDS) {
@@ -249,7 +338,7 @@ public final class PlanForm {
         if (entries.isEmpty()) {
             throw new DomainException.BadRequest("Tick at least one measurand to evaluate.");
         }
-        return new EvaluationPlan(entries);
+        return new EvaluationPlan(entries, warnings.plan());
     }
 
     /**
@@ -260,6 +349,13 @@ public final class PlanForm {
         List<Row> ticked = rows.stream().filter(r -> r.included).toList();
         String first = null;
         for (DomainException.Detail d : e.details()) {
+            if (d.row() == null && d.column() != null && d.column().startsWith("earlyWarnings.")) {
+                warnings.problems.put(d.column().substring("earlyWarnings.".length()), d.message());
+                if (first == null) {
+                    first = "Early warnings: " + d.message();
+                }
+                continue;
+            }
             if (d.row() != null && d.column() != null && d.row() >= 1 && d.row() <= ticked.size()) {
                 Row row = ticked.get(d.row() - 1);
                 row.problems.put(d.column(), d.message());

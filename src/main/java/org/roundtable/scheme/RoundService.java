@@ -261,6 +261,43 @@ public class RoundService {
         return version;
     }
 
+    /**
+     * The early warnings of the latest plan version of each round in {@code :rounds} (primary key of
+     * {@code evaluation_plan}, round first). Public for the history benchmark.
+     */
+    public static final String EARLY_WARNING_PLANS_SQL = """
+            SELECT DISTINCT ON (round_id) round_id, (canonical_json::jsonb -> 'earlyWarnings')::text
+              FROM evaluation_plan WHERE round_id IN (:rounds) ORDER BY round_id, plan_version DESC
+            """;
+
+    /**
+     * The early warnings of each round's plan in force (its latest frozen version), for laboratories' histories:
+     * one query for all {@code roundIds}; a round without a frozen plan is left out, a plan stored before plans
+     * named early warnings maps to null. No access check: thresholds only, no results.
+     */
+    @Transactional
+    public java.util.Map<Long, EvaluationPlan.EarlyWarningPlan> earlyWarningPlans(java.util.Collection<Long> roundIds) {
+        java.util.Map<Long, EvaluationPlan.EarlyWarningPlan> out = new java.util.HashMap<>();
+        if (roundIds.isEmpty()) {
+            return out;
+        }
+        @SuppressWarnings("unchecked")
+        List<Object[]> rows = entityManager.createNativeQuery(EARLY_WARNING_PLANS_SQL).setParameter("rounds", roundIds)
+                .getResultList();
+        for (Object[] r : rows) {
+            EvaluationPlan.EarlyWarningPlan w = null;
+            if (r[1] != null) {
+                try {
+                    w = mapper.readValue(r[1].toString(), EvaluationPlan.EarlyWarningPlan.class);
+                } catch (com.fasterxml.jackson.core.JsonProcessingException e) {
+                    throw new IllegalStateException("stored plan is not readable", e);
+                }
+            }
+            out.put(((Number) r[0]).longValue(), w);
+        }
+        return out;
+    }
+
     @Transactional
     public List<PlanStore.PlanVersion> planVersions(long roundId) {
         gate.find(roundId);

@@ -155,9 +155,25 @@ class CoordinatorBrowserTest {
         assertThat(browser.findElement(By.id("Mn-include")).isSelected()).isFalse();
         assertThat(world.text("SELECT coalesce(draft_plan, 'none') FROM round WHERE id = ?", other)).isEqualTo("none");
         Browser.screenshot(browser, "coordinator/05-plan-copied");
+        // the plan's early warnings: a number out of range is refused beside its field, what was typed kept
+        WebElement questionable = browser.findElement(By.id("warnings-questionableInARow"));
+        questionable.clear();
+        questionable.sendKeys("1");
+        browser.findElement(By.id("warnings-bias")).click(); // switched off
+        Browser.submit(browser, By.id("save-plan"));
+        assertThat(browser.findElement(By.id("warnings-questionableInARow-problem")).getText())
+                .isEqualTo("The number of questionable results in a row is a whole number from 2 to 20.");
+        assertThat(browser.findElement(By.id("warnings-questionableInARow")).getAttribute("value")).isEqualTo("1");
+        assertThat(browser.findElement(By.id("warnings-bias")).isSelected()).isFalse();
+        assertThat(browser.findElement(By.id("Cr-referenceValue")).getAttribute("value")).isEqualTo("18.20");
+        Browser.screenshot(browser, "coordinator/05b-plan-warning-refused");
+        questionable = browser.findElement(By.id("warnings-questionableInARow"));
+        questionable.clear();
+        questionable.sendKeys("3");
         Browser.submit(browser, By.id("save-plan"));
         assertThat(browser.findElement(By.id("plan-message")).getText()).isEqualTo("Draft plan saved.");
-        assertThat(world.text("SELECT draft_plan FROM round WHERE id = ?", other)).contains("\"sigmaPtPercent\":\"1.5\"");
+        assertThat(world.text("SELECT draft_plan FROM round WHERE id = ?", other)).contains("\"sigmaPtPercent\":\"1.5\"")
+                .contains("\"bias\":\"false\"").contains("\"questionableInARow\":\"3\"");
 
         // a finished round shows no form that would be refused
         long finished = world.round(RoundState.FINAL_ISSUED, lab);

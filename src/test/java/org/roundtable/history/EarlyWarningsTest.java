@@ -92,4 +92,24 @@ class EarlyWarningsTest {
         assertThat(kinds(three.evaluate("Cr", z(0.5, 1.0)))).containsExactly(EarlyWarnings.Kind.DRIFT);
         assertThat(kinds(three.evaluate("Cr", z(-0.1, -0.2, -0.1, -0.05)))).containsExactly(EarlyWarnings.Kind.BIAS);
     }
+
+    @Test
+    void aRuleSwitchedOffNeverWarnsWhileTheOthersStillDo() {
+        EarlyWarnings noRuns = new EarlyWarnings(new EarlyWarnings.Rules(true, false, 2, false, 6, false, 3, 2.0));
+        assertThat(kinds(noRuns.evaluate("Cr", z(2.5, 2.6, 2.7, 3.1, 0.1, 0.2, 0.3, 0.4, 0.5, 0.6))))
+                .containsExactly(EarlyWarnings.Kind.UNSATISFACTORY);
+        EarlyWarnings nothing = new EarlyWarnings(new EarlyWarnings.Rules(false, false, 2, false, 6, false, 3, 2.0));
+        assertThat(nothing.evaluate("Cr", z(2.5, 2.6, 2.7, 3.1, 0.1, 0.2, 0.3, 0.4, 0.5, 0.6))).isEmpty();
+    }
+
+    @Test
+    void aPlanStatesTheRulesAndWhatItLeavesOutIsTheFallback() {
+        EarlyWarnings.Rules r = HistoryService.rules(new org.roundtable.scheme.EvaluationPlan.EarlyWarningPlan(
+                "false", "true", "3", "false", null, "true", "4", "2.5"), EarlyWarnings.DEFAULTS);
+        assertThat(r).isEqualTo(new EarlyWarnings.Rules(false, true, 3, false, 6, true, 4, 2.5));
+        assertThat(HistoryService.rules(null, EarlyWarnings.DEFAULTS)).isEqualTo(EarlyWarnings.DEFAULTS);
+        // the plan's defaults are the rules' defaults
+        assertThat(HistoryService.rules(org.roundtable.scheme.PlanDocument.DEFAULT_EARLY_WARNINGS,
+                new EarlyWarnings.Rules(false, false, 9, false, 9, false, 9, 9.0))).isEqualTo(EarlyWarnings.DEFAULTS);
+    }
 }

@@ -42,9 +42,14 @@ public class HistoryRounds {
     }
 
     static EvaluationPlan certifiedCr() {
+        return certifiedCr(null);
+    }
+
+    /** As {@link #certifiedCr()} with the plan's early warnings (null: the usual ones). */
+    static EvaluationPlan certifiedCr(EvaluationPlan.EarlyWarningPlan warnings) {
         return new EvaluationPlan(List.of(new EvaluationPlan.MeasurandPlan("Cr", "CERTIFIED_REFERENCE", null, "18.00",
                 "0.02", "2", null, "FIXED", "0.10", null, null, null, null, null, null, null, null, null, null, null,
-                null)));
+                null)), warnings);
     }
 
     /** A fresh scheme for a series of rounds. */
@@ -54,7 +59,12 @@ public class HistoryRounds {
 
     /** A closed round of {@code scheme} with the laboratories' Cr results ({@code values[i]} for {@code labs[i]}), evaluated. */
     public long evaluatedRound(long scheme, long[] labs, String[] values) {
-        long round = world.round(RoundState.CLOSED, certifiedCr(), Round.LatePolicy.REFUSE, labs);
+        return evaluatedRound(scheme, labs, values, null);
+    }
+
+    /** As {@link #evaluatedRound(long, long[], String[])} with the plan's early warnings (null: the usual ones). */
+    public long evaluatedRound(long scheme, long[] labs, String[] values, EvaluationPlan.EarlyWarningPlan warnings) {
+        long round = world.round(RoundState.CLOSED, certifiedCr(warnings), Round.LatePolicy.REFUSE, labs);
         world.sql("UPDATE round SET scheme_id = ? WHERE id = ?", scheme, round);
         for (int i = 0; i < labs.length; i++) {
             world.reportResult(round, labs[i], "Cr", values[i], null, "spark-oes", false);
@@ -65,7 +75,13 @@ public class HistoryRounds {
 
     /** A round of one laboratory's result, evaluated and issued with a round report of {@code status} now. */
     public long published(long scheme, long lab, String value, ReportStatus status) {
-        long round = evaluatedRound(scheme, new long[]{lab}, new String[]{value});
+        return published(scheme, lab, value, status, null);
+    }
+
+    /** As {@link #published(long, long, String, ReportStatus)} with the round plan's early warnings. */
+    public long published(long scheme, long lab, String value, ReportStatus status,
+                          EvaluationPlan.EarlyWarningPlan warnings) {
+        long round = evaluatedRound(scheme, new long[]{lab}, new String[]{value}, warnings);
         publications.issueRoundReport(round, 1, status);
         return round;
     }

@@ -93,6 +93,7 @@ class HistoryTest {
         rounds.published(scheme, lab, "17.75", ReportStatus.FINAL); // z = −2.5
         JsonPath h = history(member, "/api/v1/my-laboratory/history", 200);
         assertThat(h.getList("warnings.kind")).containsExactly("QUESTIONABLE_IN_A_ROW");
+        assertThat(h.getMap("")).doesNotContainKey("visibleRounds"); // the page's bookkeeping stays out of the JSON
     }
 
     @Test
@@ -194,5 +195,68 @@ class HistoryTest {
         assertThat(coordinator.request().get("/schemes/" + scheme + "/field").then().statusCode(200).extract().asString())
                 .contains("Spark OES", "33.3 %");
         history(coordinator, "/api/v1/field-view/999999999", 404);
+    }
+
+    private static org.roundtable.scheme.EvaluationPlan.EarlyWarningPlan warnings(String unsatisfactory,
+            String questionable, String questionableInARow, String bias, String drift, String driftRounds,
+            String driftLimit) {
+        return new org.roundtable.scheme.EvaluationPlan.EarlyWarningPlan(unsatisfactory, questionable,
+                questionableInARow, bias, "6", drift, driftRounds, driftLimit);
+    }
+
+    private List<Object> performanceNotices(World.Browser who) {
+        return history(who, "/api/v1/notices", 200).getList("notices.findAll { it.kind == 'performance-warning' }");
+    }
+
+    @Test
+    void withThreeQuestionableInARowInThePlanTheWarningAndItsNoticeComeAtTheThirdAndNotAtTheSecond() {
+        long lab = world.laboratory();
+        long scheme = rounds.scheme();
+        World.Browser member = member(lab);
+        org.roundtable.scheme.EvaluationPlan.EarlyWarningPlan three = warnings("true", "true", "3", "true", "true", "3", "2");
+        rounds.published(scheme, lab, "18.25", ReportStatus.FINAL, three); // z = +2.5
+        rounds.published(scheme, lab, "17.75", ReportStatus.FINAL, three); // z = −2.5: two in a row, no warning yet
+        assertThat(history(member, "/api/v1/my-laboratory/history", 200).getList("warnings")).isEmpty();
+        assertThat(performanceNotices(member)).isEmpty();
+        long third = rounds.published(scheme, lab, "18.22", ReportStatus.FINAL, three); // z = +2.2: the third
+        JsonPath h = history(member, "/api/v1/my-laboratory/history", 200);
+        assertThat(h.getList("warnings.kind")).containsExactly("QUESTIONABLE_IN_A_ROW");
+        assertThat(h.getString("warnings[0].message")).contains("3 questionable results in a row");
+        assertThat(performanceNotices(member)).hasSize(1);
+        assertThat(world.text("SELECT code FROM round WHERE id = ?", third)).isEqualTo(h.getString("warnings[0].roundCode"));
+    }
+
+    @Test
+    void withADriftOfTwoRoundsToOnePointTwoInThePlanItWarnsAtTheSecondResultAndNotAtTheFirst() {
+        long lab = world.laboratory();
+        long scheme = rounds.scheme();
+        World.Browser member = member(lab);
+        org.roundtable.scheme.EvaluationPlan.EarlyWarningPlan drift = warnings("true", "true", "2", "true", "true", "2", "1.2");
+        rounds.published(scheme, lab, "18.10", ReportStatus.FINAL, drift); // z = 1.0
+        assertThat(history(member, "/api/v1/my-laboratory/history", 200).getList("warnings")).isEmpty();
+        rounds.published(scheme, lab, "18.13", ReportStatus.FINAL, drift); // z = 1.3 ≥ 1.2, rising over 2 rounds
+        assertThat(history(member, "/api/v1/my-laboratory/history", 200).getList("warnings.kind")).containsExactly("DRIFT");
+        assertThat(performanceNotices(member)).hasSize(1);
+        // the page shows it too
+        assertThat(member.request().accept("text/html").get("/my-laboratory/history").then().statusCode(200).extract()
+                .asString()).contains("|z| increased over 2 rounds in a row");
+    }
+
+    @Test
+    void rulesSwitchedOffInThePlanGiveNoWarningAndNoNoticeAndTheLatestRoundsPlanJudgesTheWholeHistory() {
+        long lab = world.laboratory();
+        long scheme = rounds.scheme();
+        World.Browser member = member(lab);
+        org.roundtable.scheme.EvaluationPlan.EarlyWarningPlan off = warnings("false", "false", "2", "false", "false", "3", "2");
+        rounds.published(scheme, lab, "18.25", ReportStatus.FINAL, off); // z = +2.5
+        rounds.published(scheme, lab, "17.75", ReportStatus.FINAL, off); // z = −2.5: two questionable in a row
+        rounds.published(scheme, lab, "18.40", ReportStatus.FINAL, off); // z = +4.0: unsatisfactory
+        assertThat(history(member, "/api/v1/my-laboratory/history", 200).getList("warnings")).isEmpty();
+        assertThat(performanceNotices(member)).isEmpty();
+        // a later round with the usual plan: its rules now judge the whole series (see docs/methods.md)
+        rounds.published(scheme, lab, "18.05", ReportStatus.FINAL); // z = +0.5
+        assertThat(history(member, "/api/v1/my-laboratory/history", 200).getList("warnings.kind"))
+                .containsExactly("QUESTIONABLE_IN_A_ROW", "UNSATISFACTORY");
+        assertThat(performanceNotices(member)).isEmpty(); // the new round fired nothing itself
     }
 }

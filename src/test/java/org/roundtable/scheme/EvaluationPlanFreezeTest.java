@@ -70,7 +70,9 @@ class EvaluationPlanFreezeTest {
         assertThat(second).isEqualTo(first);
         // written out by hand from the documented canonical form (sorted keys, no whitespace, defaults stated,
         // numbers as entered, measurands by atomic number: Cr 24 before Mn 25)
-        String expected = "{\"format\":\"roundtable-evaluation-plan-1\",\"latePolicy\":\"ACCEPT_FLAGGED_UNSCORED\","
+        String expected = "{\"earlyWarnings\":{\"bias\":\"true\",\"drift\":\"true\",\"driftLimit\":\"2\","
+                + "\"driftRounds\":\"3\",\"questionable\":\"true\",\"questionableInARow\":\"2\",\"sameSignRun\":\"6\","
+                + "\"unsatisfactory\":\"true\"},\"format\":\"roundtable-evaluation-plan-1\",\"latePolicy\":\"ACCEPT_FLAGGED_UNSCORED\","
                 + "\"measurands\":[{\"assignedValueMethod\":\"CONSENSUS_ALL\",\"belowMinimum\":\"NOT_SCORED\","
                 + "\"boundaryRule\":\"SATISFACTORY_TO_2_UNSATISFACTORY_FROM_3\","
                 + "\"element\":\"Cr\",\"exclusionRules\":\"Results reported as < are not used.\","

@@ -65,6 +65,49 @@ class PlanFormTest {
     }
 
     @Test
+    void theEarlyWarningsOfThePlanAreSwitchedAndNumberedInTheFormWithTheirProblemBesideTheField() {
+        long round = world.round(RoundState.DRAFT, World.simplePlan("0.10"), Round.LatePolicy.REFUSE);
+        World.Browser coordinator = world.signIn(world.user("coordinator", null));
+        String page = coordinator.form().accept("text/html").get("/rounds/" + round + "/plan").asString();
+        // the usual warnings: all on, 2, 6, 3 rounds, last |z| 2
+        assertThat(page).contains("name=\"earlyWarnings.questionable\" id=\"warnings-questionable\" value=\"true\" checked")
+                .contains("name=\"earlyWarnings.sameSignRun\" type=\"text\" value=\"6\"")
+                .contains("Questionable results in a row that warn (usually 2)");
+
+        Response refused = coordinator.form().accept("text/html")
+                .formParam("Cr.include", "yes").formParam("Cr.assignedValueMethod", "CONSENSUS_ALL")
+                .formParam("Cr.sigmaPtMethod", "FIXED").formParam("Cr.sigmaPt", "0.10")
+                .formParam("earlyWarnings.shown", "yes").formParam("earlyWarnings.unsatisfactory", "true")
+                .formParam("earlyWarnings.questionableInARow", "1").formParam("earlyWarnings.sameSignRun", "4")
+                .formParam("earlyWarnings.drift", "true").formParam("earlyWarnings.driftRounds", "4")
+                .formParam("earlyWarnings.driftLimit", "2.5")
+                .post("/rounds/" + round + "/plan/form");
+        assertThat(refused.statusCode()).isEqualTo(400);
+        assertThat(refused.asString()).contains("id=\"warnings-questionableInARow-problem\"")
+                .contains("The number of questionable results in a row is a whole number from 2 to 20.")
+                .contains("value=\"1\"").contains("value=\"4\"").contains("value=\"2.5\"")
+                // unticked boxes stay unticked
+                .contains("name=\"earlyWarnings.bias\" id=\"warnings-bias\" value=\"true\">");
+
+        Response saved = coordinator.form().accept("text/html")
+                .formParam("Cr.include", "yes").formParam("Cr.assignedValueMethod", "CONSENSUS_ALL")
+                .formParam("Cr.sigmaPtMethod", "FIXED").formParam("Cr.sigmaPt", "0.10")
+                .formParam("earlyWarnings.shown", "yes").formParam("earlyWarnings.unsatisfactory", "true")
+                .formParam("earlyWarnings.questionableInARow", "3").formParam("earlyWarnings.sameSignRun", "4")
+                .formParam("earlyWarnings.drift", "true").formParam("earlyWarnings.driftRounds", "4")
+                .formParam("earlyWarnings.driftLimit", "2.5")
+                .post("/rounds/" + round + "/plan/form");
+        assertThat(saved.statusCode()).as(saved.asString()).isEqualTo(200);
+        assertThat(world.text("SELECT draft_plan FROM round WHERE id = ?", round)).contains("\"earlyWarnings\":{"
+                + "\"bias\":\"false\",\"drift\":\"true\",\"driftLimit\":\"2.5\",\"driftRounds\":\"4\","
+                + "\"questionable\":\"false\",\"questionableInARow\":\"3\",\"sameSignRun\":\"4\","
+                + "\"unsatisfactory\":\"true\"}");
+        // the saved plan fills the form again
+        assertThat(saved.asString()).contains("name=\"earlyWarnings.driftLimit\" type=\"text\" value=\"2.5\"")
+                .contains("name=\"earlyWarnings.drift\" id=\"warnings-drift\" value=\"true\" checked");
+    }
+
+    @Test
     void aPlanIsCopiedOnlyFromARoundOfTheSameSchemeAndAFrozenPlanChangesOnlyWithAReason() {
         long source = world.round(RoundState.PLAN_FROZEN, World.simplePlan("0.25"), Round.LatePolicy.REFUSE);
         long sibling = world.insert("INSERT INTO round (scheme_id, code, item_description, items_per_laboratory, item_labels, "
