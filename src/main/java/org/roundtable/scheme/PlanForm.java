@@ -42,6 +42,7 @@ public final class PlanForm {
         private final int reportingDigits;
         private final List<String> methodGroups;
         private boolean included;
+        private boolean negativeAllowed;
         private final Map<String, String> values = new HashMap<>();
         private final Set<String> scores = new LinkedHashSet<>();
         private final Set<String> experts = new LinkedHashSet<>();
@@ -72,6 +73,11 @@ public final class PlanForm {
 
         public boolean included() {
             return included;
+        }
+
+        /** Whether negative results of this measurand are accepted (blank-corrected trace elements). */
+        public boolean negativeAllowed() {
+            return negativeAllowed;
         }
 
         /** The posted name of a field of this row. */
@@ -120,7 +126,7 @@ public final class PlanForm {
                     v("provisionalSigmaPt"), scores.isEmpty() ? null : List.copyOf(scores), v("minimumParticipants"),
                     v("allowedMethodGroupDifference"), v("exclusionRules"), v("quartileRule"), v("stoppingRule"),
                     v("boundaryRule"), v("scoreDecimals"), v("scoreCoverageFactor"),
-                    v("minimumForDataDerivedSigmaPt"), v("belowMinimum"));
+                    v("minimumForDataDerivedSigmaPt"), v("belowMinimum"), negativeAllowed ? "true" : null);
         }
 
         private String v(String field) {
@@ -201,6 +207,7 @@ public final class PlanForm {
                 row.put("scoreCoverageFactor", p.scoreCoverageFactor());
                 row.put("minimumForDataDerivedSigmaPt", p.minimumForDataDerivedSigmaPt());
                 row.put("belowMinimum", p.belowMinimum());
+                row.negativeAllowed = p.negativeResultsAllowed();
             }
             row.defaults();
         }
@@ -220,6 +227,7 @@ public final class PlanForm {
         PlanForm form = new PlanForm(catalogue.stream().map(Row::new).toList());
         for (Row row : form.rows) {
             row.included = posted.containsKey(row.name("include"));
+            row.negativeAllowed = posted.containsKey(row.name("negativeAllowed"));
             for (String field : TEXT_FIELDS) {
                 row.put(field, posted.getFirst(row.name(field)));
             }

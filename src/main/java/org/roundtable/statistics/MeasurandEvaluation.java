@@ -197,10 +197,22 @@ public final class MeasurandEvaluation {
      * @param rules                       quartile, stopping and boundary rules, score decimals, k of En
      * @param decimals                    the decimals U(x_pt), k and σ_pt were given as (exact z/z′ choice)
      * @param smallRounds                 minimums for data-derived values and what happens below them
+     * @param sigmaPtUndefined            why the plan's σ_pt method gives no σ_pt for this round (e.g. the Horwitz
+     *                                    function at a consensus x_pt ≤ 0 of blank-corrected results), else null;
+     *                                    when set, {@code sigmaPt} must be null, no σ_pt is taken from the data and
+     *                                    nobody gets z or z′ ({@code no-sigma-pt} gives this reason)
      */
     public record Input(String measurand, String unit, List<ParticipantResult> results,
             Double assignedValue, Double assignedExpandedUncertainty, Double sigmaPt, Rules rules,
-            Decimals decimals, SmallRounds smallRounds) {
+            Decimals decimals, SmallRounds smallRounds, String sigmaPtUndefined) {
+
+        /** An input whose σ_pt is the given one or, when null, the round's robust SD. */
+        public Input(String measurand, String unit, List<ParticipantResult> results,
+                Double assignedValue, Double assignedExpandedUncertainty, Double sigmaPt, Rules rules,
+                Decimals decimals, SmallRounds smallRounds) {
+            this(measurand, unit, results, assignedValue, assignedExpandedUncertainty, sigmaPt, rules, decimals,
+                    smallRounds, null);
+        }
 
         /** An input evaluated with {@link Rules#DEFAULT}. */
         public Input(String measurand, String unit, List<ParticipantResult> results,
@@ -231,6 +243,9 @@ public final class MeasurandEvaluation {
             }
             if (sigmaPt != null) {
                 Checks.requirePositive(sigmaPt, "sigma_pt");
+            }
+            if (sigmaPtUndefined != null && sigmaPt != null) {
+                throw new IllegalArgumentException("a sigma_pt is given although it is marked undefined");
             }
         }
     }
@@ -358,6 +373,10 @@ public final class MeasurandEvaluation {
         if (input.sigmaPt() != null) {
             sigma = input.sigmaPt();
             sigmaSource = SigmaPtSource.GIVEN;
+        } else if (input.sigmaPtUndefined() != null) {
+            // the plan fixes how σ_pt is obtained and it gives none here: never replaced by the round's robust SD
+            warnings.add(new StatisticsWarning("no-sigma-pt", "No sigma_pt: " + input.sigmaPtUndefined()
+                    + "; z and z' not scored"));
         } else if (scale) {
             sigma = a.robustSd();
             sigmaSource = SigmaPtSource.ROBUST_SD;

@@ -155,7 +155,7 @@ final class ResultValidator {
                             "A 'less than' result is not allowed for " + rule.element() + "; report a number."));
                 }
             }
-            value = number(row, UploadColumn.VALUE, numberText);
+            value = number(row, UploadColumn.VALUE, numberText, lessThan ? null : rule);
             if (value != null) {
                 checkAtMost100Percent(row, UploadColumn.VALUE, value, unit);
             }
@@ -164,7 +164,7 @@ final class ResultValidator {
         ReportedNumber uncertainty = null;
         String uncertaintyText = cellText(row, UploadColumn.EXPANDED_UNCERTAINTY, cells, false, true);
         if (uncertaintyText != null) {
-            uncertainty = number(row, UploadColumn.EXPANDED_UNCERTAINTY, uncertaintyText);
+            uncertainty = number(row, UploadColumn.EXPANDED_UNCERTAINTY, uncertaintyText, null);
             if (uncertainty != null && uncertainty.value().signum() == 0) {
                 problems.add(problem(row, UploadColumn.EXPANDED_UNCERTAINTY, uncertaintyText,
                         IntakeKey.UNCERTAINTY_NOT_POSITIVE, "An expanded uncertainty of zero is not possible; "
@@ -179,7 +179,7 @@ final class ResultValidator {
         boolean coverageFactorReported = false;
         String coverageText = cellText(row, UploadColumn.COVERAGE_FACTOR, cells, false, true);
         if (coverageText != null) {
-            ReportedNumber k = number(row, UploadColumn.COVERAGE_FACTOR, coverageText);
+            ReportedNumber k = number(row, UploadColumn.COVERAGE_FACTOR, coverageText, null);
             if (k != null && !ResultRanges.coverageFactorInRange(k.value())) {
                 problems.add(problem(row, UploadColumn.COVERAGE_FACTOR, coverageText,
                         IntakeKey.COVERAGE_FACTOR_OUT_OF_RANGE, ResultRanges.coverageFactorMessage()));
@@ -195,7 +195,7 @@ final class ResultValidator {
             replicateCount = replicateCount(row, replicatesText);
         }
 
-        List<ReportedNumber> replicateValues = replicateValues(row, raw.replicateValues(), unit, replicateCount);
+        List<ReportedNumber> replicateValues = replicateValues(row, raw.replicateValues(), unit, replicateCount, rule);
 
         if (problems.size() > problemsBefore || rule == null || item == null || unit == null || method == null
                 || value == null || replicateCount == null || replicateValues == null) {
@@ -280,7 +280,7 @@ final class ResultValidator {
     }
 
     private List<ReportedNumber> replicateValues(int row, List<String> pieces, MassFractionUnit unit,
-                                                 Integer replicateCount) {
+                                                 Integer replicateCount, MeasurandRule rule) {
         if (pieces == null) {
             return List.of();
         }
@@ -304,7 +304,7 @@ final class ResultValidator {
                 valid = false;
                 continue;
             }
-            ReportedNumber number = number(row, UploadColumn.REPLICATE_VALUES, text);
+            ReportedNumber number = number(row, UploadColumn.REPLICATE_VALUES, text, rule);
             if (number == null || !checkAtMost100Percent(row, UploadColumn.REPLICATE_VALUES, number, unit)) {
                 valid = false;
                 continue;
@@ -321,10 +321,12 @@ final class ResultValidator {
     }
 
     private boolean checkAtMost100Percent(int row, UploadColumn column, ReportedNumber number, MassFractionUnit unit) {
-        if (unit != null && unit.isAbove100Percent(number.value())) {
+        // a negative value (where the plan allows one) is a blank-corrected result: its size is bounded alike
+        if (unit != null && unit.isAbove100Percent(number.value().abs())) {
             problems.add(problem(row, column, number.asReported(), IntakeKey.VALUE_ABOVE_100_PERCENT,
-                    number.asReported() + " " + unit.symbol() + " is more than 100 %, which is impossible for a "
-                            + "mass fraction."));
+                    number.asReported() + " " + unit.symbol() + (number.value().signum() < 0
+                            ? " is below −100 %, which is impossible for a blank-corrected mass fraction."
+                            : " is more than 100 %, which is impossible for a mass fraction.")));
             return false;
         }
         return true;
@@ -343,7 +345,7 @@ final class ResultValidator {
                             + unitSymbol + ". Please check the value and the unit."));
         }
         if (!result.lessThan() && result.expandedUncertainty().isPresent()
-                && result.expandedUncertainty().get().value().compareTo(result.value().value()) > 0) {
+                && result.expandedUncertainty().get().value().compareTo(result.value().value().abs()) > 0) {
             warnings.add(warning(row, UploadColumn.EXPANDED_UNCERTAINTY,
                     result.expandedUncertainty().get().asReported(), IntakeKey.WARNING_UNCERTAINTY_LARGER_THAN_VALUE,
                     "The expanded uncertainty of " + element + " is larger than the value."));
@@ -407,19 +409,25 @@ final class ResultValidator {
         return true;
     }
 
-    /** Parses a non-negative plain decimal; {@code null} (with a problem) when it is not one. */
-    private ReportedNumber number(int row, UploadColumn column, String text) {
+    /**
+     * Parses a plain decimal; {@code null} (with a problem) when it is not one. A negative number is accepted only
+     * when {@code negativeFor} (the measurand of a value or replicate value) allows negative results; otherwise it is
+     * refused, naming the measurand when there is one.
+     */
+    private ReportedNumber number(int row, UploadColumn column, String text, MeasurandRule negativeFor) {
         if (NOT_FINITE.matcher(text).matches()) {
             problems.add(problem(row, column, text, IntakeKey.VALUE_NOT_FINITE,
                     "'" + text + "' is not a finite number."));
             return null;
         }
-        if (text.startsWith("-")) {
-            problems.add(problem(row, column, text, IntakeKey.VALUE_NEGATIVE,
-                    "A mass fraction, uncertainty or coverage factor cannot be negative."));
+        boolean negative = text.startsWith("-");
+        if (negative && (negativeFor == null || !negativeFor.negativeAllowed())) {
+            problems.add(problem(row, column, text, IntakeKey.VALUE_NEGATIVE, negativeMessage(column, text,
+                    negativeFor)));
             return null;
         }
-        if (PLAIN_DECIMAL.matcher(text).matches()) {
+        String digits = negative ? text.substring(1) : text;
+        if (PLAIN_DECIMAL.matcher(digits).matches()) {
             char separator = text.indexOf(',') >= 0 ? ',' : text.indexOf('.') >= 0 ? '.' : 0;
             if (separator == ',' && numberStyle == NumberStyle.POINT_ONLY) {
                 problems.add(problem(row, column, text, IntakeKey.VALUE_DECIMAL_COMMA_NOT_ALLOWED,
@@ -439,7 +447,7 @@ final class ResultValidator {
             }
             return new ReportedNumber(text, new BigDecimal(text.replace(',', '.')));
         }
-        if (EXPONENT.matcher(text).matches()) {
+        if (EXPONENT.matcher(digits).matches()) {
             problems.add(problem(row, column, text, IntakeKey.VALUE_EXPONENT_NOT_ALLOWED,
                     "Write " + text + " as a plain decimal number, without an exponent."));
             return null;
@@ -447,6 +455,22 @@ final class ResultValidator {
         problems.add(problem(row, column, text, IntakeKey.VALUE_NOT_A_NUMBER,
                 "'" + Texts.shown(text) + "' is not a decimal number."));
         return null;
+    }
+
+    /**
+     * Why a negative number is refused: for a value or replicate value of a known measurand, that the round's plan
+     * does not accept negative results of it; for an uncertainty or coverage factor, that they are never negative.
+     */
+    static String negativeMessage(UploadColumn column, String text, MeasurandRule measurand) {
+        return switch (column) {
+            case EXPANDED_UNCERTAINTY -> "An expanded uncertainty cannot be negative.";
+            case COVERAGE_FACTOR -> "A coverage factor cannot be negative.";
+            default -> measurand == null
+                    ? "A mass fraction cannot be negative."
+                    : measurand.element() + " = " + text + " is negative; the round's plan does not accept negative "
+                            + "results for " + measurand.element() + ". Check the sign, or ask the coordinator "
+                            + "whether negative blank-corrected results are accepted.";
+        };
     }
 
     private IntakeProblem problem(int row, UploadColumn column, String value, IntakeKey key, String message) {
