@@ -37,7 +37,9 @@ import org.roundtable.statistics.score.Scores;
  * <li>Assigned value x_pt: the given value with {@code u(x_pt) = U/2}, else the Algorithm A
  * robust mean x* of all non-censored results whatever their method, with
  * {@code u(x_pt) = 1.25·s* / sqrt(p)}.</li>
- * <li>σ_pt: the given value, else s* (data-derived, warned).</li>
+ * <li>σ_pt: the given value, else s* (data-derived, warned) — unless the input says the plan's σ_pt method gives
+ * none ({@code sigmaPtUndefined}, e.g. Horwitz at x_pt ≤ 0): then no z or z′, {@code no-sigma-pt} with the
+ * reason.</li>
  * <li>z or z′ is chosen by {@code u(x_pt) ≤ 0.3·σ_pt} ({@link ScoreSelection}); both are
  * reported, the chosen one classifies with the rules' {@link BoundaryRule} <b>as printed</b> (rounded half away
  * from zero to the rules' score decimals first). The choice is exact in decimal where U(x_pt), its k and σ_pt
