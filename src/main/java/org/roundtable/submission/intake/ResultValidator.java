@@ -18,7 +18,7 @@ import java.util.regex.Pattern;
  * <ol>
  *   <li>longer than {@link Limits#maxCellChars()} → {@code value.too-long};</li>
  *   <li>text starting with {@code = + - @}, tab or CR → {@code value.formula-prefix} (ASVS 5.0.0 1.2.10); in a numeric
- *       column a minus followed by a number is {@code value.negative} instead;</li>
+ *       column a minus followed by a number is a negative number instead (see the result rules);</li>
  *   <li>any other control character (line feed, NUL …) → {@code value.control-character}.</li>
  * </ol>
  * Numbers are plain decimals: digits with at most one decimal separator ({@code 0.12}, {@code .5}); {@code NaN},
