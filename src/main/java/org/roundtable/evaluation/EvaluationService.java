@@ -375,6 +375,7 @@ public class EvaluationService {
         }
 
         Double sigma;
+        String sigmaUndefined = null;
         MeasurandEvaluation.Result result;
         EvaluationPlan.SigmaPtMethod sm = EvaluationPlan.SigmaPtMethod.valueOf(sigmaMethod);
         boolean needsAssigned = sm == EvaluationPlan.SigmaPtMethod.PERCENT_OF_ASSIGNED
@@ -386,9 +387,20 @@ public class EvaluationService {
                 x = MeasurandEvaluation.evaluate(new MeasurandEvaluation.Input(mp.element(), unit, inputs, null, null,
                         null, rules, MeasurandEvaluation.Decimals.NONE, forAssignedValueOnly(mp))).assignedValue();
             }
-            sigma = x == null || !(x > 0) ? null : sm == EvaluationPlan.SigmaPtMethod.PERCENT_OF_ASSIGNED
-                    ? SigmaPt.percentOfAssigned(number(mp.sigmaPtPercent()), x)
-                    : SigmaPt.thompsonHorwitz(x, massFractionUnit(unit));
+            if (x != null && !(x > 0)) {
+                // blank-corrected results (negative values allowed by the plan) can give x_pt <= 0: the Horwitz
+                // function and a percentage of x_pt give no sigma_pt there, and the round's robust SD is no
+                // stand-in for the plan's choice; nobody is scored, and the run says why
+                sigma = null;
+                sigmaUndefined = String.format(Locale.ROOT, "the plan takes sigma_pt %s, which is not defined for"
+                        + " x_pt = %s %s (not above zero); choose a fixed sigma_pt in the plan for this measurand",
+                        sm == EvaluationPlan.SigmaPtMethod.PERCENT_OF_ASSIGNED ? "as a percentage of x_pt"
+                                : "from the Horwitz function", Double.toString(x), unit);
+            } else {
+                sigma = x == null ? null : sm == EvaluationPlan.SigmaPtMethod.PERCENT_OF_ASSIGNED
+                        ? SigmaPt.percentOfAssigned(number(mp.sigmaPtPercent()), x)
+                        : SigmaPt.thompsonHorwitz(x, massFractionUnit(unit));
+            }
         } else {
             sigma = switch (sm) {
                 case FIXED, EARLIER_ROUNDS -> {
@@ -467,10 +479,10 @@ public class EvaluationService {
         if (subsetFailed) {
             // no assigned value from the subset: statistics of all results, but nobody is scored
             result = MeasurandEvaluation.evaluate(new MeasurandEvaluation.Input(mp.element(), unit, inputs, null, null,
-                    sigma, rules, decimals, smallRounds(mp, null)));
+                    sigma, rules, decimals, smallRounds(mp, null), sigmaUndefined));
         } else {
             result = MeasurandEvaluation.evaluate(new MeasurandEvaluation.Input(mp.element(), unit, inputs, assigned,
-                    assignedU, sigma, rules, decimals, smallRounds(mp, subsetN)));
+                    assignedU, sigma, rules, decimals, smallRounds(mp, subsetN), sigmaUndefined));
         }
         if (result.scoreUsed() == ScoreKind.Z_PRIME) {
             extra.add(new EvaluationViews.Warning("uncertainty-of-assigned-value-large",

@@ -119,6 +119,9 @@ public record EvaluationPlan(List<MeasurandPlan> measurands, EarlyWarningPlan ea
      * @param scoreCoverageFactor          k at which En takes both expanded uncertainties (default 2)
      * @param minimumForDataDerivedSigmaPt fewest results for σpt = the round's robust SD (default 10)
      * @param belowMinimum                 {@link BelowMinimum} name: what happens below a minimum (default NOT_SCORED)
+     * @param negativeAllowed              {@code "true"} when a negative result is a legitimate result of this
+     *                                     measurand (a blank-corrected trace element); otherwise (the default) the
+     *                                     intake refuses negative values
      */
     public record MeasurandPlan(String element, String assignedValueMethod, String methodGroup, String referenceValue,
                                 String referenceExpandedUncertainty, String coverageFactor,
@@ -128,7 +131,30 @@ public record EvaluationPlan(List<MeasurandPlan> measurands, EarlyWarningPlan ea
                                 String minimumParticipants, String allowedMethodGroupDifference,
                                 String exclusionRules, String quartileRule, String stoppingRule,
                                 String boundaryRule, String scoreDecimals, String scoreCoverageFactor,
-                                String minimumForDataDerivedSigmaPt, String belowMinimum) {
+                                String minimumForDataDerivedSigmaPt, String belowMinimum,
+                                String negativeAllowed) {
+
+        /** A plan entry that refuses negative results (the default). */
+        public MeasurandPlan(String element, String assignedValueMethod, String methodGroup, String referenceValue,
+                             String referenceExpandedUncertainty, String coverageFactor,
+                             List<String> expertLaboratories, String sigmaPtMethod, String sigmaPt,
+                             String sigmaPtPercent, String reproducibilitySd, String repeatabilitySd,
+                             String replicates, String provisionalSigmaPt, List<String> scores,
+                             String minimumParticipants, String allowedMethodGroupDifference,
+                             String exclusionRules, String quartileRule, String stoppingRule,
+                             String boundaryRule, String scoreDecimals, String scoreCoverageFactor,
+                             String minimumForDataDerivedSigmaPt, String belowMinimum) {
+            this(element, assignedValueMethod, methodGroup, referenceValue, referenceExpandedUncertainty,
+                    coverageFactor, expertLaboratories, sigmaPtMethod, sigmaPt, sigmaPtPercent, reproducibilitySd,
+                    repeatabilitySd, replicates, provisionalSigmaPt, scores, minimumParticipants,
+                    allowedMethodGroupDifference, exclusionRules, quartileRule, stoppingRule, boundaryRule,
+                    scoreDecimals, scoreCoverageFactor, minimumForDataDerivedSigmaPt, belowMinimum, null);
+        }
+
+        /** Whether the plan accepts negative results of this measurand. */
+        public boolean negativeResultsAllowed() {
+            return "true".equals(negativeAllowed);
+        }
 
         /** A plan entry with the defaults for score decimals, En's k and the small-round rules. */
         public MeasurandPlan(String element, String assignedValueMethod, String methodGroup, String referenceValue,
@@ -143,7 +169,7 @@ public record EvaluationPlan(List<MeasurandPlan> measurands, EarlyWarningPlan ea
                     coverageFactor, expertLaboratories, sigmaPtMethod, sigmaPt, sigmaPtPercent, reproducibilitySd,
                     repeatabilitySd, replicates, provisionalSigmaPt, scores, minimumParticipants,
                     allowedMethodGroupDifference, exclusionRules, quartileRule, stoppingRule, boundaryRule, null,
-                    null, null, null);
+                    null, null, null, null);
         }
     }
 }

@@ -30,7 +30,9 @@ import java.util.TreeSet;
  * Defaults are written out (minimum participants 10, minimum for a data-derived σpt 10, not scored below them,
  * quartile rule, stopping rule, boundary rule, coverage factor 2, score decimals 2, En at k = 2, scores z/z′, the
  * early warnings of laboratories' histories all on with {@link #DEFAULT_EARLY_WARNINGS}), so the document states
- * every choice. The document also carries what the round
+ * every choice — except {@code negativeAllowed}, written only as {@code "true"} where the plan accepts negative
+ * results of a measurand (absent: refused), so that plans frozen before it existed read the same. The document also
+ * carries what the round
  * fixes for evaluation: its code, the late-result policy and the participant-code scope, and each
  * measurand's unit and reporting digits from the catalogue. The SHA-256 of the UTF-8 bytes of this text is
  * the plan's hash.
@@ -206,6 +208,17 @@ public final class PlanDocument {
                 : integer(p.minimumForDataDerivedSigmaPt(), where, "minimumForDataDerivedSigmaPt", "minimum participants for a data-derived σpt"));
         e.put("belowMinimum", blank(p.belowMinimum()) ? EvaluationPlan.BelowMinimum.NOT_SCORED.name()
                 : choice(EvaluationPlan.BelowMinimum.class, p.belowMinimum(), where, "belowMinimum", "rule below the minimum").name());
+        if (!blank(p.negativeAllowed())) {
+            String allowed = p.negativeAllowed().strip().toLowerCase(Locale.ROOT);
+            if (!allowed.equals("true") && !allowed.equals("false")) {
+                throw where.fail("negativeAllowed", "negative results are either allowed (true) or refused (false).");
+            }
+            // written only when allowed: a plan that says nothing refuses them, and plans frozen before the
+            // setting existed keep their text and hash
+            if (allowed.equals("true")) {
+                e.put("negativeAllowed", "true");
+            }
+        }
         if (blank(p.scoreDecimals())) {
             e.put("scoreDecimals", Integer.toString(DEFAULT_SCORE_DECIMALS));
         } else {

@@ -50,6 +50,7 @@ public final class PlanForm {
         private final int reportingDigits;
         private final List<String> methodGroups;
         private boolean included;
+        private boolean negativeAllowed;
         private final Map<String, String> values = new HashMap<>();
         private final Set<String> scores = new LinkedHashSet<>();
         private final Set<String> experts = new LinkedHashSet<>();
@@ -80,6 +81,11 @@ public final class PlanForm {
 
         public boolean included() {
             return included;
+        }
+
+        /** Whether negative results of this measurand are accepted (blank-corrected trace elements). */
+        public boolean negativeAllowed() {
+            return negativeAllowed;
         }
 
         /** The posted name of a field of this row. */
@@ -128,7 +134,7 @@ public final class PlanForm {
                     v("provisionalSigmaPt"), scores.isEmpty() ? null : List.copyOf(scores), v("minimumParticipants"),
                     v("allowedMethodGroupDifference"), v("exclusionRules"), v("quartileRule"), v("stoppingRule"),
                     v("boundaryRule"), v("scoreDecimals"), v("scoreCoverageFactor"),
-                    v("minimumForDataDerivedSigmaPt"), v("belowMinimum"));
+                    v("minimumForDataDerivedSigmaPt"), v("belowMinimum"), negativeAllowed ? "true" : null);
         }
 
         private String v(String field) {
@@ -279,6 +285,7 @@ public final class PlanForm {
                 row.put("scoreCoverageFactor", p.scoreCoverageFactor());
                 row.put("minimumForDataDerivedSigmaPt", p.minimumForDataDerivedSigmaPt());
                 row.put("belowMinimum", p.belowMinimum());
+                row.negativeAllowed = p.negativeResultsAllowed();
             }
             row.defaults();
         }
@@ -309,6 +316,7 @@ public final class PlanForm {
         }
         for (Row row : form.rows) {
             row.included = posted.containsKey(row.name("include"));
+            row.negativeAllowed = posted.containsKey(row.name("negativeAllowed"));
             for (String field : TEXT_FIELDS) {
                 row.put(field, posted.getFirst(row.name(field)));
             }

@@ -103,9 +103,12 @@ public class RoundAccess {
         return ids.stream().map(Number::longValue).toList();
     }
 
-    /** A measurand open for results, with what the catalogue says about it. */
+    /**
+     * A measurand open for results, with what the catalogue says about it and whether the frozen plan accepts
+     * negative results of it ({@link EvaluationPlan.MeasurandPlan#negativeAllowed()}).
+     */
     public record OpenMeasurand(String element, String unit, int reportingDigits, BigDecimal expectedMin,
-                                BigDecimal expectedMax, List<String> methodGroups) {
+                                BigDecimal expectedMax, List<String> methodGroups, boolean negativeAllowed) {
     }
 
     /**
@@ -213,12 +216,13 @@ public class RoundAccess {
         schemes.catalogue(round.schemeId).forEach(m -> catalogue.put(m.element, m));
         java.util.Set<String> withdrawn = qualification.withdrawnElements(roundId);
         return plan.measurands().stream()
-                .map(EvaluationPlan.MeasurandPlan::element)
-                .filter(catalogue::containsKey)
-                .filter(element -> !withdrawn.contains(element))
-                .map(catalogue::get)
-                .map(m -> new OpenMeasurand(m.element, m.unit, m.reportingDigits, m.expectedMin, m.expectedMax,
-                        Arrays.asList(m.methodGroups.split(","))))
+                .filter(p -> catalogue.containsKey(p.element()))
+                .filter(p -> !withdrawn.contains(p.element()))
+                .map(p -> {
+                    Measurand m = catalogue.get(p.element());
+                    return new OpenMeasurand(m.element, m.unit, m.reportingDigits, m.expectedMin, m.expectedMax,
+                            Arrays.asList(m.methodGroups.split(",")), p.negativeResultsAllowed());
+                })
                 .toList();
     }
 

@@ -37,7 +37,9 @@ import org.roundtable.statistics.score.Scores;
  * <li>Assigned value x_pt: the given value with {@code u(x_pt) = U/2}, else the Algorithm A
  * robust mean x* of all non-censored results whatever their method, with
  * {@code u(x_pt) = 1.25·s* / sqrt(p)}.</li>
- * <li>σ_pt: the given value, else s* (data-derived, warned).</li>
+ * <li>σ_pt: the given value, else s* (data-derived, warned) — unless the input says the plan's σ_pt method gives
+ * none ({@code sigmaPtUndefined}, e.g. Horwitz at x_pt ≤ 0): then no z or z′, {@code no-sigma-pt} with the
+ * reason.</li>
  * <li>z or z′ is chosen by {@code u(x_pt) ≤ 0.3·σ_pt} ({@link ScoreSelection}); both are
  * reported, the chosen one classifies with the rules' {@link BoundaryRule} <b>as printed</b> (rounded half away
  * from zero to the rules' score decimals first). The choice is exact in decimal where U(x_pt), its k and σ_pt
@@ -197,10 +199,22 @@ public final class MeasurandEvaluation {
      * @param rules                       quartile, stopping and boundary rules, score decimals, k of En
      * @param decimals                    the decimals U(x_pt), k and σ_pt were given as (exact z/z′ choice)
      * @param smallRounds                 minimums for data-derived values and what happens below them
+     * @param sigmaPtUndefined            why the plan's σ_pt method gives no σ_pt for this round (e.g. the Horwitz
+     *                                    function at a consensus x_pt ≤ 0 of blank-corrected results), else null;
+     *                                    when set, {@code sigmaPt} must be null, no σ_pt is taken from the data and
+     *                                    nobody gets z or z′ ({@code no-sigma-pt} gives this reason)
      */
     public record Input(String measurand, String unit, List<ParticipantResult> results,
             Double assignedValue, Double assignedExpandedUncertainty, Double sigmaPt, Rules rules,
-            Decimals decimals, SmallRounds smallRounds) {
+            Decimals decimals, SmallRounds smallRounds, String sigmaPtUndefined) {
+
+        /** An input whose σ_pt is the given one or, when null, the round's robust SD. */
+        public Input(String measurand, String unit, List<ParticipantResult> results,
+                Double assignedValue, Double assignedExpandedUncertainty, Double sigmaPt, Rules rules,
+                Decimals decimals, SmallRounds smallRounds) {
+            this(measurand, unit, results, assignedValue, assignedExpandedUncertainty, sigmaPt, rules, decimals,
+                    smallRounds, null);
+        }
 
         /** An input evaluated with {@link Rules#DEFAULT}. */
         public Input(String measurand, String unit, List<ParticipantResult> results,
@@ -231,6 +245,9 @@ public final class MeasurandEvaluation {
             }
             if (sigmaPt != null) {
                 Checks.requirePositive(sigmaPt, "sigma_pt");
+            }
+            if (sigmaPtUndefined != null && sigmaPt != null) {
+                throw new IllegalArgumentException("a sigma_pt is given although it is marked undefined");
             }
         }
     }
@@ -358,6 +375,10 @@ public final class MeasurandEvaluation {
         if (input.sigmaPt() != null) {
             sigma = input.sigmaPt();
             sigmaSource = SigmaPtSource.GIVEN;
+        } else if (input.sigmaPtUndefined() != null) {
+            // the plan fixes how σ_pt is obtained and it gives none here: never replaced by the round's robust SD
+            warnings.add(new StatisticsWarning("no-sigma-pt", "No sigma_pt: " + input.sigmaPtUndefined()
+                    + "; z and z' not scored"));
         } else if (scale) {
             sigma = a.robustSd();
             sigmaSource = SigmaPtSource.ROBUST_SD;

@@ -16,8 +16,8 @@ import java.util.Set;
 
 /**
  * Turns a round's open measurands into the intake's {@link UploadRules}: the measurand's own unit and, for
- * convenience, the other mass-fraction unit too (converted exactly); "less than" results allowed; a missing
- * expected range means no range warning.
+ * convenience, the other mass-fraction unit too (converted exactly); "less than" results allowed; negative results
+ * only where the frozen plan allows them for the measurand; a missing expected range means no range warning.
  *
  * <p>The rules are kept per round with the stamp they were built for ({@link RoundAccess.SubmissionHead#rulesStamp()},
  * read with the round row under its lock by every submission), so a submission rebuilds nothing while they hold.
@@ -107,10 +107,11 @@ public class SubmissionRules {
             methods.add(MethodGroup.fromCode(group.strip().toLowerCase(Locale.ROOT).replace('_', '-'))
                     .orElseThrow(() -> new IllegalStateException("catalogue method group " + group)));
         }
-        BigDecimal low = m.expectedMin() == null ? BigDecimal.ZERO : m.expectedMin();
-        BigDecimal high = m.expectedMax() != null ? m.expectedMax()
-                : unit == MassFractionUnit.PERCENT ? NO_UPPER_BOUND_PERCENT : NO_UPPER_BOUND_MG_PER_KG;
+        BigDecimal bound = unit == MassFractionUnit.PERCENT ? NO_UPPER_BOUND_PERCENT : NO_UPPER_BOUND_MG_PER_KG;
+        // where the plan accepts negative (blank-corrected) results, a catalogue without a lower end warns of none
+        BigDecimal low = m.expectedMin() != null ? m.expectedMin() : m.negativeAllowed() ? bound.negate() : BigDecimal.ZERO;
+        BigDecimal high = m.expectedMax() != null ? m.expectedMax() : bound;
         return new MeasurandRule(m.element(), unit, EnumSet.allOf(MassFractionUnit.class), m.reportingDigits(), low, high,
-                methods, true);
+                methods, true, m.negativeAllowed());
     }
 }

@@ -108,6 +108,31 @@ class PlanFormTest {
     }
 
     @Test
+    void acceptingNegativeResultsIsATickPerMeasurandSavedOnlyWhenTickedAndShownTickedAgain() {
+        long round = world.round(RoundState.DRAFT, World.simplePlan("0.10"), Round.LatePolicy.REFUSE);
+        World.Browser coordinator = world.signIn(world.user("coordinator", null));
+        String form = coordinator.request().accept("text/html").get("/rounds/" + round + "/plan").asString();
+        assertThat(form).contains("Accept negative results for Cr").contains("name=\"Cr.negativeAllowed\"")
+                .doesNotContain("name=\"Cr.negativeAllowed\" id=\"Cr-negativeAllowed\" value=\"yes\" checked");
+
+        Response saved = coordinator.form().accept("text/html")
+                .formParam("Cr.include", "yes").formParam("Cr.assignedValueMethod", "CONSENSUS_ALL")
+                .formParam("Cr.sigmaPtMethod", "FIXED").formParam("Cr.sigmaPt", "0.12")
+                .formParam("Cr.negativeAllowed", "yes")
+                .formParam("Mn.include", "yes").formParam("Mn.assignedValueMethod", "CONSENSUS_ALL")
+                .formParam("Mn.sigmaPtMethod", "FIXED").formParam("Mn.sigmaPt", "0.01")
+                .post("/rounds/" + round + "/plan/form");
+        assertThat(saved.statusCode()).as(saved.asString()).isEqualTo(200);
+        String draft = world.text("SELECT draft_plan FROM round WHERE id = ?", round);
+        // ticked for Cr only: written for Cr, absent (refused, the default) for Mn
+        assertThat(draft).containsOnlyOnce("\"negativeAllowed\":\"true\"");
+        assertThat(draft.substring(0, draft.indexOf("\"element\":\"Mn\""))).contains("\"negativeAllowed\":\"true\"");
+        String again = coordinator.request().accept("text/html").get("/rounds/" + round + "/plan").asString();
+        assertThat(again).contains("name=\"Cr.negativeAllowed\" id=\"Cr-negativeAllowed\" value=\"yes\" checked")
+                .doesNotContain("name=\"Mn.negativeAllowed\" id=\"Mn-negativeAllowed\" value=\"yes\" checked");
+    }
+
+    @Test
     void aPlanIsCopiedOnlyFromARoundOfTheSameSchemeAndAFrozenPlanChangesOnlyWithAReason() {
         long source = world.round(RoundState.PLAN_FROZEN, World.simplePlan("0.25"), Round.LatePolicy.REFUSE);
         long sibling = world.insert("INSERT INTO round (scheme_id, code, item_description, items_per_laboratory, item_labels, "

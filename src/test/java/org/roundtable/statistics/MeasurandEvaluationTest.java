@@ -196,4 +196,20 @@ class MeasurandEvaluationTest {
         assertEquals(legacy.stoppingRule(), r.stoppingRule());
         assertEquals(legacy.boundaryRule(), r.boundaryRule());
     }
+
+    @Test
+    void aSigmaPtThePlanCannotGiveIsNeverReplacedByTheRobustSd() {
+        // invented values about 0 (blank-corrected results); the plan's sigma_pt method gives none here
+        double[] values = {-0.004, -0.002, 0.0, 0.002, 0.004, -0.001, 0.001, -0.003, 0.003, 0.0};
+        Result r = MeasurandEvaluation.evaluate(new Input("Cu", "%", results(values), null, null, null,
+                MeasurandEvaluation.Rules.DEFAULT, MeasurandEvaluation.Decimals.NONE,
+                MeasurandEvaluation.SmallRounds.DEFAULT, "Horwitz is not defined at x_pt = 0"));
+        assertNull(r.sigmaPt());
+        assertTrue(r.warnings().stream().anyMatch(w -> w.code().equals("no-sigma-pt")
+                && w.message().contains("Horwitz is not defined at x_pt = 0")));
+        assertTrue(r.warnings().stream().noneMatch(w -> w.code().equals("sigma-pt-data-derived")));
+        assertTrue(r.scores().stream().allMatch(s -> s.z() == null && s.zPrime() == null));
+        // the robust statistics of the negative values are computed all the same: x* = 0 by symmetry
+        assertEquals(0.0, r.assignedValue(), 1e-15);
+    }
 }

@@ -14,7 +14,6 @@ import java.math.BigDecimal;
 import org.roundtable.platform.NumberFormats;
 import org.roundtable.statistics.MeasurandEvaluation;
 import org.roundtable.submission.intake.ChemicalElements;
-import org.roundtable.submission.intake.ResultRanges;
 import org.roundtable.statistics.robust.AlgorithmA;
 import org.roundtable.statistics.robust.QuartileRule;
 import org.roundtable.statistics.score.BoundaryRule;
@@ -28,7 +27,8 @@ import org.roundtable.statistics.StatisticsWarning;
  * evaluate [--sigma-pt MEASURAND=VALUE]... [--assigned MEASURAND=VALUE[:EXPANDED_U[:K]]]...
  *          [--score-decimals MEASURAND=N]... [--coverage-factor MEASURAND=K]...
  *          [--minimum-participants MEASURAND=N]... [--minimum-for-sigma MEASURAND=N]...
- *          [--information-only MEASURAND]... [--digits MEASURAND=N]... [--format json|csv] FILE.csv
+ *          [--information-only MEASURAND]... [--digits MEASURAND=N]... [--negative-allowed MEASURAND[,MEASURAND]...]...
+ *          [--format json|csv] FILE.csv
  * </pre>
  *
  * <p>Output: with {@code --format json} (the default) one compact JSON object per measurand per line (JSON Lines),
@@ -46,7 +46,9 @@ import org.roundtable.statistics.StatisticsWarning;
  * and for a data-derived σ_pt (below them nobody is scored, or, with {@code --information-only}, scores carry no
  * classification). {@code --assigned} values and {@code --sigma-pt} are kept as the decimals written, so the z/z′
  * choice compares u(x_pt) = U/k with 0.3·σ_pt exactly. {@code --digits} sets the measurand's reporting digits for
- * the printed numbers (default: the most decimals among its reported values).
+ * the printed numbers (default: the most decimals among its reported values). {@code --negative-allowed Cu,Ni} is the
+ * plan's "accept negative results" for those measurands (blank-corrected trace elements); elsewhere a negative value
+ * is refused, as by the server.
  *
  * <p>Input: RFC 4180 CSV, UTF-8 (a byte order mark is tolerated), LF or CRLF line ends, '.' as decimal point —
  * or, as in the server's upload, ';' as delimiter with a decimal comma —, element symbols in any case, a header
@@ -54,12 +56,14 @@ import org.roundtable.statistics.StatisticsWarning;
  * coverage_factor,method} (any order). {@code value} is a number or {@code <number}; the last
  * three columns may be empty (k defaults to 2). One unit per measurand, one row per participant
  * and measurand. Command-line values are in the file's unit; an {@code --assigned} expanded
- * uncertainty is at k = 2.
+ * uncertainty is at k = 2. {@code value}, {@code expanded_uncertainty} and {@code coverage_factor} are checked by the
+ * server's own validation ({@code submission.intake.ResultCheck}, the code the upload runs): plain decimals (no
+ * exponent), no formula prefix, U not zero, and the messages are the upload's.
  *
  * <p>Exit codes: 0 done; 2 bad input (message on stderr naming row — the header is row 1 —,
- * column and reason), also a file with a header and no rows. The range rules are the server's
- * ({@code submission.intake.ResultRanges}): k between 1 and 4, a mass fraction in % or mg/kg at most 100 %, no
- * negative values.
+ * column and reason), also a file with a header and no rows. The rules of the numbers are the server's: k between
+ * 1 and 4, a mass fraction in % or mg/kg at most 100 %, negative values only where {@code --negative-allowed} names
+ * the measurand; the same bad row gives the server's message.
  */
 public final class EvaluateCommand {
 
@@ -75,7 +79,7 @@ public final class EvaluateCommand {
             + " [--assigned MEASURAND=VALUE:EXPANDED_U[:K]]... [--score-decimals MEASURAND=N]..."
             + " [--coverage-factor MEASURAND=K]... [--minimum-participants MEASURAND=N]..."
             + " [--minimum-for-sigma MEASURAND=N]... [--information-only MEASURAND]... [--digits MEASURAND=N]..."
-            + " [--format json|csv] FILE.csv";
+            + " [--negative-allowed MEASURAND[,MEASURAND]...]... [--format json|csv] FILE.csv";
     private static final List<String> VALUED = List.of("--sigma-pt", "--assigned", "--score-decimals",
             "--coverage-factor", "--minimum-participants", "--minimum-for-sigma", "--digits");
     private static final Pattern NUMBER = Pattern.compile("[+-]?(\\d+(\\.\\d*)?|\\.\\d+)([eE][+-]?\\d+)?");
@@ -129,8 +133,9 @@ public final class EvaluateCommand {
             Map<String, Assigned> assigned = new LinkedHashMap<>();
             Map<String, Choices> choices = new LinkedHashMap<>();
             String[] format = {"json"};
-            String file = parseArguments(args, sigmas, assigned, choices, format);
-            ResultColumns.File input = ResultColumns.read(Path.of(file), err);
+            java.util.Set<String> negativeAllowed = new java.util.HashSet<>();
+            String file = parseArguments(args, sigmas, assigned, choices, negativeAllowed, format);
+            ResultColumns.File input = ResultColumns.read(Path.of(file), negativeAllowed, err);
             for (String m : sigmas.keySet()) {
                 if (!input.measurands().containsKey(m)) {
                     throw new BadInput("option --sigma-pt: measurand '" + m + "' is not in " + file);
@@ -211,7 +216,8 @@ public final class EvaluateCommand {
     }
 
     private static String parseArguments(String[] args, Map<String, Double> sigmas,
-            Map<String, Assigned> assigned, Map<String, Choices> choices, String[] format) throws BadInput {
+            Map<String, Assigned> assigned, Map<String, Choices> choices, java.util.Set<String> negativeAllowed,
+            String[] format) throws BadInput {
         String file = null;
         for (int i = 0; i < args.length; i++) {
             String arg = args[i];
@@ -233,6 +239,21 @@ public final class EvaluateCommand {
                     throw new BadInput("option --format: '" + value + "' is neither json nor csv. " + USAGE);
                 }
                 format[0] = value;
+                continue;
+            }
+            if (option.equals("--negative-allowed")) {
+                if (value == null) {
+                    if (i + 1 >= args.length) {
+                        throw new BadInput("option --negative-allowed needs one or more measurands (Cu,Ni). " + USAGE);
+                    }
+                    value = args[++i];
+                }
+                for (String m : value.split(",")) {
+                    if (m.isBlank()) {
+                        throw new BadInput("option --negative-allowed: '" + value + "' names an empty measurand");
+                    }
+                    negativeAllowed.add(measurandName(m.trim()));
+                }
                 continue;
             }
             if (option.equals("--information-only")) {

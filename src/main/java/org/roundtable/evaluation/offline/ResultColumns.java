@@ -18,13 +18,13 @@ import java.util.HashMap;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
-import java.util.Optional;
 import java.util.regex.Pattern;
 import org.apache.commons.csv.CSVFormat;
 import org.apache.commons.csv.CSVParser;
 import org.apache.commons.csv.CSVRecord;
 import org.roundtable.statistics.MeasurandEvaluation;
-import org.roundtable.submission.intake.ResultRanges;
+import org.roundtable.submission.intake.IntakeProblem;
+import org.roundtable.submission.intake.ResultCheck;
 
 /**
  * One measurand's results of an {@code evaluate} input file, held as primitive columns (about 45 bytes a result),
@@ -37,7 +37,6 @@ import org.roundtable.submission.intake.ResultRanges;
  */
 final class ResultColumns {
 
-    private static final Pattern NUMBER = Pattern.compile("[+-]?(\\d+(\\.\\d*)?|\\.\\d+)([eE][+-]?\\d+)?");
     private static final Pattern PLAIN_DECIMAL = Pattern.compile("\\d+(\\.\\d+)?");
     /** Rows between two progress lines on stderr. */
     static final int PROGRESS_EVERY = 250_000;
@@ -131,11 +130,15 @@ final class ResultColumns {
     }
 
     /**
-     * Reads an {@code evaluate} input file (see {@link EvaluateCommand}) record by record.
+     * Reads an {@code evaluate} input file (see {@link EvaluateCommand}) record by record. Each row's value, U and k
+     * go through the server's own validation ({@link ResultCheck}): a row the upload refuses is refused here with the
+     * same words.
      *
-     * @param progress receives a line every {@value #PROGRESS_EVERY} rows
+     * @param negativeAllowed measurands whose negative values are results (the plan's choice); others refuse them
+     * @param progress        receives a line every {@value #PROGRESS_EVERY} rows
      */
-    static File read(Path file, PrintStream progress) throws EvaluateCommand.BadInput {
+    static File read(Path file, java.util.Set<String> negativeAllowed, PrintStream progress)
+            throws EvaluateCommand.BadInput {
         LinkedHashMap<String, ResultColumns> byMeasurand = new LinkedHashMap<>();
         Map<String, String> units = new HashMap<>();
         Map<String, Integer> unitRow = new HashMap<>();
@@ -169,6 +172,7 @@ final class ResultColumns {
             boolean semicolon = headerLine.indexOf(';') >= 0 && headerLine.indexOf(',') < 0;
             CSVFormat format = CSVFormat.RFC4180.builder().setIgnoreSurroundingSpaces(false)
                     .setDelimiter(semicolon ? ';' : ',').get();
+            ResultCheck check = new ResultCheck(semicolon);
             try (Reader body = reader; CSVParser parser = CSVParser.parse(body, format)) {
                 Map<String, Integer> index = null;
                 for (CSVRecord record : parser) {
@@ -188,51 +192,30 @@ final class ResultColumns {
                     String measurand = measurandNames.computeIfAbsent(field(record, index, "measurand"),
                             EvaluateCommand::measurandName);
                     String unit = field(record, index, "unit");
-                    String reported = decimalPoint(field(record, index, "value"), semicolon);
-                    String uText = decimalPoint(field(record, index, "expanded_uncertainty"), semicolon);
-                    String kText = decimalPoint(field(record, index, "coverage_factor"), semicolon);
+                    String valueCell = field(record, index, "value");
+                    String uCell = field(record, index, "expanded_uncertainty");
+                    String kCell = field(record, index, "coverage_factor");
                     String method = field(record, index, "method");
                     requireNonEmpty(row, "participant", participant);
                     requireNonEmpty(row, "measurand", measurand);
                     requireNonEmpty(row, "unit", unit);
-                    requireNonEmpty(row, "value", reported);
-                    boolean below = reported.startsWith("<");
+                    // the server's validation of the numbers (submission.intake): refused alike, in the same words
+                    ResultCheck.Outcome checked = check.check((int) row, measurand,
+                            negativeAllowed.contains(measurand), unit, valueCell, uCell, kCell);
+                    if (!checked.problems().isEmpty()) {
+                        throw new EvaluateCommand.BadInput(message(checked.problems().get(0)));
+                    }
+                    ResultCheck.Numbers numbers = checked.numbers();
+                    String reported = decimalPoint(valueCell, semicolon);
+                    boolean below = numbers.lessThan();
                     String numberText = below ? reported.substring(1).trim() : reported;
-                    double v = parseNumber(row, "value", numberText, below
-                            ? "expected '<' followed by a number" : "expected a number or '<number'");
-                    Double u = null;
-                    if (!uText.isEmpty()) {
-                        u = parseNumber(row, "expanded_uncertainty", uText, "expected a number");
-                        if (u < 0) {
-                            throw new EvaluateCommand.BadInput("row " + row
-                                    + ", column expanded_uncertainty: must be >= 0, got '" + uText + "'");
-                        }
-                    }
-                    // the server's range rules (submission.intake.ResultRanges): the same numbers are refused alike
-                    if (numberText.startsWith("-")) {
-                        throw new EvaluateCommand.BadInput("row " + row + ", column value: '" + reported + "': "
-                                + ResultRanges.negativeMessage());
-                    }
-                    Optional<String> above = ResultRanges.aboveHundredPercent(new BigDecimal(numberText), unit);
-                    if (above.isPresent()) {
-                        throw new EvaluateCommand.BadInput("row " + row + ", column value: '" + reported + "': "
-                                + above.get());
-                    }
-                    Double k = null;
-                    if (!kText.isEmpty()) {
-                        k = parseNumber(row, "coverage_factor", kText, "expected a number");
-                        if (!(k > 0)) {
-                            throw new EvaluateCommand.BadInput("row " + row
-                                    + ", column coverage_factor: must be > 0, got '" + kText + "'");
-                        }
-                        if (!ResultRanges.coverageFactorInRange(new BigDecimal(kText))) {
-                            throw new EvaluateCommand.BadInput("row " + row + ", column coverage_factor: '" + kText
-                                    + "': " + ResultRanges.coverageFactorMessage());
-                        }
-                        if (u == null) {
-                            throw new EvaluateCommand.BadInput("row " + row
-                                    + ", column coverage_factor: given without an expanded_uncertainty");
-                        }
+                    double v = finite(row, "value", valueCell, numbers.value());
+                    Double u = numbers.expandedUncertainty() == null ? null
+                            : finite(row, "expanded_uncertainty", uCell, numbers.expandedUncertainty());
+                    Double k = numbers.coverageFactor() == null ? null : numbers.coverageFactor().doubleValue();
+                    if (k != null && u == null) {
+                        throw new EvaluateCommand.BadInput("row " + row
+                                + ", column coverage_factor: given without an expanded_uncertainty");
                     }
                     String previousUnit = units.putIfAbsent(measurand, unit);
                     if (previousUnit == null) {
@@ -329,13 +312,15 @@ final class ResultColumns {
         }
     }
 
-    private static double parseNumber(long row, String column, String text, String expectation)
+    /** A problem of the server's validation as a line: row, column, the text as written and the server's message. */
+    static String message(IntakeProblem p) {
+        return "row " + p.row() + (p.column() == null ? "" : ", column " + p.column()) + ": "
+                + (p.value() == null ? "" : "'" + p.value() + "': ") + p.message();
+    }
+
+    private static double finite(long row, String column, String text, BigDecimal number)
             throws EvaluateCommand.BadInput {
-        if (!NUMBER.matcher(text).matches()) {
-            throw new EvaluateCommand.BadInput("row " + row + ", column " + column + ": '" + text
-                    + "' is not a number (" + expectation + ", '.' as decimal point)");
-        }
-        double v = Double.parseDouble(text);
+        double v = number.doubleValue();
         if (!Double.isFinite(v)) {
             throw new EvaluateCommand.BadInput("row " + row + ", column " + column + ": '" + text
                     + "' is out of range");

@@ -21,7 +21,8 @@ import org.roundtable.statistics.Checks;
  * repeatability SD; n replicates per reported result. The unit-aware methods convert the value
  * to c, apply the function and convert σ back to the measurand's unit.
  *
- * <p>Special cases: the Horwitz functions are defined for 0 &lt; c ≤ 1. A negative
+ * <p>Special cases: the Horwitz functions are defined for 0 &lt; c ≤ 1; c ≤ 0 (a consensus of blank-corrected
+ * results may be negative) is refused with a message that says so. A negative
  * {@code σ_R² − σ_r²(1 − 1/n)} (σ_r &gt; σ_R) is refused.
  *
  * @throws IllegalArgumentException (all methods) arguments outside their domain
@@ -125,6 +126,11 @@ public final class SigmaPt {
     }
 
     private static void requireMassFraction(double c) {
+        if (Double.isFinite(c) && c <= 0) {
+            throw new IllegalArgumentException("the Horwitz function is not defined for a mass fraction of zero or"
+                    + " below, got " + c + " (a consensus of blank-corrected results can be negative): use a fixed"
+                    + " sigma_pt");
+        }
         if (!(Double.isFinite(c) && c > 0 && c <= 1)) {
             throw new IllegalArgumentException("mass fraction must be in (0, 1], got " + c
                     + " (convert % by dividing by 100, mg/kg by multiplying by 1e-6)");

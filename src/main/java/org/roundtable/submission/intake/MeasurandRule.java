@@ -16,10 +16,22 @@ import java.util.Set;
  * @param expectedHigh     upper end of the expected range, in the canonical unit (warning only)
  * @param allowedMethods   method groups a laboratory may report for this measurand
  * @param lessThanAllowed  whether a "less than" result ({@code <0.005}) is accepted
+ * @param negativeAllowed  whether a negative value (and negative replicate values) is a result of this measurand —
+ *                         a blank-corrected trace element; otherwise a negative value is refused
+ *                         ({@code value.negative}, naming the measurand). Uncertainties and coverage factors are never
+ *                         negative. With it the expected range may start below zero.
  */
 public record MeasurandRule(String element, MassFractionUnit canonicalUnit, Set<MassFractionUnit> allowedUnits,
                             int reportingDecimals, BigDecimal expectedLow, BigDecimal expectedHigh,
-                            Set<MethodGroup> allowedMethods, boolean lessThanAllowed) {
+                            Set<MethodGroup> allowedMethods, boolean lessThanAllowed, boolean negativeAllowed) {
+
+    /** A rule that refuses negative values (the default). */
+    public MeasurandRule(String element, MassFractionUnit canonicalUnit, Set<MassFractionUnit> allowedUnits,
+                         int reportingDecimals, BigDecimal expectedLow, BigDecimal expectedHigh,
+                         Set<MethodGroup> allowedMethods, boolean lessThanAllowed) {
+        this(element, canonicalUnit, allowedUnits, reportingDecimals, expectedLow, expectedHigh, allowedMethods,
+                lessThanAllowed, false);
+    }
 
     public MeasurandRule {
         Objects.requireNonNull(element, "element");
@@ -36,8 +48,9 @@ public record MeasurandRule(String element, MassFractionUnit canonicalUnit, Set<
         }
         Objects.requireNonNull(expectedLow, "expectedLow");
         Objects.requireNonNull(expectedHigh, "expectedHigh");
-        if (expectedLow.signum() < 0 || expectedLow.compareTo(expectedHigh) > 0) {
-            throw new IllegalArgumentException("expected range must satisfy 0 <= low <= high: " + element);
+        if ((expectedLow.signum() < 0 && !negativeAllowed) || expectedLow.compareTo(expectedHigh) > 0) {
+            throw new IllegalArgumentException("expected range must satisfy 0 <= low <= high (low may be negative "
+                    + "only where negative results are allowed): " + element);
         }
         allowedMethods = Set.copyOf(allowedMethods);
         if (allowedMethods.isEmpty()) {

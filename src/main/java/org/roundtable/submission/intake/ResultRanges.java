@@ -1,18 +1,12 @@
 package org.roundtable.submission.intake;
 
 import java.math.BigDecimal;
-import java.util.Optional;
 
 /**
- * The range rules of a reported result that hold whatever the channel: the server's upload ({@link ResultValidator})
- * and the offline {@code evaluate} command both call them, so that both refuse the same numbers with the same words.
- *
- * <ul>
- *   <li>coverage factor k between {@value #COVERAGE_FACTOR_MIN_TEXT} and {@value #COVERAGE_FACTOR_MAX_TEXT}
- *       ({@code coverage-factor.out-of-range});</li>
- *   <li>a mass fraction (value or U) at most 100 % = 1 000 000 mg/kg ({@code value.above-100-percent});</li>
- *   <li>a mass fraction is not negative ({@code value.negative}).</li>
- * </ul>
+ * The range of the coverage factor k, between {@value #COVERAGE_FACTOR_MIN_TEXT} and {@value #COVERAGE_FACTOR_MAX_TEXT}
+ * ({@code coverage-factor.out-of-range}). The other range rules (at most 100 %, negative values per measurand) live in
+ * {@link ResultValidator}, which every channel runs — the offline {@code evaluate} command through
+ * {@link ResultCheck}.
  */
 public final class ResultRanges {
 
@@ -35,19 +29,5 @@ public final class ResultRanges {
     public static String coverageFactorMessage() {
         return "The coverage factor k must lie between " + COVERAGE_FACTOR_MIN_TEXT + " and " + COVERAGE_FACTOR_MAX_TEXT
                 + ".";
-    }
-
-    /**
-     * Why a mass fraction in the unit with this symbol is out of range (above 100 %), or empty when it is in range
-     * or the unit is not a mass-fraction unit ({@code %} or {@code mg/kg}).
-     */
-    public static Optional<String> aboveHundredPercent(BigDecimal value, String unitSymbol) {
-        return MassFractionUnit.fromSymbol(unitSymbol).filter(u -> u.isAbove100Percent(value))
-                .map(u -> IntakeKey.VALUE_ABOVE_100_PERCENT.defaultMessage());
-    }
-
-    /** The message for a negative mass fraction. */
-    public static String negativeMessage() {
-        return IntakeKey.VALUE_NEGATIVE.defaultMessage();
     }
 }

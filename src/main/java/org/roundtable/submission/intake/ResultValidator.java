@@ -18,7 +18,7 @@ import java.util.regex.Pattern;
  * <ol>
  *   <li>longer than {@link Limits#maxCellChars()} → {@code value.too-long};</li>
  *   <li>text starting with {@code = + - @}, tab or CR → {@code value.formula-prefix} (ASVS 5.0.0 1.2.10); in a numeric
- *       column a minus followed by a number is {@code value.negative} instead;</li>
+ *       column a minus followed by a number is a negative number instead (see the result rules);</li>
  *   <li>any other control character (line feed, NUL …) → {@code value.control-character}.</li>
  * </ol>
  * Numbers are plain decimals: digits with at most one decimal separator ({@code 0.12}, {@code .5}); {@code NaN},
@@ -26,7 +26,10 @@ import java.util.regex.Pattern;
  * anything else → {@code value.not-a-number}. A decimal comma is accepted only where the {@link NumberStyle} allows
  * it. A value {@code <0.005} (spaces allowed after {@code <}) is a "less than" result with that limit.
  *
- * <p>Result rules: above 100 % or 1 000 000 mg/kg → {@code value.above-100-percent}; U ≤ 0 →
+ * <p>Result rules: a negative value or replicate value → {@code value.negative} naming the measurand, unless the
+ * measurand's rule allows negative results ({@link MeasurandRule#negativeAllowed()}, blank-corrected trace elements);
+ * a negative U, k or "less than" limit → {@code value.negative} always; above 100 % or 1 000 000 mg/kg (or, where
+ * negative values are allowed, below −100 %) → {@code value.above-100-percent}; U ≤ 0 →
  * {@code uncertainty.not-positive}; k outside 1 … 4 → {@code coverage-factor.out-of-range}; replicate count outside
  * 1 … maximum → {@code replicates.out-of-range}; replicate values not matching the count →
  * {@code replicates.count-mismatch}; the same (measurand, item) twice → {@code row.duplicate-measurand}.
@@ -142,6 +145,51 @@ final class ResultValidator {
             method = method(row, methodText, rule);
         }
 
+        Numbers numbers = numbers(row, cells, rule == null ? null : rule.element(),
+                rule == null || rule.lessThanAllowed(), rule != null && rule.negativeAllowed(), unit);
+        String valueText = numbers.valueText();
+        ReportedNumber value = numbers.value();
+        boolean lessThan = numbers.lessThan();
+        ReportedNumber uncertainty = numbers.expandedUncertainty();
+        ReportedNumber coverageFactor = numbers.coverageFactor();
+        boolean coverageFactorReported = numbers.coverageFactorReported();
+
+        Integer replicateCount = null;
+        String replicatesText = cellText(row, UploadColumn.REPLICATES, cells, true, true);
+        if (replicatesText != null) {
+            replicateCount = replicateCount(row, replicatesText);
+        }
+
+        List<ReportedNumber> replicateValues = replicateValues(row, raw.replicateValues(), unit, replicateCount,
+                rule == null ? null : rule.element(), rule != null && rule.negativeAllowed());
+
+        if (problems.size() > problemsBefore || rule == null || item == null || unit == null || method == null
+                || value == null || replicateCount == null || replicateValues == null) {
+            return null;
+        }
+        BigDecimal massFraction = unit.convert(value.value(), rule.canonicalUnit());
+        ReportedResult result = new ReportedResult(row, rule.element(), item, valueText, value, lessThan, unit,
+                rule.canonicalUnit(), massFraction, Optional.ofNullable(uncertainty), coverageFactor,
+                coverageFactorReported, method, replicateCount, replicateValues);
+        addWarnings(result, rule);
+        return result;
+    }
+
+    /**
+     * A result's numbers as reported: the value ({@code <number} a "less than" result), U and k, each null when
+     * absent or refused (with its problem).
+     */
+    record Numbers(String valueText, ReportedNumber value, boolean lessThan, ReportedNumber expandedUncertainty,
+                   ReportedNumber coverageFactor, boolean coverageFactorReported) {
+    }
+
+    /**
+     * The number rules of one result, whatever the channel: the cell rules, a plain decimal, a "less than" result
+     * only where allowed, a negative value only where the measurand allows it (never U or k), at most 100 %, U not
+     * zero, k between 1 and 4. {@code measurand} names the measurand in messages (null when unknown).
+     */
+    Numbers numbers(int row, Map<UploadColumn, String> cells, String measurand, boolean lessThanAllowed,
+                    boolean negativeAllowed, MassFractionUnit unit) {
         String valueText = cellText(row, UploadColumn.VALUE, cells, true, true);
         ReportedNumber value = null;
         boolean lessThan = false;
@@ -150,12 +198,18 @@ final class ResultValidator {
             if (valueText.startsWith("<")) {
                 lessThan = true;
                 numberText = Texts.trimSpaces(valueText.substring(1));
-                if (rule != null && !rule.lessThanAllowed()) {
+                if (!lessThanAllowed) {
                     problems.add(problem(row, UploadColumn.VALUE, valueText, IntakeKey.VALUE_LESS_THAN_NOT_ALLOWED,
-                            "A 'less than' result is not allowed for " + rule.element() + "; report a number."));
+                            "A 'less than' result is not allowed for " + measurand + "; report a number."));
                 }
             }
-            value = number(row, UploadColumn.VALUE, numberText);
+            if (lessThan && numberText.startsWith("-")) {
+                // a detection limit is never negative, whether or not the measurand allows negative values
+                problems.add(problem(row, UploadColumn.VALUE, valueText, IntakeKey.VALUE_NEGATIVE,
+                        "A 'less than' limit cannot be negative."));
+            } else {
+                value = number(row, UploadColumn.VALUE, numberText, measurand, negativeAllowed && !lessThan);
+            }
             if (value != null) {
                 checkAtMost100Percent(row, UploadColumn.VALUE, value, unit);
             }
@@ -164,7 +218,7 @@ final class ResultValidator {
         ReportedNumber uncertainty = null;
         String uncertaintyText = cellText(row, UploadColumn.EXPANDED_UNCERTAINTY, cells, false, true);
         if (uncertaintyText != null) {
-            uncertainty = number(row, UploadColumn.EXPANDED_UNCERTAINTY, uncertaintyText);
+            uncertainty = number(row, UploadColumn.EXPANDED_UNCERTAINTY, uncertaintyText, measurand, false);
             if (uncertainty != null && uncertainty.value().signum() == 0) {
                 problems.add(problem(row, UploadColumn.EXPANDED_UNCERTAINTY, uncertaintyText,
                         IntakeKey.UNCERTAINTY_NOT_POSITIVE, "An expanded uncertainty of zero is not possible; "
@@ -179,7 +233,7 @@ final class ResultValidator {
         boolean coverageFactorReported = false;
         String coverageText = cellText(row, UploadColumn.COVERAGE_FACTOR, cells, false, true);
         if (coverageText != null) {
-            ReportedNumber k = number(row, UploadColumn.COVERAGE_FACTOR, coverageText);
+            ReportedNumber k = number(row, UploadColumn.COVERAGE_FACTOR, coverageText, measurand, false);
             if (k != null && !ResultRanges.coverageFactorInRange(k.value())) {
                 problems.add(problem(row, UploadColumn.COVERAGE_FACTOR, coverageText,
                         IntakeKey.COVERAGE_FACTOR_OUT_OF_RANGE, ResultRanges.coverageFactorMessage()));
@@ -188,25 +242,14 @@ final class ResultValidator {
                 coverageFactorReported = true;
             }
         }
+        return new Numbers(valueText, value, lessThan, uncertainty, coverageFactor, coverageFactorReported);
+    }
 
-        Integer replicateCount = null;
-        String replicatesText = cellText(row, UploadColumn.REPLICATES, cells, true, true);
-        if (replicatesText != null) {
-            replicateCount = replicateCount(row, replicatesText);
-        }
-
-        List<ReportedNumber> replicateValues = replicateValues(row, raw.replicateValues(), unit, replicateCount);
-
-        if (problems.size() > problemsBefore || rule == null || item == null || unit == null || method == null
-                || value == null || replicateCount == null || replicateValues == null) {
-            return null;
-        }
-        BigDecimal massFraction = unit.convert(value.value(), rule.canonicalUnit());
-        ReportedResult result = new ReportedResult(row, rule.element(), item, valueText, value, lessThan, unit,
-                rule.canonicalUnit(), massFraction, Optional.ofNullable(uncertainty), coverageFactor,
-                coverageFactorReported, method, replicateCount, replicateValues);
-        addWarnings(result, rule);
-        return result;
+    /** The problems found since the last call, removed from this validator (for row-by-row use). */
+    List<IntakeProblem> takeProblems() {
+        List<IntakeProblem> taken = List.copyOf(problems);
+        problems.clear();
+        return taken;
     }
 
     private MeasurandRule measurandRule(int row, String measurand) {
@@ -280,7 +323,8 @@ final class ResultValidator {
     }
 
     private List<ReportedNumber> replicateValues(int row, List<String> pieces, MassFractionUnit unit,
-                                                 Integer replicateCount) {
+                                                 Integer replicateCount, String measurand,
+                                                 boolean negativeAllowed) {
         if (pieces == null) {
             return List.of();
         }
@@ -304,7 +348,7 @@ final class ResultValidator {
                 valid = false;
                 continue;
             }
-            ReportedNumber number = number(row, UploadColumn.REPLICATE_VALUES, text);
+            ReportedNumber number = number(row, UploadColumn.REPLICATE_VALUES, text, measurand, negativeAllowed);
             if (number == null || !checkAtMost100Percent(row, UploadColumn.REPLICATE_VALUES, number, unit)) {
                 valid = false;
                 continue;
@@ -321,10 +365,12 @@ final class ResultValidator {
     }
 
     private boolean checkAtMost100Percent(int row, UploadColumn column, ReportedNumber number, MassFractionUnit unit) {
-        if (unit != null && unit.isAbove100Percent(number.value())) {
+        // a negative value (where the plan allows one) is a blank-corrected result: its size is bounded alike
+        if (unit != null && unit.isAbove100Percent(number.value().abs())) {
             problems.add(problem(row, column, number.asReported(), IntakeKey.VALUE_ABOVE_100_PERCENT,
-                    number.asReported() + " " + unit.symbol() + " is more than 100 %, which is impossible for a "
-                            + "mass fraction."));
+                    number.asReported() + " " + unit.symbol() + (number.value().signum() < 0
+                            ? " is below −100 %, which is impossible for a blank-corrected mass fraction."
+                            : " is more than 100 %, which is impossible for a mass fraction.")));
             return false;
         }
         return true;
@@ -343,7 +389,7 @@ final class ResultValidator {
                             + unitSymbol + ". Please check the value and the unit."));
         }
         if (!result.lessThan() && result.expandedUncertainty().isPresent()
-                && result.expandedUncertainty().get().value().compareTo(result.value().value()) > 0) {
+                && result.expandedUncertainty().get().value().compareTo(result.value().value().abs()) > 0) {
             warnings.add(warning(row, UploadColumn.EXPANDED_UNCERTAINTY,
                     result.expandedUncertainty().get().asReported(), IntakeKey.WARNING_UNCERTAINTY_LARGER_THAN_VALUE,
                     "The expanded uncertainty of " + element + " is larger than the value."));
@@ -407,19 +453,26 @@ final class ResultValidator {
         return true;
     }
 
-    /** Parses a non-negative plain decimal; {@code null} (with a problem) when it is not one. */
-    private ReportedNumber number(int row, UploadColumn column, String text) {
+    /**
+     * Parses a plain decimal; {@code null} (with a problem) when it is not one. A negative number is accepted only
+     * when {@code negativeAllowed} (a value or replicate value of a measurand that allows negative results);
+     * otherwise it is refused, naming the measurand when there is one.
+     */
+    private ReportedNumber number(int row, UploadColumn column, String text, String measurand,
+                                  boolean negativeAllowed) {
         if (NOT_FINITE.matcher(text).matches()) {
             problems.add(problem(row, column, text, IntakeKey.VALUE_NOT_FINITE,
                     "'" + text + "' is not a finite number."));
             return null;
         }
-        if (text.startsWith("-")) {
-            problems.add(problem(row, column, text, IntakeKey.VALUE_NEGATIVE,
-                    "A mass fraction, uncertainty or coverage factor cannot be negative."));
+        boolean negative = text.startsWith("-");
+        if (negative && !negativeAllowed) {
+            problems.add(problem(row, column, text, IntakeKey.VALUE_NEGATIVE, negativeMessage(column, text,
+                    measurand)));
             return null;
         }
-        if (PLAIN_DECIMAL.matcher(text).matches()) {
+        String digits = negative ? text.substring(1) : text;
+        if (PLAIN_DECIMAL.matcher(digits).matches()) {
             char separator = text.indexOf(',') >= 0 ? ',' : text.indexOf('.') >= 0 ? '.' : 0;
             if (separator == ',' && numberStyle == NumberStyle.POINT_ONLY) {
                 problems.add(problem(row, column, text, IntakeKey.VALUE_DECIMAL_COMMA_NOT_ALLOWED,
@@ -439,7 +492,7 @@ final class ResultValidator {
             }
             return new ReportedNumber(text, new BigDecimal(text.replace(',', '.')));
         }
-        if (EXPONENT.matcher(text).matches()) {
+        if (EXPONENT.matcher(digits).matches()) {
             problems.add(problem(row, column, text, IntakeKey.VALUE_EXPONENT_NOT_ALLOWED,
                     "Write " + text + " as a plain decimal number, without an exponent."));
             return null;
@@ -447,6 +500,22 @@ final class ResultValidator {
         problems.add(problem(row, column, text, IntakeKey.VALUE_NOT_A_NUMBER,
                 "'" + Texts.shown(text) + "' is not a decimal number."));
         return null;
+    }
+
+    /**
+     * Why a negative number is refused: for a value or replicate value of a known measurand, that the round's plan
+     * does not accept negative results of it; for an uncertainty or coverage factor, that they are never negative.
+     */
+    static String negativeMessage(UploadColumn column, String text, String measurand) {
+        return switch (column) {
+            case EXPANDED_UNCERTAINTY -> "An expanded uncertainty cannot be negative.";
+            case COVERAGE_FACTOR -> "A coverage factor cannot be negative.";
+            default -> measurand == null
+                    ? "A mass fraction cannot be negative."
+                    : measurand + " = " + text + " is negative; the round's plan does not accept negative "
+                            + "results for " + measurand + ". Check the sign, or ask the coordinator "
+                            + "whether negative blank-corrected results are accepted.";
+        };
     }
 
     private IntakeProblem problem(int row, UploadColumn column, String value, IntakeKey key, String message) {

@@ -134,7 +134,7 @@ class EvaluateCommandTest {
         "HEADERA,Mn,%,1,,,\\nB,Mn,mg/kg,2,,,| row 3, column unit| mixed units",
         "HEADERA,Mn,%,1,,,\\nA,Mn,%,2,,,| row 3, column participant: duplicate| a duplicate row",
         "HEADERA,Mn,%,1\\,5,,,| row 2| a wrong field count",
-        "HEADERA,Mn,%,\"1,5\",,,| row 2, column value: '1,5' is not a number| a comma decimal",
+        "HEADERA,Mn,%,\"1,5\",,,| row 2, column value: '1,5': A decimal comma is only allowed in a semicolon-separated file; write 1.5.| a comma decimal (the server's rule)",
         "HEADERA,Mn,%,abc,,,| row 2, column value: 'abc'| a bad number",
         "HEADERA,Mn,%,<,,,| row 2, column value| a bare less-than sign",
         "HEADERA,Mn,%,NaN,,,| row 2, column value: 'NaN'| NaN",
@@ -142,8 +142,10 @@ class EvaluateCommandTest {
         "HEADERA,Mn,%,1,0.1,0,| row 2, column coverage_factor| a zero coverage factor",
         "HEADERA,,%,1,,,| row 2, column measurand: must not be empty| an empty measurand",
         "HEADERA,Mn,%,1,0.1,5,| row 2, column coverage_factor: '5': The coverage factor k must lie between 1 and 4.| k above 4 (the server's rule)",
-        "HEADERA,Mn,%,-0.002,,,| row 2, column value: '-0.002': A mass fraction cannot be negative.| a negative value (the server's rule)",
-        "HEADERA,Mn,%,100.5,,,| row 2, column value: '100.5': A mass fraction cannot exceed 100 %| above 100 % (the server's rule)",
+        "HEADERA,Mn,%,-0.002,,,| row 2, column value: '-0.002': Mn = -0.002 is negative; the round's plan does not accept negative results for Mn.| a negative value (the server's rule)",
+        "HEADERA,Mn,%,0.002,0,,| row 2, column expanded_uncertainty: '0': An expanded uncertainty of zero is not possible| U of zero (the server's rule)",
+        "HEADERA,Mn,%,1e-3,,,| row 2, column value: '1e-3': Write 1e-3 as a plain decimal number, without an exponent.| an exponent (the server's rule)",
+        "HEADERA,Mn,%,100.5,,,| row 2, column value: '100.5': 100.5 % is more than 100 %, which is impossible for a mass fraction.| above 100 % (the server's rule)",
         "| row 1: the file is empty| an empty file"})
     void badInputExitsWithTwoAndNamesRowColumnAndReason(String csv, String expected, String what)
             throws IOException {
@@ -152,6 +154,23 @@ class EvaluateCommandTest {
         assertEquals(2, r.exitCode(), what + ": " + r.err());
         assertTrue(r.err().contains(expected.trim()), what + ": " + r.err());
         assertEquals("", r.out());
+    }
+
+    @Test
+    void negativeValuesOfAMeasurandNamedByNegativeAllowedAreEvaluatedAndOthersAreStillRefused() throws IOException {
+        String csv = HEADER + "A,Cu,mg/kg,-4,,,\nB,Cu,mg/kg,-2,,,\nC,Cu,mg/kg,0,,,\nD,Cu,mg/kg,2,,,\nE,Cu,mg/kg,4,,,\n";
+        Run r = run(csv, "--negative-allowed", "cu,Ni", "--sigma-pt", "Cu=2", "--minimum-participants", "Cu=2");
+        assertEquals(0, r.exitCode(), r.err());
+        JsonNode cu = r.json().get("measurands").get(0);
+        // x_pt = 0 (Algorithm A of values symmetric about 0), z = (−4 − 0)/2 = −2 (hand arithmetic)
+        assertEquals(0.0, cu.get("assignedValue").asDouble(), 1e-12);
+        assertEquals(-2.0, cu.get("scores").get(0).get("z").asDouble(), 1e-12);
+        assertEquals("−2.00", cu.get("scores").get(0).get("printed").get("z").asText().replace('-', '−'));
+
+        Run refused = run(csv, "--sigma-pt", "Cu=2");
+        assertEquals(2, refused.exitCode());
+        assertTrue(refused.err().contains("row 2, column value: '-4': Cu = -4 is negative; the round's plan does not"
+                + " accept negative results for Cu."), refused.err());
     }
 
     @Test

@@ -51,6 +51,17 @@ class SigmaPtTest {
     }
 
     @Test
+    void aMassFractionOfZeroOrBelowIsRefusedSayingThatHorwitzIsNotDefinedThere() {
+        // the Horwitz function is defined for 0 < c <= 1 (Horwitz et al. 1980; Thompson 2000): a negative consensus of
+        // blank-corrected results has no Horwitz sigma_pt
+        IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
+                () -> SigmaPt.thompsonHorwitz(-0.002, MassFractionUnit.PERCENT));
+        org.junit.jupiter.api.Assertions.assertTrue(e.getMessage().contains("not defined for a mass fraction of zero"),
+                e.getMessage());
+        assertThrows(IllegalArgumentException.class, () -> SigmaPt.horwitz(0));
+    }
+
+    @Test
     void unitsAreConvertedToMassFractionAndBack() {
         // 18 % m/m Cr: c = 0.18, Thompson sigma 4.242641e-03 as mass fraction = 0.4242641 % m/m
         // (CALC row above, unit conversion arithmetic)

@@ -66,6 +66,49 @@ class ValidationRulesTest {
         assertThat(rejected.problems()).allSatisfy(problem -> assertThat(problem.message()).isNotBlank());
     }
 
+    /** Cu blank-corrected (negative values allowed, expected −0.010 to 0.050 %), Ni as usual. */
+    private static UploadRules blankCorrectedCopper() {
+        java.util.Set<MethodGroup> methods = EnumSet.of(MethodGroup.ICP_OES);
+        return new UploadRules(List.of(
+                new MeasurandRule("Cu", MassFractionUnit.PERCENT, EnumSet.of(MassFractionUnit.PERCENT), 3,
+                        new BigDecimal("-0.010"), new BigDecimal("0.050"), methods, true, true),
+                new MeasurandRule("Ni", MassFractionUnit.PERCENT, EnumSet.of(MassFractionUnit.PERCENT), 3,
+                        new BigDecimal("0"), new BigDecimal("0.050"), methods, true)), List.of("1"), 4);
+    }
+
+    @Test
+    void aNegativeValueIsAResultOnlyOfAMeasurandWhoseRuleAllowsIt() {
+        String header = "measurand,value,unit,expanded_uncertainty,method,replicates,replicate_values\n";
+        IntakeResult.Accepted accepted = accepted(intake.read(utf8(header
+                + "Cu,-0.004,%,0.003,icp-oes,2,-0.003|-0.005\nNi,0.010,%,,icp-oes,1,\n"), UploadFormat.CSV,
+                blankCorrectedCopper()));
+        assertThat(accepted.results().get(0).massFraction()).isEqualTo(new BigDecimal("-0.004"));
+        assertThat(accepted.results().get(0).replicateValues()).extracting(ReportedNumber::value)
+                .containsExactly(new BigDecimal("-0.003"), new BigDecimal("-0.005"));
+        // −0.004 lies inside the expected −0.010 … 0.050, and U = 0.003 is not larger than |−0.004|
+        assertThat(accepted.warnings()).extracting(IntakeWarning::key)
+                .doesNotContain("value.outside-expected-range", "uncertainty.larger-than-value");
+
+        IntakeResult.Rejected rejected = rejected(intake.read(utf8(header + "Ni,-0.004,%,,icp-oes,1,\n"
+                + "Cu,-0.004,%,-0.003,icp-oes,1,\n" + "Cu,<-0.001,%,,icp-oes,1,\n"), UploadFormat.CSV,
+                blankCorrectedCopper()));
+        assertThat(rejected.problems()).extracting(IntakeProblem::row, IntakeProblem::column, IntakeProblem::key,
+                        IntakeProblem::message)
+                .containsExactly(
+                        tuple(2, "value", "value.negative", "Ni = -0.004 is negative; the round's plan does not accept"
+                                + " negative results for Ni. Check the sign, or ask the coordinator whether negative"
+                                + " blank-corrected results are accepted."),
+                        tuple(3, "expanded_uncertainty", "value.negative", "An expanded uncertainty cannot be negative."),
+                        tuple(4, "value", "value.negative", "A 'less than' limit cannot be negative."));
+    }
+
+    @Test
+    void anExpectedRangeBelowZeroIsOnlyForAMeasurandThatAllowsNegativeValues() {
+        assertThatIllegalArgumentException().isThrownBy(() -> new MeasurandRule("Cu", MassFractionUnit.PERCENT,
+                EnumSet.of(MassFractionUnit.PERCENT), 3, new BigDecimal("-0.010"), BigDecimal.ONE,
+                EnumSet.of(MethodGroup.ICP_OES), false));
+    }
+
     @Test
     void aPairedRoundRequiresTheItemColumn() {
         IntakeResult.Rejected rejected = rejected(intake.read(utf8(HEADER + "Mn,1.215,%,0.030,spark-oes,3\n"),
