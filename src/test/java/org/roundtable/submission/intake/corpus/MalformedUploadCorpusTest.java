@@ -30,13 +30,14 @@ import org.roundtable.submission.intake.UploadFormat;
 /**
  * Runs every file of the malformed-upload corpus ({@code uploads/malformed/}, written by
  * {@link MalformedCorpusGenerator}) through the intake with the low-alloy steel test round, and checks that each is
- * rejected within 2 s with the error key (and row and column, where given) of {@code MANIFEST.csv}. Also checks that
+ * rejected (within a generous guard against hanging) with the error key (and row and column, where given) of {@code MANIFEST.csv}. Also checks that
  * folder and manifest list the same files, and runs the large cases that are generated here instead of committed.
  */
 class MalformedUploadCorpusTest {
 
     private static final String FOLDER = "/uploads/malformed/";
-    private static final Duration TIME_LIMIT = Duration.ofSeconds(2);
+    /** A guard against a reader that hangs or loops (a zip bomb, a runaway scan), not a speed check: speed is benchmarked. */
+    private static final Duration TIME_LIMIT = Duration.ofSeconds(30);
 
     private final ResultIntake intake = new ResultIntake();
 
