@@ -43,6 +43,21 @@ public class SubmissionQueries {
                 window.deadlineTimeZone(), window.latePolicy(), current, revisions);
     }
 
+    /** The own laboratory's current revision number in each of its rounds with a submission, in one query. */
+    @Transactional
+    public Map<Long, Integer> myCurrentRevisions() {
+        long laboratoryId = currentUser.requireLaboratoryId();
+        @SuppressWarnings("unchecked")
+        List<Object[]> rows = entityManager.createNativeQuery("""
+                SELECT s.round_id, s.current_revision FROM submission s
+                  JOIN round_participant p ON p.round_id = s.round_id AND p.laboratory_id = s.laboratory_id
+                 WHERE s.laboratory_id = :l AND s.current_revision > 0
+                """).setParameter("l", laboratoryId).getResultList();
+        Map<Long, Integer> out = new java.util.HashMap<>();
+        rows.forEach(r -> out.put(((Number) r[0]).longValue(), ((Number) r[1]).intValue()));
+        return out;
+    }
+
     @Transactional
     public SubmissionViews.Revision myRevision(long roundId, int revision) {
         long laboratoryId = currentUser.requireLaboratoryId();
@@ -162,6 +177,31 @@ public class SubmissionQueries {
         return rows.stream().map(row -> new SubmissionViews.Flag((String) row[0], ((Number) row[1]).longValue(),
                 codes.get(((Number) row[1]).longValue()), ((Number) row[2]).longValue(),
                 codes.get(((Number) row[2]).longValue()), (String) row[3], Timestamps.utc(row[4]))).toList();
+    }
+
+    /**
+     * The newest {@code limit} review flags of a round with the participant codes they concern (joined, not a map of
+     * every code), and the count of all.
+     */
+    @Transactional
+    public SubmissionViews.Latest<SubmissionViews.Flag> latestFlags(long roundId, int limit) {
+        rounds.window(roundId);
+        @SuppressWarnings("unchecked")
+        List<Object[]> rows = entityManager.createNativeQuery("""
+                SELECT f.kind, f.laboratory_id, p.participant_code, f.other_laboratory_id, o.participant_code, f.detail,
+                       f.raised_at
+                  FROM review_flag f
+                  LEFT JOIN round_participant p ON p.round_id = f.round_id AND p.laboratory_id = f.laboratory_id
+                  LEFT JOIN round_participant o ON o.round_id = f.round_id AND o.laboratory_id = f.other_laboratory_id
+                 WHERE f.round_id = :r ORDER BY f.id DESC LIMIT :limit
+                """).setParameter("r", roundId).setParameter("limit", limit).getResultList();
+        long total = ((Number) entityManager.createNativeQuery("SELECT count(*) FROM review_flag WHERE round_id = :r")
+                .setParameter("r", roundId).getSingleResult()).longValue();
+        List<SubmissionViews.Flag> flags = new java.util.ArrayList<>(rows.stream().map(row -> new SubmissionViews.Flag(
+                (String) row[0], ((Number) row[1]).longValue(), (String) row[2], ((Number) row[3]).longValue(),
+                (String) row[4], (String) row[5], Timestamps.utc(row[6]))).toList());
+        java.util.Collections.reverse(flags);
+        return new SubmissionViews.Latest<>(flags, total);
     }
 
     private List<SubmissionViews.RevisionSummary> summaries(long roundId, long laboratoryId) {
