@@ -100,32 +100,35 @@ public class SubmissionQueries {
         rounds.window(roundId);
         String like = like(query);
         String filter = status == null ? "" : status.name();
+        // one statement: the rows are gathered once (a CTE named twice is computed once), counted, and one page of
+        // the matching ones read; a page past the end comes back as the counts alone
         @SuppressWarnings("unchecked")
         List<Object[]> rows = entityManager.createNativeQuery(STATUS_ROWS + """
-                SELECT laboratory_id, laboratory_name, organisation, participant_code, current_revision, submitted_at,
-                       channel, status, revisions
-                  FROM rows
-                 WHERE (:status = '' OR status = :status)
-                   AND (lower(laboratory_name) LIKE :q ESCAPE '\\' OR lower(organisation) LIKE :q ESCAPE '\\'
-                        OR lower(participant_code) LIKE :q ESCAPE '\\')
-                 ORDER BY CASE status WHEN 'MISSING' THEN 0 WHEN 'LATE' THEN 1 ELSE 2 END, lower(laboratory_name),
-                          participant_code
-                 LIMIT :limit OFFSET :offset
+                , counts AS (
+                  SELECT count(*) FILTER (WHERE (:status = '' OR status = :status)
+                           AND (lower(laboratory_name) LIKE :q ESCAPE '\\' OR lower(organisation) LIKE :q ESCAPE '\\'
+                                OR lower(participant_code) LIKE :q ESCAPE '\\')) AS matching,
+                         count(*) FILTER (WHERE status = 'SUBMITTED') AS submitted,
+                         count(*) FILTER (WHERE status = 'LATE') AS late,
+                         count(*) FILTER (WHERE status = 'MISSING') AS missing
+                    FROM rows)
+                SELECT c.matching, c.submitted, c.late, c.missing, p.laboratory_id, p.laboratory_name, p.organisation,
+                       p.participant_code, p.current_revision, p.submitted_at, p.channel, p.status, p.revisions
+                  FROM counts c LEFT JOIN LATERAL (
+                       SELECT * FROM rows
+                        WHERE (:status = '' OR status = :status)
+                          AND (lower(laboratory_name) LIKE :q ESCAPE '\\' OR lower(organisation) LIKE :q ESCAPE '\\'
+                               OR lower(participant_code) LIKE :q ESCAPE '\\')
+                        ORDER BY CASE status WHEN 'MISSING' THEN 0 WHEN 'LATE' THEN 1 ELSE 2 END, lower(laboratory_name),
+                                 participant_code
+                        LIMIT :limit OFFSET :offset) p ON true
                 """).setParameter("r", roundId).setParameter("status", filter).setParameter("q", like)
                 .setParameter("limit", limit).setParameter("offset", offset).getResultList();
-        List<SubmissionViews.StatusRow> items = rows.stream().map(r -> new SubmissionViews.StatusRow(
-                ((Number) r[0]).longValue(), (String) r[1], (String) r[2], (String) r[3], ((Number) r[4]).intValue(),
-                r[5] == null ? null : Timestamps.utc(r[5]), (String) r[6], SubmissionStatus.valueOf((String) r[7]),
-                ((Number) r[8]).intValue())).toList();
-        Object[] counts = (Object[]) entityManager.createNativeQuery(STATUS_ROWS + """
-                SELECT count(*) FILTER (WHERE (:status = '' OR status = :status)
-                         AND (lower(laboratory_name) LIKE :q ESCAPE '\\' OR lower(organisation) LIKE :q ESCAPE '\\'
-                              OR lower(participant_code) LIKE :q ESCAPE '\\')),
-                       count(*) FILTER (WHERE status = 'SUBMITTED'),
-                       count(*) FILTER (WHERE status = 'LATE'),
-                       count(*) FILTER (WHERE status = 'MISSING')
-                  FROM rows
-                """).setParameter("r", roundId).setParameter("status", filter).setParameter("q", like).getSingleResult();
+        Object[] counts = rows.get(0);
+        List<SubmissionViews.StatusRow> items = rows.stream().filter(r -> r[4] != null).map(r -> new SubmissionViews.StatusRow(
+                ((Number) r[4]).longValue(), (String) r[5], (String) r[6], (String) r[7], ((Number) r[8]).intValue(),
+                r[9] == null ? null : Timestamps.utc(r[9]), (String) r[10], SubmissionStatus.valueOf((String) r[11]),
+                ((Number) r[12]).intValue())).toList();
         return new SubmissionViews.StatusPage(items, ((Number) counts[0]).longValue(), ((Number) counts[1]).longValue(),
                 ((Number) counts[2]).longValue(), ((Number) counts[3]).longValue());
     }
