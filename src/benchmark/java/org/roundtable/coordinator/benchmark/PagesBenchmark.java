@@ -54,7 +54,10 @@ import java.util.regex.Pattern;
  * entries computed with the production hashing ({@link AuditChain#entryHash}) with the checkpoint a view of the audit
  * page had left, and a coordinator with a session. Then it starts the packaged application
  * ({@code target/quarkus-app/quarkus-run.jar}) on that database and times each page from loopback: the request sent
- * to the last byte of the answer read (server time plus loopback), 5 warm-ups, median of 15, one client at a time.
+ * to the last byte of the answer read (server time plus loopback), 5 warm-ups, median of 15, one client at a time;
+ * and, for the 15 timed requests, the CPU time the application's process ({@code serverCpuMillis}) and PostgreSQL's
+ * processes ({@code databaseCpuMillis}) used per request, from {@code /proc}: on a shared machine the wall-clock time
+ * waits for the cores, the CPU time much less.
  *
  * <p>Writes {@code pages.json} in the working directory ({@code target/benchmarks} under {@code -Pbenchmark}): a list
  * of {@code {name, serverMillis, htmlKiB}} with the path, the fastest and slowest run and the load average.
@@ -141,14 +144,15 @@ public final class PagesBenchmark {
                 pages.add(new Page("audit page, older entries", "/audit?before=500000", "audit-entries"));
                 List<Map<String, Object>> figures = new ArrayList<>();
                 for (Page page : pages) {
-                    figures.add(time(client, base, page, token));
+                    figures.add(time(client, base, page, token, app.pid(), postmasterPid(work.resolve("pg"))));
                 }
                 String json = new ObjectMapper().writerWithDefaultPrettyPrinter().writeValueAsString(figures);
                 Files.writeString(Path.of("pages.json"), json);
                 System.out.println("Pages: " + json);
                 for (Map<String, Object> f : figures) {
-                    System.out.printf("%-36s %8.1f ms %8.1f KiB%s%n", f.get("name"), (Double) f.get("serverMillis"),
-                            (Double) f.get("htmlKiB"), ((Double) f.get("serverMillis")) < 300
+                    System.out.printf("%-36s %8.1f ms (CPU %6.1f + %6.1f ms) %8.1f KiB%s%n", f.get("name"),
+                            (Double) f.get("serverMillis"), (Double) f.get("serverCpuMillis"),
+                            (Double) f.get("databaseCpuMillis"), (Double) f.get("htmlKiB"), ((Double) f.get("serverMillis")) < 300
                                     && ((Double) f.get("htmlKiB")) < 300 ? "" : "   (misses the target)");
                 }
             } finally {
@@ -176,10 +180,17 @@ public final class PagesBenchmark {
     }
 
     /** Times one page: warm-ups, then the median of the runs; fails when the page does not answer 200. */
-    private static Map<String, Object> time(HttpClient client, String base, Page page, String token) throws Exception {
+    private static Map<String, Object> time(HttpClient client, String base, Page page, String token, long appPid,
+                                            long postmaster) throws Exception {
         double[] millis = new double[RUNS];
         int bytes = 0;
+        double appCpu = 0;
+        double databaseCpu = 0;
         for (int i = -WARM_UPS; i < RUNS; i++) {
+            if (i == 0) {
+                appCpu = cpuMillis(appPid);
+                databaseCpu = cpuMillisWithChildren(postmaster);
+            }
             HttpRequest request = HttpRequest.newBuilder(URI.create(base + page.path())).timeout(Duration.ofSeconds(120))
                     .header("Cookie", "rt_session=" + token).GET().build();
             long t0 = System.nanoTime();
@@ -207,9 +218,53 @@ public final class PagesBenchmark {
         f.put("path", page.path());
         f.put("minMillis", round(sorted[0]));
         f.put("maxMillis", round(sorted[sorted.length - 1]));
+        f.put("serverCpuMillis", round((cpuMillis(appPid) - appCpu) / RUNS));
+        f.put("databaseCpuMillis", round((cpuMillisWithChildren(postmaster) - databaseCpu) / RUNS));
         f.put("loadAverage", round(ManagementFactory.getOperatingSystemMXBean().getSystemLoadAverage()));
         System.out.printf("%s: %.1f ms, %.1f KiB%n", page.name(), sorted[sorted.length / 2], bytes / 1024.0);
         return f;
+    }
+
+    /** CPU time (user + system) a process has used so far, from {@code /proc} (Linux; 0 elsewhere). */
+    static double cpuMillis(long pid) {
+        try {
+            String stat = Files.readString(Path.of("/proc/" + pid + "/stat"));
+            String[] f = stat.substring(stat.lastIndexOf(')') + 2).split(" ");
+            // fields 14 and 15 of stat (utime, stime), in clock ticks of 10 ms
+            return (Long.parseLong(f[11]) + Long.parseLong(f[12])) * 10.0;
+        } catch (IOException | RuntimeException e) {
+            return 0;
+        }
+    }
+
+    /** CPU time of a process and of its children now running (the PostgreSQL postmaster and its backends). */
+    static double cpuMillisWithChildren(long pid) {
+        double total = cpuMillis(pid);
+        try (var procs = Files.list(Path.of("/proc"))) {
+            for (Path p : procs.filter(x -> x.getFileName().toString().matches("\\d+")).toList()) {
+                try {
+                    String stat = Files.readString(p.resolve("stat"));
+                    String[] f = stat.substring(stat.lastIndexOf(')') + 2).split(" ");
+                    if (Long.parseLong(f[1]) == pid) {
+                        total += (Long.parseLong(f[11]) + Long.parseLong(f[12])) * 10.0;
+                    }
+                } catch (IOException | RuntimeException e) {
+                    // a process that just ended
+                }
+            }
+        } catch (IOException e) {
+            return total;
+        }
+        return total;
+    }
+
+    /** The postmaster's process id from its pid file in the data folder. */
+    static long postmasterPid(Path dataDir) {
+        try {
+            return Long.parseLong(Files.readAllLines(dataDir.resolve("postmaster.pid")).get(0).strip());
+        } catch (IOException | RuntimeException e) {
+            return -1;
+        }
     }
 
     /** The address of the first measurand page the version page links. */
