@@ -54,7 +54,8 @@ import java.util.regex.Pattern;
  * entries computed with the production hashing ({@link AuditChain#entryHash}) with the checkpoint a view of the audit
  * page had left, and a coordinator with a session. Then it starts the packaged application
  * ({@code target/quarkus-app/quarkus-run.jar}) on that database and times each page from loopback: the request sent
- * to the last byte of the answer read (server time plus loopback), 5 warm-ups, median of 15, one client at a time;
+ * to the last byte of the answer read (server time plus loopback), 20 warm-ups (the JIT compiler settles), median
+ * of 15, one client at a time;
  * and, for the 15 timed requests, the CPU time the application's process ({@code serverCpuMillis}) and PostgreSQL's
  * processes ({@code databaseCpuMillis}) used per request, from {@code /proc}: on a shared machine the wall-clock time
  * waits for the cores, the CPU time much less.
@@ -67,7 +68,7 @@ public final class PagesBenchmark {
     static final int LABORATORIES = Integer.getInteger("bench.laboratories", 10_000);
     static final int MEASURANDS = Integer.getInteger("bench.pageMeasurands", 50);
     static final int AUDIT_ENTRIES = Integer.getInteger("bench.auditEntries", 1_000_000);
-    static final int WARM_UPS = 5;
+    static final int WARM_UPS = Integer.getInteger("bench.pageWarmUps", 20);
     static final int RUNS = 15;
     static final String USERNAME = "bench-coordinator";
 
