@@ -37,7 +37,7 @@ class RoundPagePagingTest {
         String past = coordinator.request().get("/rounds/" + round + "?participants=99").then().statusCode(200)
                 .extract().asString();
         assertThat(past).as("a page past the end shows the last").contains("Participants 11–12 of 12.");
-        String searched = coordinator.request().get("/rounds/" + round + "?find=Org+Lab").then().statusCode(200)
+        String searched = coordinator.request().queryParam("find", "Org Lab").get("/rounds/" + round).then().statusCode(200)
                 .extract().asString();
         assertThat(searched).as("the pager keeps the laboratory search")
                 .contains("?participants=2&amp;items=1&amp;find=Org+Lab#participants");
