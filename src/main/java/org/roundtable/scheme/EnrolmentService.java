@@ -197,6 +197,38 @@ public class EnrolmentService {
         return participants(roundId, null);
     }
 
+    /** One page of a round's code table, by participant code, with the count of all (coordinators only). */
+    public record ParticipantPage(List<Participant> participants, org.roundtable.platform.Paging paging) {
+    }
+
+    /** One page of a round's items, by participant code and label, with the count of all (coordinators only). */
+    public record ItemPage(List<ItemView> items, org.roundtable.platform.Paging paging) {
+    }
+
+    /**
+     * Page {@code page} (null: the first; past the end: the last) of the code table, {@code size} rows a page: a
+     * count and one LIMIT/OFFSET read along the (round, participant code) index, never the whole table.
+     */
+    @Transactional
+    public ParticipantPage participants(long roundId, Integer page, int size) {
+        gate.find(roundId);
+        long total = ((Number) entityManager.createNativeQuery(
+                "SELECT count(*) FROM round_participant WHERE round_id = :r").setParameter("r", roundId)
+                .getSingleResult()).longValue();
+        org.roundtable.platform.Paging paging = org.roundtable.platform.Paging.of(page, size, total);
+        @SuppressWarnings("unchecked")
+        List<Object[]> rows = entityManager.createNativeQuery("""
+                SELECT l.id, l.organisation, l.name, l.country, p.participant_code, p.enrolled_at
+                  FROM round_participant p JOIN laboratory l ON l.id = p.laboratory_id
+                 WHERE p.round_id = :r
+                 ORDER BY p.participant_code
+                 LIMIT :limit OFFSET :offset
+                """).setParameter("r", roundId).setParameter("limit", paging.size())
+                .setParameter("offset", paging.offset()).getResultList();
+        return new ParticipantPage(rows.stream().map(r -> new Participant(((Number) r[0]).longValue(), (String) r[1],
+                (String) r[2], r[3].toString(), (String) r[4], Timestamps.utc(r[5]))).toList(), paging);
+    }
+
     private List<Participant> participants(long roundId, Long laboratoryId) {
         @SuppressWarnings("unchecked")
         List<Object[]> rows = entityManager.createNativeQuery("""
@@ -231,9 +263,36 @@ public class EnrolmentService {
                   FROM item_dispatch d JOIN round_participant p ON p.round_id = d.round_id AND p.laboratory_id = d.laboratory_id
                  WHERE d.round_id = :r ORDER BY p.participant_code, d.item_label, d.id
                 """).setParameter("r", roundId).getResultList();
-        return rows.stream().map(r -> new ItemView(((Number) r[0]).longValue(), ((Number) r[1]).longValue(),
+        return rows.stream().map(EnrolmentService::itemView).toList();
+    }
+
+    /**
+     * Page {@code page} (null: the first; past the end: the last) of the round's items, {@code size} rows a page: a
+     * count and one LIMIT/OFFSET read, never every item.
+     */
+    @Transactional
+    public ItemPage items(long roundId, Integer page, int size) {
+        gate.find(roundId);
+        long total = ((Number) entityManager.createNativeQuery(
+                "SELECT count(*) FROM item_dispatch WHERE round_id = :r").setParameter("r", roundId)
+                .getSingleResult()).longValue();
+        org.roundtable.platform.Paging paging = org.roundtable.platform.Paging.of(page, size, total);
+        @SuppressWarnings("unchecked")
+        List<Object[]> rows = entityManager.createNativeQuery("""
+                SELECT d.id, d.laboratory_id, p.participant_code, d.item_label, d.status, d.dispatched_at, d.received_at,
+                       d.item_condition, d.condition_note, d.replaces_id
+                  FROM item_dispatch d JOIN round_participant p ON p.round_id = d.round_id AND p.laboratory_id = d.laboratory_id
+                 WHERE d.round_id = :r ORDER BY p.participant_code, d.item_label, d.id
+                 LIMIT :limit OFFSET :offset
+                """).setParameter("r", roundId).setParameter("limit", paging.size())
+                .setParameter("offset", paging.offset()).getResultList();
+        return new ItemPage(rows.stream().map(EnrolmentService::itemView).toList(), paging);
+    }
+
+    private static ItemView itemView(Object[] r) {
+        return new ItemView(((Number) r[0]).longValue(), ((Number) r[1]).longValue(),
                 (String) r[2], (String) r[3], (String) r[4], Timestamps.utc(r[5]), Timestamps.utc(r[6]),
-                (String) r[7], (String) r[8], r[9] == null ? null : ((Number) r[9]).longValue())).toList();
+                (String) r[7], (String) r[8], r[9] == null ? null : ((Number) r[9]).longValue());
     }
 
     /** Sends a replacement for a damaged or unsuitable item; the old record is kept, marked replaced. */
@@ -262,7 +321,14 @@ public class EnrolmentService {
                 .setParameter("now", now()).setParameter("old", itemId).getSingleResult()).longValue();
         audit.record(new AuditTrail.Event(currentUser.actor(), "item.replaced", "item-dispatch", Long.toString(itemId),
                 null, null, "replacement=" + newId + " reason=" + reason));
-        return items(roundId).stream().filter(i -> i.id() == newId).findFirst().orElseThrow();
+        @SuppressWarnings("unchecked")
+        List<Object[]> created = entityManager.createNativeQuery("""
+                SELECT d.id, d.laboratory_id, p.participant_code, d.item_label, d.status, d.dispatched_at, d.received_at,
+                       d.item_condition, d.condition_note, d.replaces_id
+                  FROM item_dispatch d JOIN round_participant p ON p.round_id = d.round_id AND p.laboratory_id = d.laboratory_id
+                 WHERE d.id = :id
+                """).setParameter("id", newId).getResultList();
+        return itemView(created.get(0));
     }
 
     /** Withdraws an item (by label, for every laboratory) and posts a notice to the round's participants. */
@@ -313,6 +379,26 @@ public class EnrolmentService {
                 """).setParameter("l", lab).getResultList();
         return rows.stream().map(r -> new MyRoundSummary(((Number) r[0]).longValue(), (String) r[1], (String) r[2],
                 (String) r[3], (String) r[4], Timestamps.utc(r[5]), (String) r[6])).toList();
+    }
+
+    /**
+     * The own laboratory's items still waiting for their receipt (dispatched, not yet acknowledged), by round, in one
+     * query over all its rounds (the laboratory's home page).
+     */
+    @Transactional
+    public Map<Long, List<String>> myItemsAwaitingReceipt() {
+        long lab = currentUser.requireLaboratoryId();
+        @SuppressWarnings("unchecked")
+        List<Object[]> rows = entityManager.createNativeQuery("""
+                SELECT d.round_id, d.item_label FROM item_dispatch d
+                  JOIN round_participant p ON p.round_id = d.round_id AND p.laboratory_id = d.laboratory_id
+                 WHERE d.laboratory_id = :l AND d.status = 'DISPATCHED' ORDER BY d.round_id, d.item_label, d.id
+                """).setParameter("l", lab).getResultList();
+        Map<Long, List<String>> out = new HashMap<>();
+        for (Object[] r : rows) {
+            out.computeIfAbsent(((Number) r[0]).longValue(), k -> new ArrayList<>()).add((String) r[1]);
+        }
+        return out;
     }
 
     @Transactional

@@ -232,6 +232,21 @@ public final class PlanForm {
         return warnings;
     }
 
+    /** The laboratories chosen as experts in any row (their ids), for the expert lists' choices. */
+    public Set<Long> chosenExperts() {
+        Set<Long> ids = new LinkedHashSet<>();
+        for (Row row : rows) {
+            for (String id : row.experts) {
+                try {
+                    ids.add(Long.parseLong(id.strip()));
+                } catch (NumberFormatException e) {
+                    // not a laboratory number: the save refuses it beside the field
+                }
+            }
+        }
+        return ids;
+    }
+
     /** The problem of the whole form (shown above it), or null. */
     public String error() {
         return error;

@@ -37,9 +37,13 @@ public class PlanPages {
     static class Templates {
         static native TemplateInstance plan(RoundService.RoundView round, boolean editable, PlanForm form,
                                             List<RoundSummaries.PlanSource> sources, Long copiedFrom,
-                                            List<LaboratoryService.LaboratoryView> laboratories, String reason,
+                                            List<LaboratoryService.LaboratoryView> laboratories,
+                                            long laboratoriesFound, String expertFind, String reason,
                                             String planJson, String jsonError, String message);
     }
+
+    /** Laboratories offered in each row's expert list besides the chosen ones, at most. */
+    static final int EXPERT_CHOICES = 20;
 
     private final RoundService rounds;
     private final RoundSummaries summaries;
@@ -60,8 +64,10 @@ public class PlanPages {
     @GET
     @Path("rounds/{roundId}/plan")
     @RolesAllowed(Role.COORDINATOR_NAME)
-    public TemplateInstance planPage(@PathParam("roundId") long roundId, @QueryParam("from") Long from) {
+    public TemplateInstance planPage(@PathParam("roundId") long roundId, @QueryParam("from") Long from,
+                                     @QueryParam("experts") String expertFind) {
         RoundService.RoundView round = proficiencyRound(roundId);
+        String find = expertFind == null ? "" : expertFind.strip();
         List<Measurand> catalogue = schemes.catalogue(round.schemeId());
         if (from != null) {
             if (summaries.planSources(roundId).stream().noneMatch(s -> s.roundId() == from)) {
@@ -72,9 +78,9 @@ public class PlanPages {
             String message = "The plan of round " + rounds.get(from).code() + " is copied into the form below. "
                     + "Nothing is saved until you save the plan."
                     + (dropped.isEmpty() ? "" : " Left out (not in this scheme's catalogue): " + String.join(", ", dropped) + ".");
-            return page(round, PlanForm.of(catalogue, source), from, null, null, null, message);
+            return page(round, PlanForm.of(catalogue, source), from, null, null, null, message, find);
         }
-        return page(round, PlanForm.of(catalogue, planOf(round).orElse(null)), null, null, null, null, null);
+        return page(round, PlanForm.of(catalogue, planOf(round).orElse(null)), null, null, null, null, null, find);
     }
 
     /** Saves the plan from the form: the draft, or — once frozen — a new version with the reason given. */
@@ -134,12 +140,30 @@ public class PlanPages {
 
     private TemplateInstance page(RoundService.RoundView round, PlanForm form, Long copiedFrom, String reason,
                                   String planJson, String jsonError, String message) {
+        return page(round, form, copiedFrom, reason, planJson, jsonError, message, "");
+    }
+
+    /**
+     * The plan page. Each row's expert list offers the laboratories chosen in any row, then those the expert search
+     * {@code find} finds, or without one the ones created last — at most {@link #EXPERT_CHOICES} besides the chosen
+     * ones, so the page does not grow with the laboratories known.
+     */
+    private TemplateInstance page(RoundService.RoundView round, PlanForm form, Long copiedFrom, String reason,
+                                  String planJson, String jsonError, String message, String find) {
         RoundState state = RoundState.valueOf(round.state());
         boolean editable = RoundStateMachine.allows(state, RoundAction.EDIT_DRAFT_PLAN)
                 || RoundStateMachine.allows(state, RoundAction.NEW_PLAN_VERSION);
         String json = planJson != null ? planJson : exportJson(round);
+        LaboratoryService.Page<LaboratoryService.LaboratoryView> found = find.isEmpty()
+                ? laboratories.recent(EXPERT_CHOICES) : laboratories.search(find, EXPERT_CHOICES);
+        java.util.Map<Long, LaboratoryService.LaboratoryView> chosen = laboratories.byIds(form.chosenExperts());
+        List<LaboratoryService.LaboratoryView> choices = new java.util.ArrayList<>(chosen.values());
+        java.util.Comparator<String> words = java.util.Comparator.nullsFirst(String.CASE_INSENSITIVE_ORDER);
+        choices.sort(java.util.Comparator.comparing(LaboratoryService.LaboratoryView::organisation, words)
+                .thenComparing(LaboratoryService.LaboratoryView::name, words));
+        found.items().stream().filter(l -> !chosen.containsKey(l.id())).forEach(choices::add);
         return Templates.plan(round, editable, form, editable ? summaries.planSources(round.id()) : List.of(), copiedFrom,
-                laboratories.listAll(), reason, json, jsonError, message);
+                choices, found.total(), find, reason, json, jsonError, message);
     }
 
     private RoundService.RoundView proficiencyRound(long roundId) {

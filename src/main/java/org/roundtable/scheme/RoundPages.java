@@ -57,7 +57,7 @@ public class RoundPages {
                                              List<EnrolmentService.Notice> notices,
                                              List<QualificationService.MeasurandQualification> qualification,
                                              List<LaboratoryService.LaboratoryView> laboratories, long laboratoriesFound,
-                                             String find, String error, String message,
+                                             String find, String findQuery, String error, String message,
                                              String link);
 
         static native TemplateInstance myRounds(List<EnrolmentService.MyRoundSummary> rounds);
@@ -409,22 +409,18 @@ public class RoundPages {
                                        Integer participantsPage, Integer itemsPage, String find) {
         RoundService.RoundView round = rounds.get(roundId);
         int size = display.pageSize();
-        List<EnrolmentService.Participant> participants = enrolments.participants(roundId);
-        org.roundtable.platform.Paging participantsPaging = org.roundtable.platform.Paging.of(participantsPage, size,
-                participants.size());
-        List<EnrolmentService.ItemView> items = enrolments.items(roundId);
-        org.roundtable.platform.Paging itemsPaging = org.roundtable.platform.Paging.of(itemsPage, size, items.size());
+        EnrolmentService.ParticipantPage participants = enrolments.participants(roundId, participantsPage, size);
+        EnrolmentService.ItemPage items = enrolments.items(roundId, itemsPage, size);
         String query = find == null ? "" : find.strip();
         // the laboratories to choose from: those the search finds, or the ones created last (a new laboratory is
         // usually enrolled soon after it was made); never a select of every laboratory
         LaboratoryService.Page<LaboratoryService.LaboratoryView> found = query.isEmpty()
                 ? laboratories.recent(ENROL_CHOICES) : laboratories.search(query, ENROL_CHOICES);
         List<PlanStore.PlanVersion> versions = rounds.planVersions(roundId);
-        return Templates.round(round, versions,
-                participants.subList(participantsPaging.offset(), (int) participantsPaging.last()), participantsPaging,
-                items.subList(itemsPaging.offset(), (int) itemsPaging.last()), itemsPaging,
-                enrolments.notices(roundId), qualification.status(roundId), found.items(), found.total(), query,
-                error, message, link);
+        return Templates.round(round, versions, participants.participants(), participants.paging(), items.items(),
+                items.paging(), enrolments.notices(roundId), qualification.status(roundId), found.items(), found.total(),
+                query, query.isEmpty() ? "" : "&find=" + java.net.URLEncoder.encode(query,
+                        java.nio.charset.StandardCharsets.UTF_8), error, message, link);
     }
 
     private static List<String> names(Enum<?>[] values) {

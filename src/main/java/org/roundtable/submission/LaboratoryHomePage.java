@@ -11,6 +11,9 @@ import org.roundtable.account.CurrentUser;
 import org.roundtable.account.Role;
 import org.roundtable.notice.NoticeService;
 import org.roundtable.scheme.EnrolmentService;
+import org.roundtable.scheme.RoundAction;
+import org.roundtable.scheme.RoundState;
+import org.roundtable.scheme.RoundStateMachine;
 
 import java.time.OffsetDateTime;
 import java.util.ArrayList;
@@ -67,10 +70,15 @@ public class LaboratoryHomePage {
     @RolesAllowed({Role.LAB_MANAGER_NAME, Role.LAB_MEMBER_NAME})
     public TemplateInstance home() {
         List<RoundLine> lines = new ArrayList<>();
+        // what is due in every round from one query each (items, revisions, messages), never a query per round
+        java.util.Map<Long, List<String>> waiting = enrolments.myItemsAwaitingReceipt();
+        java.util.Map<Long, Integer> revisions = queries.myCurrentRevisions();
+        Set<Long> answered = messages.roundsAnsweredLast();
         for (EnrolmentService.MyRoundSummary r : enrolments.myRounds()) {
             if (SHOWN_STATES.contains(r.state())) {
                 lines.add(new RoundLine(r.roundId(), r.roundCode(), r.schemeName(), r.participantCode(), r.state(),
-                        r.resultDeadline(), r.timeZone(), due(r)));
+                        r.resultDeadline(), r.timeZone(), due(r, waiting.getOrDefault(r.roundId(), List.of()),
+                        revisions.get(r.roundId()), answered.contains(r.roundId()))));
             }
         }
         // rounds with something due first, then as "My rounds" lists them (latest deadline first)
@@ -83,25 +91,23 @@ public class LaboratoryHomePage {
         return Templates.home(ordered, unread, page == null ? 0 : page.unread());
     }
 
-    private List<Due> due(EnrolmentService.MyRoundSummary r) {
+    private static List<Due> due(EnrolmentService.MyRoundSummary r, List<String> waiting, Integer currentRevision,
+                                 boolean answered) {
         List<Due> due = new ArrayList<>();
         String round = "/my-rounds/" + r.roundId();
         if (r.state().equals("DISPATCHED") || r.state().equals("OPEN_FOR_RESULTS")) {
-            EnrolmentService.MyRound mine = enrolments.myRound(r.roundId());
-            List<String> waiting = mine.items().stream().filter(i -> "DISPATCHED".equals(i.status()))
-                    .map(EnrolmentService.MyItem::itemLabel).toList();
-            if (mine.receiptOpen() && !waiting.isEmpty()) {
+            boolean receiptOpen = RoundStateMachine.allows(RoundState.valueOf(r.state()), RoundAction.ACKNOWLEDGE_RECEIPT);
+            if (receiptOpen && !waiting.isEmpty()) {
                 due.add(new Due("Acknowledge the sample", (waiting.size() == 1 ? "Item " : "Items ")
                         + String.join(", ", waiting) + ": tell us when and in what condition it arrived.", round,
                         "Acknowledge receipt", null, null));
             }
         }
         if (r.state().equals("OPEN_FOR_RESULTS")) {
-            SubmissionViews.MySubmission submission = queries.mine(r.roundId());
-            String sent = submission.current() == null ? "Not sent yet."
-                    : "Revision " + submission.current().revision() + " received; you may still send a new one.";
+            String sent = currentRevision == null ? "Not sent yet."
+                    : "Revision " + currentRevision + " received; you may still send a new one.";
             due.add(new Due("Results due", sent, round + "/results",
-                    submission.current() == null ? "Enter results" : "See or change results", r.resultDeadline(),
+                    currentRevision == null ? "Enter results" : "See or change results", r.resultDeadline(),
                     r.timeZone()));
         }
         if (r.state().equals("COMMENT_PERIOD")) {
@@ -113,8 +119,7 @@ public class LaboratoryHomePage {
                     : "The final report is out.", round + "/reports", "Read the report", null, null));
         }
         if (!r.state().equals("ENROLLING") && !r.state().equals("ITEMS_QUALIFIED")) {
-            List<SubmissionViews.Message> thread = messages.ownThread(r.roundId());
-            if (!thread.isEmpty() && thread.get(thread.size() - 1).fromCoordinator()) {
+            if (answered) {
                 due.add(new Due("Your question was answered", "The coordinator answered on the results page.",
                         round + "/results#messages", "Read the answer", null, null));
             }

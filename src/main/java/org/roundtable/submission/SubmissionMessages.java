@@ -55,11 +55,50 @@ public class SubmissionMessages {
         return list(roundId, laboratoryId);
     }
 
+    /**
+     * The own laboratory's rounds whose message thread ends with a coordinator's answer, in one query over all its
+     * rounds (the laboratory's home page).
+     */
+    @Transactional
+    public java.util.Set<Long> roundsAnsweredLast() {
+        long laboratoryId = currentUser.requireLaboratoryId();
+        @SuppressWarnings("unchecked")
+        List<Object> rows = entityManager.createNativeQuery("""
+                SELECT round_id FROM (
+                    SELECT DISTINCT ON (m.round_id) m.round_id, m.from_coordinator FROM submission_message m
+                      JOIN round_participant p ON p.round_id = m.round_id AND p.laboratory_id = m.laboratory_id
+                     WHERE m.laboratory_id = :l ORDER BY m.round_id, m.id DESC) last
+                 WHERE from_coordinator
+                """).setParameter("l", laboratoryId).getResultList();
+        java.util.Set<Long> out = new java.util.HashSet<>();
+        rows.forEach(r -> out.add(((Number) r).longValue()));
+        return out;
+    }
+
     /** Coordinators: every laboratory's messages in the round. */
     @Transactional
     public List<SubmissionViews.Message> allOfRound(long roundId) {
         rounds.window(roundId);
         return list(roundId, null);
+    }
+
+    /** The newest {@code limit} messages of a round, oldest of them first, and the count of all (coordinators). */
+    @Transactional
+    public SubmissionViews.Latest<SubmissionViews.Message> latestOfRound(long roundId, int limit) {
+        rounds.window(roundId);
+        @SuppressWarnings("unchecked")
+        List<Object[]> rows = entityManager.createNativeQuery("""
+                SELECT id, laboratory_id, from_coordinator, author, body, posted_at FROM submission_message
+                 WHERE round_id = :r ORDER BY id DESC LIMIT :limit
+                """).setParameter("r", roundId).setParameter("limit", limit).getResultList();
+        long total = ((Number) entityManager.createNativeQuery(
+                "SELECT count(*) FROM submission_message WHERE round_id = :r").setParameter("r", roundId)
+                .getSingleResult()).longValue();
+        List<SubmissionViews.Message> messages = new java.util.ArrayList<>(rows.stream().map(r -> new SubmissionViews.Message(
+                ((Number) r[0]).longValue(), ((Number) r[1]).longValue(), (Boolean) r[2], (String) r[3], (String) r[4],
+                Timestamps.utc(r[5]))).toList());
+        java.util.Collections.reverse(messages);
+        return new SubmissionViews.Latest<>(messages, total);
     }
 
     private SubmissionViews.Message post(long roundId, long laboratoryId, boolean fromCoordinator, String body) {

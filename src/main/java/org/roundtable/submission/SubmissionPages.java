@@ -103,8 +103,9 @@ public class SubmissionPages {
                                                         List<SubmissionStatus> statuses, String status,
                                                         String query, String pagerQuery,
                                                         boolean deadlinePassed, boolean remindable,
-                                                        List<SubmissionViews.Flag> flags,
-                                                        List<SubmissionViews.Message> messages, String message,
+                                                        SubmissionViews.Latest<SubmissionViews.Flag> flags,
+                                                        SubmissionViews.Latest<SubmissionViews.Message> messages,
+                                                        String message,
                                                         String error, String reminderText, String reminderProblem);
 
         static native TemplateInstance participant(RoundAccess.SubmissionWindow round,
@@ -324,16 +325,22 @@ public class SubmissionPages {
             }
         }
         String q = query == null ? "" : query.strip();
-        long total = queries.statusPage(roundId, status, q, 0, 1).total();
-        Paging paging = Paging.of(page, display.pageSize(), total);
-        SubmissionViews.StatusPage rows = queries.statusPage(roundId, status, q, paging.offset(), paging.size());
+        // one read of the requested page with its counts; a second only when the page asked for lies past the end
+        int size = display.pageSize();
+        int requested = page == null || page < 1 ? 0 : (int) Math.min(Integer.MAX_VALUE / 2, (long) (page - 1) * size);
+        SubmissionViews.StatusPage rows = queries.statusPage(roundId, status, q, requested, size);
+        Paging paging = Paging.of(page, size, rows.total());
+        if (paging.offset() != requested) {
+            rows = queries.statusPage(roundId, status, q, paging.offset(), size);
+        }
         boolean deadlinePassed = round.resultDeadline() != null && !round.resultDeadline().toInstant().isAfter(clock.instant());
         boolean remindable = rows.missing() > 0
                 && (round.openForResults() || RoundState.DISPATCHED.name().equals(round.state()));
         String pagerQuery = (status == null ? "" : "&status=" + status.name())
                 + (q.isEmpty() ? "" : "&q=" + java.net.URLEncoder.encode(q, java.nio.charset.StandardCharsets.UTF_8));
         return Templates.roundSubmissions(round, rows, paging, List.of(SubmissionStatus.values()), status == null ? "" : status.name(), q, pagerQuery,
-                deadlinePassed, remindable, queries.flags(roundId), messages.allOfRound(roundId), message, error,
+                deadlinePassed, remindable, queries.latestFlags(roundId, size),
+                messages.latestOfRound(roundId, size), message, error,
                 reminderText, reminderProblem);
     }
 

@@ -43,6 +43,21 @@ public class SubmissionQueries {
                 window.deadlineTimeZone(), window.latePolicy(), current, revisions);
     }
 
+    /** The own laboratory's current revision number in each of its rounds with a submission, in one query. */
+    @Transactional
+    public Map<Long, Integer> myCurrentRevisions() {
+        long laboratoryId = currentUser.requireLaboratoryId();
+        @SuppressWarnings("unchecked")
+        List<Object[]> rows = entityManager.createNativeQuery("""
+                SELECT s.round_id, s.current_revision FROM submission s
+                  JOIN round_participant p ON p.round_id = s.round_id AND p.laboratory_id = s.laboratory_id
+                 WHERE s.laboratory_id = :l AND s.current_revision > 0
+                """).setParameter("l", laboratoryId).getResultList();
+        Map<Long, Integer> out = new java.util.HashMap<>();
+        rows.forEach(r -> out.put(((Number) r[0]).longValue(), ((Number) r[1]).intValue()));
+        return out;
+    }
+
     @Transactional
     public SubmissionViews.Revision myRevision(long roundId, int revision) {
         long laboratoryId = currentUser.requireLaboratoryId();
@@ -85,32 +100,35 @@ public class SubmissionQueries {
         rounds.window(roundId);
         String like = like(query);
         String filter = status == null ? "" : status.name();
+        // one statement: the rows are gathered once (a CTE named twice is computed once), counted, and one page of
+        // the matching ones read; a page past the end comes back as the counts alone
         @SuppressWarnings("unchecked")
         List<Object[]> rows = entityManager.createNativeQuery(STATUS_ROWS + """
-                SELECT laboratory_id, laboratory_name, organisation, participant_code, current_revision, submitted_at,
-                       channel, status, revisions
-                  FROM rows
-                 WHERE (:status = '' OR status = :status)
-                   AND (lower(laboratory_name) LIKE :q ESCAPE '\\' OR lower(organisation) LIKE :q ESCAPE '\\'
-                        OR lower(participant_code) LIKE :q ESCAPE '\\')
-                 ORDER BY CASE status WHEN 'MISSING' THEN 0 WHEN 'LATE' THEN 1 ELSE 2 END, lower(laboratory_name),
-                          participant_code
-                 LIMIT :limit OFFSET :offset
+                , counts AS (
+                  SELECT count(*) FILTER (WHERE (:status = '' OR status = :status)
+                           AND (lower(laboratory_name) LIKE :q ESCAPE '\\' OR lower(organisation) LIKE :q ESCAPE '\\'
+                                OR lower(participant_code) LIKE :q ESCAPE '\\')) AS matching,
+                         count(*) FILTER (WHERE status = 'SUBMITTED') AS submitted,
+                         count(*) FILTER (WHERE status = 'LATE') AS late,
+                         count(*) FILTER (WHERE status = 'MISSING') AS missing
+                    FROM rows)
+                SELECT c.matching, c.submitted, c.late, c.missing, p.laboratory_id, p.laboratory_name, p.organisation,
+                       p.participant_code, p.current_revision, p.submitted_at, p.channel, p.status, p.revisions
+                  FROM counts c LEFT JOIN LATERAL (
+                       SELECT * FROM rows
+                        WHERE (:status = '' OR status = :status)
+                          AND (lower(laboratory_name) LIKE :q ESCAPE '\\' OR lower(organisation) LIKE :q ESCAPE '\\'
+                               OR lower(participant_code) LIKE :q ESCAPE '\\')
+                        ORDER BY CASE status WHEN 'MISSING' THEN 0 WHEN 'LATE' THEN 1 ELSE 2 END, lower(laboratory_name),
+                                 participant_code
+                        LIMIT :limit OFFSET :offset) p ON true
                 """).setParameter("r", roundId).setParameter("status", filter).setParameter("q", like)
                 .setParameter("limit", limit).setParameter("offset", offset).getResultList();
-        List<SubmissionViews.StatusRow> items = rows.stream().map(r -> new SubmissionViews.StatusRow(
-                ((Number) r[0]).longValue(), (String) r[1], (String) r[2], (String) r[3], ((Number) r[4]).intValue(),
-                r[5] == null ? null : Timestamps.utc(r[5]), (String) r[6], SubmissionStatus.valueOf((String) r[7]),
-                ((Number) r[8]).intValue())).toList();
-        Object[] counts = (Object[]) entityManager.createNativeQuery(STATUS_ROWS + """
-                SELECT count(*) FILTER (WHERE (:status = '' OR status = :status)
-                         AND (lower(laboratory_name) LIKE :q ESCAPE '\\' OR lower(organisation) LIKE :q ESCAPE '\\'
-                              OR lower(participant_code) LIKE :q ESCAPE '\\')),
-                       count(*) FILTER (WHERE status = 'SUBMITTED'),
-                       count(*) FILTER (WHERE status = 'LATE'),
-                       count(*) FILTER (WHERE status = 'MISSING')
-                  FROM rows
-                """).setParameter("r", roundId).setParameter("status", filter).setParameter("q", like).getSingleResult();
+        Object[] counts = rows.get(0);
+        List<SubmissionViews.StatusRow> items = rows.stream().filter(r -> r[4] != null).map(r -> new SubmissionViews.StatusRow(
+                ((Number) r[4]).longValue(), (String) r[5], (String) r[6], (String) r[7], ((Number) r[8]).intValue(),
+                r[9] == null ? null : Timestamps.utc(r[9]), (String) r[10], SubmissionStatus.valueOf((String) r[11]),
+                ((Number) r[12]).intValue())).toList();
         return new SubmissionViews.StatusPage(items, ((Number) counts[0]).longValue(), ((Number) counts[1]).longValue(),
                 ((Number) counts[2]).longValue(), ((Number) counts[3]).longValue());
     }
@@ -162,6 +180,31 @@ public class SubmissionQueries {
         return rows.stream().map(row -> new SubmissionViews.Flag((String) row[0], ((Number) row[1]).longValue(),
                 codes.get(((Number) row[1]).longValue()), ((Number) row[2]).longValue(),
                 codes.get(((Number) row[2]).longValue()), (String) row[3], Timestamps.utc(row[4]))).toList();
+    }
+
+    /**
+     * The newest {@code limit} review flags of a round with the participant codes they concern (joined, not a map of
+     * every code), and the count of all.
+     */
+    @Transactional
+    public SubmissionViews.Latest<SubmissionViews.Flag> latestFlags(long roundId, int limit) {
+        rounds.window(roundId);
+        @SuppressWarnings("unchecked")
+        List<Object[]> rows = entityManager.createNativeQuery("""
+                SELECT f.kind, f.laboratory_id, p.participant_code, f.other_laboratory_id, o.participant_code, f.detail,
+                       f.raised_at
+                  FROM review_flag f
+                  LEFT JOIN round_participant p ON p.round_id = f.round_id AND p.laboratory_id = f.laboratory_id
+                  LEFT JOIN round_participant o ON o.round_id = f.round_id AND o.laboratory_id = f.other_laboratory_id
+                 WHERE f.round_id = :r ORDER BY f.id DESC LIMIT :limit
+                """).setParameter("r", roundId).setParameter("limit", limit).getResultList();
+        long total = ((Number) entityManager.createNativeQuery("SELECT count(*) FROM review_flag WHERE round_id = :r")
+                .setParameter("r", roundId).getSingleResult()).longValue();
+        List<SubmissionViews.Flag> flags = new java.util.ArrayList<>(rows.stream().map(row -> new SubmissionViews.Flag(
+                (String) row[0], ((Number) row[1]).longValue(), (String) row[2], ((Number) row[3]).longValue(),
+                (String) row[4], (String) row[5], Timestamps.utc(row[6]))).toList());
+        java.util.Collections.reverse(flags);
+        return new SubmissionViews.Latest<>(flags, total);
     }
 
     private List<SubmissionViews.RevisionSummary> summaries(long roundId, long laboratoryId) {

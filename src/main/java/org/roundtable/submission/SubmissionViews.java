@@ -78,4 +78,13 @@ public final class SubmissionViews {
     public record Message(long id, long laboratoryId, boolean fromCoordinator, String author, String body,
                           OffsetDateTime postedAt) {
     }
+
+    /** The newest {@code items} of a list that grows with the laboratories of a round, and how many there are in all. */
+    public record Latest<T>(List<T> items, long total) {
+
+        /** Whether there are more than are shown. */
+        public boolean more() {
+            return total > items.size();
+        }
+    }
 }

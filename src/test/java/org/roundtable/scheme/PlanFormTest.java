@@ -21,6 +21,40 @@ class PlanFormTest {
     World world;
 
     @Test
+    void eachExpertListOffersTheChosenExpertsAndAFewLaboratoriesNeverEveryLaboratory() {
+        long first = world.laboratory();
+        long second = world.laboratory();
+        for (int i = 0; i < PlanPages.EXPERT_CHOICES + 5; i++) {
+            world.laboratory();
+        }
+        long round = world.round(RoundState.DRAFT, World.simplePlan("0.10"), Round.LatePolicy.REFUSE);
+        World.Browser coordinator = world.signIn(world.user("coordinator", null));
+        Response saved = coordinator.form().accept("text/html")
+                .formParam("Cr.include", "yes").formParam("Cr.assignedValueMethod", "EXPERT_CONSENSUS")
+                .formParam("Cr.expertLaboratories", Long.toString(first))
+                .formParam("Cr.expertLaboratories", Long.toString(second))
+                .formParam("Cr.sigmaPtMethod", "FIXED").formParam("Cr.sigmaPt", "0.12")
+                .formParam("Cr.scores", "Z_OR_Z_PRIME")
+                .post("/rounds/" + round + "/plan/form");
+        assertThat(saved.statusCode()).as(saved.asString()).isEqualTo(200);
+
+        String page = coordinator.request().get("/rounds/" + round + "/plan").then().statusCode(200).extract().asString();
+        String crExperts = page.substring(page.indexOf("id=\"Cr-expertLaboratories\""));
+        crExperts = crExperts.substring(0, crExperts.indexOf("</select>"));
+        assertThat(crExperts.split("<option ", -1).length - 1).as("chosen experts and the laboratories added last")
+                .isEqualTo(PlanPages.EXPERT_CHOICES + 2);
+        assertThat(crExperts).contains("value=\"" + first + "\" selected").contains("value=\"" + second + "\" selected");
+
+        String name = world.text("SELECT name FROM laboratory WHERE id = ?", second);
+        String found = coordinator.request().queryParam("experts", name).get("/rounds/" + round + "/plan").then()
+                .statusCode(200).extract().asString();
+        String foundExperts = found.substring(found.indexOf("id=\"Mn-expertLaboratories\""));
+        foundExperts = foundExperts.substring(0, foundExperts.indexOf("</select>"));
+        assertThat(foundExperts.split("<option ", -1).length - 1).as("the two chosen, one of them found").isEqualTo(2);
+        assertThat(found).contains("1 found.");
+    }
+
+    @Test
     void aRefusedPlanFormShowsTheProblemBesideItsFieldAndKeepsWhatWasTyped() {
         long round = world.round(RoundState.DRAFT, World.simplePlan("0.10"), Round.LatePolicy.REFUSE);
         World.Browser coordinator = world.signIn(world.user("coordinator", null));

@@ -34,6 +34,13 @@ class RoundPagePagingTest {
         String third = coordinator.request().get("/rounds/" + round + "?participants=3&items=2").then().statusCode(200)
                 .extract().asString();
         assertThat(third).contains("Participants 11–12 of 12.").contains("Items 6–10 of 12.");
+        String past = coordinator.request().get("/rounds/" + round + "?participants=99").then().statusCode(200)
+                .extract().asString();
+        assertThat(past).as("a page past the end shows the last").contains("Participants 11–12 of 12.");
+        String searched = coordinator.request().queryParam("find", "Org Lab").get("/rounds/" + round).then().statusCode(200)
+                .extract().asString();
+        assertThat(searched).as("the pager keeps the laboratory search")
+                .contains("?participants=2&amp;items=1&amp;find=Org+Lab#participants");
 
         long enrolling = world.round(RoundState.ENROLLING);
         String name = world.text("SELECT name FROM laboratory WHERE id = ?", labs.get(0));

@@ -86,7 +86,7 @@ public final class EvaluationBenchmark {
     }
 
     /** A generated round and what the run needs to know about it. */
-    record Generated(long roundId, RoundEvaluator.Context context, long results) {
+    public record Generated(long roundId, RoundEvaluator.Context context, long results) {
     }
 
     public static void main(String[] args) throws Exception {
@@ -192,7 +192,7 @@ public final class EvaluationBenchmark {
     }
 
     /** One run as the server's job runs it: application role, round row lock, the run, commit. */
-    static RoundEvaluator.Result evaluate(String jdbc, EvaluationService service, Generated round) throws SQLException {
+    public static RoundEvaluator.Result evaluate(String jdbc, EvaluationService service, Generated round) throws SQLException {
         try (Connection c = DriverManager.getConnection(jdbc, "postgres", "")) {
             try (Statement s = c.createStatement()) {
                 s.execute("SET ROLE " + APP_ROLE);
@@ -251,7 +251,7 @@ public final class EvaluationBenchmark {
 
     // ---- synthetic round --------------------------------------------------------------------------------------
 
-    static Generated generate(Connection c, String code, int participants, int measurands, long seed)
+    public static Generated generate(Connection c, String code, int participants, int measurands, long seed)
             throws Exception {
         Random random = new Random(seed);
         // a measurand is an element of an item: beyond the catalogue's 92 elements, a split-level pair of items

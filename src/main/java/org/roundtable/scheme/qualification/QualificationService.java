@@ -281,11 +281,27 @@ public class QualificationService {
     public List<MeasurandQualification> status(long roundId) {
         gate.find(roundId);
         Map<String, PlannedMeasurand> planned = plannedOrEmpty(roundId);
+        // the latest check of each kind and the latest decision of every measurand in two queries, not three a measurand
+        @SuppressWarnings("unchecked")
+        List<Object[]> checks = entityManager.createNativeQuery("""
+                SELECT DISTINCT ON (element, kind) element, kind, figures_json FROM qualification_check
+                 WHERE round_id = :r AND level_label IS NULL ORDER BY element, kind, id DESC
+                """).setParameter("r", roundId).getResultList();
+        Map<String, String> figures = new java.util.HashMap<>();
+        checks.forEach(c -> figures.put(c[0] + "/" + c[1], (String) c[2]));
+        @SuppressWarnings("unchecked")
+        List<Object[]> decisions = entityManager.createNativeQuery("""
+                SELECT DISTINCT ON (element) element, decision, reason, decided_by, decided_at FROM qualification_decision
+                 WHERE round_id = :r ORDER BY element, id DESC
+                """).setParameter("r", roundId).getResultList();
+        Map<String, DecisionView> decided = new java.util.HashMap<>();
+        decisions.forEach(r -> decided.put((String) r[0], new DecisionView((String) r[1], (String) r[2], (String) r[3],
+                Timestamps.utc(r[4]))));
         List<MeasurandQualification> out = new ArrayList<>();
         for (PlannedMeasurand m : planned.values()) {
-            HomogeneityFigures h = latestFigures(roundId, m.element(), "HOMOGENEITY", HomogeneityFigures.class).orElse(null);
-            StabilityFigures s = latestFigures(roundId, m.element(), "STABILITY", StabilityFigures.class).orElse(null);
-            DecisionView d = latestDecision(roundId, m.element()).orElse(null);
+            HomogeneityFigures h = read(figures.get(m.element() + "/HOMOGENEITY"), HomogeneityFigures.class);
+            StabilityFigures s = read(figures.get(m.element() + "/STABILITY"), StabilityFigures.class);
+            DecisionView d = decided.get(m.element());
             boolean passed = h != null && h.sufficientlyHomogeneous() && (s == null || s.stable());
             out.add(new MeasurandQualification(m.element(), m.unit(), h, s, d, passed, passed || d != null, m.digits()));
         }
@@ -446,14 +462,6 @@ public class QualificationService {
                 r.warnings().stream().map(StatisticsWarning::message).toList());
     }
 
-    private <T> T read(String json, Class<T> type) {
-        try {
-            return mapper.readValue(json, type);
-        } catch (JsonProcessingException e) {
-            throw new IllegalStateException(e);
-        }
-    }
-
     // ---- internals -------------------------------------------------------------------------------------
 
     private record PlannedMeasurand(String element, String unit, PlanDocument.QualificationSigma sigma, boolean consensus,
@@ -578,29 +586,15 @@ public class QualificationService {
         return rows.stream().findFirst();
     }
 
-    private <T> Optional<T> latestFigures(long roundId, String element, String kind, Class<T> type) {
-        @SuppressWarnings("unchecked")
-        List<String> rows = entityManager.createNativeQuery("""
-                SELECT figures_json FROM qualification_check WHERE round_id = :r AND element = :e AND kind = :k
-                   AND level_label IS NULL ORDER BY id DESC LIMIT 1
-                """).setParameter("r", roundId).setParameter("e", element).setParameter("k", kind).getResultList();
-        return rows.stream().findFirst().map(json -> {
-            try {
-                return mapper.readValue(json, type);
-            } catch (JsonProcessingException e) {
-                throw new IllegalStateException(e);
-            }
-        });
-    }
-
-    private Optional<DecisionView> latestDecision(long roundId, String element) {
-        @SuppressWarnings("unchecked")
-        List<Object[]> rows = entityManager.createNativeQuery("""
-                SELECT decision, reason, decided_by, decided_at FROM qualification_decision
-                 WHERE round_id = :r AND element = :e ORDER BY id DESC LIMIT 1
-                """).setParameter("r", roundId).setParameter("e", element).getResultList();
-        return rows.stream().findFirst().map(r -> new DecisionView((String) r[0], (String) r[1], (String) r[2],
-                Timestamps.utc(r[3])));
+    private <T> T read(String json, Class<T> type) {
+        if (json == null) {
+            return null;
+        }
+        try {
+            return mapper.readValue(json, type);
+        } catch (JsonProcessingException e) {
+            throw new IllegalStateException(e);
+        }
     }
 
     private String json(Object figures) {
