@@ -30,11 +30,16 @@ public final class DoubleText {
     /** 2⁵³: from here on integers may not be written with their shortest digits by Java 17. */
     private static final double EXACT_INTEGERS = 9007199254740992.0;
     private static final long[] POW10 = new long[19];
+    private static final byte[] PAIRS = new byte[200];
     /** g(e) = floor(10^e · 2^(125 − floor(e·log2(10)))) + 1, split into its high and low 63 bits. */
     private static final long[] G1 = new long[K_MAX - K_MIN + 1];
     private static final long[] G0 = new long[K_MAX - K_MIN + 1];
 
     static {
+        for (int i = 0; i < 100; i++) {
+            PAIRS[2 * i] = (byte) ('0' + i / 10);
+            PAIRS[2 * i + 1] = (byte) ('0' + i % 10);
+        }
         POW10[0] = 1;
         for (int i = 1; i < POW10.length; i++) {
             POW10[i] = POW10[i - 1] * 10;
@@ -206,13 +211,35 @@ public final class DoubleText {
         return at + text.length();
     }
 
-    /** Writes the digits into {@link #scratch}; returns their count. */
+    /** Writes the digits into {@link #scratch}, two at a time; returns their count. */
     private int writeDigits() {
         long d = digits;
-        for (int i = length - 1; i >= 0; i--) {
-            long q = d / 10;
-            scratch[i] = (byte) ('0' + (d - q * 10));
+        int i = length;
+        while (d >= 100_000_000L) {
+            long q = d / 100_000_000L;
+            int r = (int) (d - q * 100_000_000L);
             d = q;
+            for (int j = 0; j < 4; j++) {
+                int rq = r / 100;
+                int pair = (r - rq * 100) << 1;
+                scratch[--i] = PAIRS[pair + 1];
+                scratch[--i] = PAIRS[pair];
+                r = rq;
+            }
+        }
+        int x = (int) d;
+        while (x >= 100) {
+            int q = x / 100;
+            int pair = (x - q * 100) << 1;
+            scratch[--i] = PAIRS[pair + 1];
+            scratch[--i] = PAIRS[pair];
+            x = q;
+        }
+        if (x >= 10) {
+            scratch[--i] = PAIRS[(x << 1) + 1];
+            scratch[--i] = PAIRS[x << 1];
+        } else {
+            scratch[--i] = (byte) ('0' + x);
         }
         return length;
     }
@@ -292,14 +319,26 @@ public final class DoubleText {
         return vbp | (z & MASK_63) + MASK_63 >>> 63;
     }
 
-    /** f·10^e, trailing zeros of f removed. */
+    /** f·10^e (f &gt; 0), trailing zeros of f removed. */
     private void set(long f, int e) {
-        while (f % 10 == 0) {
+        while (f % 100_000_000L == 0) {
+            f /= 100_000_000L;
+            e += 8;
+        }
+        if (f % 10_000 == 0) {
+            f /= 10_000;
+            e += 4;
+        }
+        if (f % 100 == 0) {
+            f /= 100;
+            e += 2;
+        }
+        if (f % 10 == 0) {
             f /= 10;
             e++;
         }
-        int n = 1;
-        while (n < 19 && f >= POW10[n]) {
+        int n = flog10pow2(64 - Long.numberOfLeadingZeros(f));
+        if (n < POW10.length && f >= POW10[n]) {
             n++;
         }
         digits = f;

@@ -35,7 +35,8 @@ import org.roundtable.statistics.StatisticsWarning;
  * progress lines for files of {@value #PROGRESS_ROWS} results or more.
  *
  * <p>Memory: the file is read record by record into primitive columns ({@code ResultColumns}, about 45 bytes a
- * result); measurands are evaluated a few at a time (two per core, each one's output built as text), written in
+ * result); measurands are evaluated a few at a time (two per core, each one's output built as UTF-8 bytes by
+ * {@code OutputText}), written in
  * file order and dropped, so memory grows with the measurands in work, not with the file: 1,000,000 rows of 100
  * measurands run in a 256 MB heap.
  *

@@ -169,7 +169,8 @@ final class ResultColumns {
             boolean semicolon = headerLine.indexOf(';') >= 0 && headerLine.indexOf(',') < 0;
             CSVFormat format = CSVFormat.RFC4180.builder().setIgnoreSurroundingSpaces(false)
                     .setDelimiter(semicolon ? ';' : ',').get();
-            try (Reader body = reader; CSVParser parser = CSVParser.parse(body, format)) {
+            try (Reader body = reader; CSVParser parser = CSVParser.parse(body, format);
+                    RecordFeed feed = new RecordFeed(parser)) {
                 Map<String, Integer> index = null;
                 int participantAt = 0;
                 int measurandAt = 0;
@@ -191,7 +192,7 @@ final class ResultColumns {
                 Double lastK = null;
                 String lastMethod = null;
                 int lastMethodIndex = -1;
-                for (CSVRecord record : parser) {
+                for (CSVRecord record = feed.next(); record != null; record = feed.next()) {
                     long row = record.getRecordNumber();
                     if (index == null) {
                         index = header(record);
@@ -513,6 +514,96 @@ final class ResultColumns {
 
         private static boolean isDigit(char c) {
             return c >= '0' && c <= '9';
+        }
+    }
+
+    /**
+     * The records of the parser, read and decoded on a thread of their own a batch ahead of the checks, in order;
+     * an exception of the parser is thrown by {@link #next} where the record would have come.
+     */
+    private static final class RecordFeed implements AutoCloseable {
+        private static final int BATCH = 1024;
+        private static final Object END = new Object();
+        private final java.util.concurrent.BlockingQueue<Object> queue =
+                new java.util.concurrent.ArrayBlockingQueue<>(16);
+        private final Thread thread;
+        private volatile boolean stopped;
+        private CSVRecord[] batch = new CSVRecord[0];
+        private int at;
+
+        RecordFeed(CSVParser parser) {
+            thread = new Thread(() -> {
+                try {
+                    CSVRecord[] records = new CSVRecord[BATCH];
+                    int n = 0;
+                    for (CSVRecord record : parser) {
+                        records[n++] = record;
+                        if (n == BATCH) {
+                            queue.put(records);
+                            records = new CSVRecord[BATCH];
+                            n = 0;
+                            if (stopped) {
+                                return;
+                            }
+                        }
+                    }
+                    if (n > 0) {
+                        queue.put(Arrays.copyOf(records, n));
+                    }
+                    queue.put(END);
+                } catch (InterruptedException e) {
+                    // stopped
+                } catch (RuntimeException | Error e) {
+                    if (!stopped) {
+                        try {
+                            queue.put(e);
+                        } catch (InterruptedException stop) {
+                            // stopped
+                        }
+                    }
+                }
+            }, "evaluate-read");
+            thread.setDaemon(true);
+            thread.start();
+        }
+
+        /** The next record, or null after the last. */
+        CSVRecord next() {
+            if (at < batch.length) {
+                return batch[at++];
+            }
+            Object item;
+            try {
+                item = queue.take();
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+                throw new UncheckedIOException(new java.io.InterruptedIOException("interrupted"));
+            }
+            if (item == END) {
+                queue.add(END);
+                return null;
+            }
+            if (item instanceof RuntimeException e) {
+                throw e;
+            }
+            if (item instanceof Error e) {
+                throw e;
+            }
+            batch = (CSVRecord[]) item;
+            at = 0;
+            return next();
+        }
+
+        /** Stops the reading thread (after bad input) and waits for it, before the file is closed. */
+        @Override
+        public void close() {
+            stopped = true;
+            thread.interrupt();
+            try {
+                thread.join();
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+            }
         }
     }
 
