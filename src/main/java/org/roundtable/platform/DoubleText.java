@@ -12,10 +12,11 @@ import java.math.BigInteger;
  * "The Schubfach way to render doubles", 2020; the same algorithm as {@code Double.toString} from Java 19 on): the
  * double's rounding interval is scaled by a 126-bit approximation of a power of ten, which decides in a few
  * multiplications whether a decimal of one digit less or the two neighbours of the scaled value lie inside the
- * interval. Java 17's {@code Double.toString} (an older digit-by-digit algorithm) can give longer digits than the
- * shortest for integers of 2⁵³ and more, for powers of two and for subnormals; for those this class asks
- * {@code Double.toString} itself, so the text is the same as before for every double ({@code DoubleTextTest} checks
- * millions of random doubles against it).
+ * interval. Java 17's {@code Double.toString} (an older digit-by-digit algorithm) is known to give more digits than
+ * the shortest for some integers of 2⁵³ and more; for those, and for powers of two (an asymmetric rounding interval)
+ * and subnormals, where the two algorithms were not compared, this class asks {@code Double.toString} itself, so the
+ * text is the same as before for every double ({@code DoubleTextTest} checks millions of random doubles and the
+ * edge cases against it).
  *
  * <p>An instance holds the digits of the last double it took apart; use one per thread.
  */
