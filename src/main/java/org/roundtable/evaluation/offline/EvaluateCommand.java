@@ -1,7 +1,5 @@
 package org.roundtable.evaluation.offline;
 
-import com.fasterxml.jackson.core.JsonFactory;
-import com.fasterxml.jackson.core.JsonGenerator;
 import java.util.ArrayList;
 import java.io.IOException;
 import java.io.PrintStream;
@@ -37,7 +35,8 @@ import org.roundtable.statistics.StatisticsWarning;
  * progress lines for files of {@value #PROGRESS_ROWS} results or more.
  *
  * <p>Memory: the file is read record by record into primitive columns ({@code ResultColumns}, about 45 bytes a
- * result); measurands are evaluated a few at a time (two per core, each one's output built as text), written in
+ * result); measurands are evaluated a few at a time (two per core, each one's output built as UTF-8 bytes by
+ * {@code OutputText}), written in
  * file order and dropped, so memory grows with the measurands in work, not with the file: 1,000,000 rows of 100
  * measurands run in a 256 MB heap.
  *
@@ -180,7 +179,7 @@ public final class EvaluateCommand {
                                 choices.getOrDefault(m, new Choices()), sigmas.get(m), csv)));
                     }
                     Chunk chunk = ahead.removeFirst().get();
-                    out.print(chunk.text());
+                    chunk.text().printTo(out);
                     out.flush();
                     chunk.warnings().forEach(err::println);
                     done++;
@@ -394,42 +393,32 @@ public final class EvaluateCommand {
 
 
 
-    private static void writeCsv(java.io.Writer out, MeasurandEvaluation.Result r, int digits) throws IOException {
-        StringBuilder line = new StringBuilder(160);
-        String assignedValue = NumberFormats.plainStatistic(r.assignedValue(), digits);
-        String sigmaPt = NumberFormats.plainStatistic(r.sigmaPt(), digits);
+    private static void writeCsv(OutputText out, MeasurandEvaluation.Result r, int digits) {
         String used = r.scoreUsed() == null ? "" : r.scoreUsed().jsonName();
+        int scoreDecimals = r.scoreDecimals();
         for (MeasurandEvaluation.ParticipantScore s : r.scores()) {
-            line.setLength(0);
             boolean informationOnly = r.informationOnly() && s.value() != null
                     && (s.z() != null || s.zPrime() != null || s.zeta() != null || s.en() != null);
-            String[] cells = {r.measurand(), r.unit(), s.participant(), s.reported(),
-                    NumberFormats.plainResult(s.value(), digits), assignedValue, sigmaPt, used,
-                    NumberFormats.plainScore(s.z(), r.scoreDecimals()),
-                    NumberFormats.plainScore(s.zPrime(), r.scoreDecimals()),
-                    NumberFormats.plainScore(s.zeta(), r.scoreDecimals()),
-                    NumberFormats.plainScore(s.en(), r.scoreDecimals()),
-                    s.classification(), informationOnly ? "true" : "false"};
-            for (int i = 0; i < cells.length; i++) {
-                if (i > 0) {
-                    line.append(',');
-                }
-                // participant codes, units and reported texts come from the file: written as text cells; the
-                // numbers are ours and keep their minus sign
-                boolean fromFile = i <= 3;
-                line.append(fromFile ? org.roundtable.platform.CsvText.cell(cells[i])
-                        : cells[i] == null ? "" : cells[i]);
-            }
-            line.append('\n');
-            out.append(line);
+            // participant codes, units and reported texts come from the file: written as text cells; the
+            // numbers are ours and keep their minus sign
+            out.cell(r.measurand()).raw(',').cell(r.unit()).raw(',').cell(s.participant()).raw(',')
+                    .cell(s.reported()).raw(',')
+                    .plain(s.value(), digits).raw(',')
+                    .plain(r.assignedValue(), digits + 1).raw(',')
+                    .plain(r.sigmaPt(), digits + 1).raw(',')
+                    .text(used).raw(',')
+                    .plain(s.z(), scoreDecimals).raw(',')
+                    .plain(s.zPrime(), scoreDecimals).raw(',')
+                    .plain(s.zeta(), scoreDecimals).raw(',')
+                    .plain(s.en(), scoreDecimals).raw(',')
+                    .text(s.classification() == null ? "" : s.classification()).raw(',')
+                    .text(informationOnly ? "true" : "false").raw('\n');
         }
     }
 
     /** One measurand's output text (a JSON line or CSV rows) and its warning lines for stderr. */
-    private record Chunk(String text, List<String> warnings) {
+    private record Chunk(OutputText text, List<String> warnings) {
     }
-
-    private static final JsonFactory JSON = new JsonFactory();
 
     private static Chunk evaluateOne(String m, ResultColumns columns, ResultColumns.File input, Assigned a,
             Choices c, Double sigma, boolean csv) throws IOException {
@@ -452,90 +441,133 @@ public final class EvaluateCommand {
                 m, input.units().get(m), results, a == null ? null : a.value(), bigU, sigma, rules,
                 decimals, small));
         int digits = c.digits != null ? c.digits : decimalsOf(results);
-        java.io.StringWriter text = new java.io.StringWriter(64 + 160 * r.scores().size());
+        OutputText text = new OutputText(1024 + (csv ? 120 : 300) * r.scores().size());
         if (csv) {
             writeCsv(text, r, digits);
         } else {
-            try (JsonGenerator g = JSON.createGenerator(text)) {
-                writeJson(g, r, digits);
-            }
-            text.write('\n');
+            writeJson(text, r, digits);
+            text.raw('\n');
         }
         List<String> warnings = new ArrayList<>();
         for (StatisticsWarning w : r.warnings()) {
             warnings.add("warning: " + m + ": " + w.code() + ": " + w.message());
         }
-        return new Chunk(text.toString(), warnings);
+        return new Chunk(text, warnings);
     }
 
-    /** A measurand as one JSON object: full-precision numbers and, under "printed", the numbers as printed. */
-    private static void writeJson(JsonGenerator g, MeasurandEvaluation.Result r, int digits) throws IOException {
-        g.writeStartObject();
-        g.writeStringField("measurand", r.measurand());
-        g.writeObjectField("unit", r.unit());
-        g.writeObjectField("n", r.n());
-        g.writeObjectField("censored", r.censored());
-        g.writeObjectField("median", r.median());
-        g.writeObjectField("madE", r.madE());
-        g.writeObjectField("nIqr", r.nIqr());
-        g.writeObjectField("robustMean", r.robustMean());
-        g.writeObjectField("robustSd", r.robustSd());
-        g.writeObjectField("iterations", r.iterations());
-        g.writeObjectField("converged", r.converged());
-        g.writeObjectField("assignedValue", r.assignedValue());
-        g.writeObjectField("assignedValueUncertainty", r.assignedValueUncertainty());
-        g.writeObjectField("sigmaPt", r.sigmaPt());
-        g.writeObjectField("sigmaPtSource", r.sigmaPtSource() == null ? null
+    private static byte[] ascii(String text) {
+        return text.getBytes(java.nio.charset.StandardCharsets.US_ASCII);
+    }
+
+    private static final byte[] MEASURAND = ascii("{\"measurand\":");
+    private static final byte[] UNIT = ascii(",\"unit\":");
+    private static final byte[] N = ascii(",\"n\":");
+    private static final byte[] CENSORED = ascii(",\"censored\":");
+    private static final byte[] MEDIAN = ascii(",\"median\":");
+    private static final byte[] MAD_E = ascii(",\"madE\":");
+    private static final byte[] N_IQR = ascii(",\"nIqr\":");
+    private static final byte[] ROBUST_MEAN = ascii(",\"robustMean\":");
+    private static final byte[] ROBUST_SD = ascii(",\"robustSd\":");
+    private static final byte[] ITERATIONS = ascii(",\"iterations\":");
+    private static final byte[] CONVERGED = ascii(",\"converged\":");
+    private static final byte[] ASSIGNED_VALUE = ascii(",\"assignedValue\":");
+    private static final byte[] ASSIGNED_VALUE_UNCERTAINTY = ascii(",\"assignedValueUncertainty\":");
+    private static final byte[] SIGMA_PT = ascii(",\"sigmaPt\":");
+    private static final byte[] SIGMA_PT_SOURCE = ascii(",\"sigmaPtSource\":");
+    private static final byte[] SCORE_USED = ascii(",\"scoreUsed\":");
+    private static final byte[] SCORE_USED_REASON = ascii(",\"scoreUsedReason\":");
+    private static final byte[] REPORTING_DIGITS = ascii(",\"reportingDigits\":");
+    private static final byte[] SCORE_DECIMALS = ascii(",\"scoreDecimals\":");
+    private static final byte[] COVERAGE_FACTOR = ascii(",\"coverageFactor\":");
+    private static final byte[] INFORMATION_ONLY = ascii(",\"informationOnly\":");
+    private static final byte[] PRINTED_MEDIAN = ascii(",\"printed\":{\"median\":");
+    private static final byte[] WARNINGS = ascii("},\"warnings\":[");
+    private static final byte[] CODE = ascii("{\"code\":");
+    private static final byte[] MESSAGE = ascii(",\"message\":");
+    private static final byte[] SCORES = ascii("],\"scores\":[");
+    private static final byte[] PARTICIPANT = ascii("{\"participant\":");
+    private static final byte[] REPORTED = ascii(",\"reported\":");
+    private static final byte[] VALUE = ascii(",\"value\":");
+    private static final byte[] Z = ascii(",\"z\":");
+    private static final byte[] Z_PRIME = ascii(",\"zPrime\":");
+    private static final byte[] ZETA = ascii(",\"zeta\":");
+    private static final byte[] EN = ascii(",\"en\":");
+    private static final byte[] CLASSIFICATION = ascii(",\"classification\":");
+    private static final byte[] PRINTED_VALUE = ascii(",\"printed\":{\"value\":");
+    private static final byte[] END_SCORE = ascii("}}");
+    private static final byte[] END_MEASURAND = ascii("]}");
+
+    /**
+     * A measurand as one JSON object, as Jackson's compact generator wrote it before: full-precision numbers and,
+     * under "printed", the numbers as printed.
+     */
+    private static void writeJson(OutputText g, MeasurandEvaluation.Result r, int digits) {
+        int statistic = digits + 1;
+        g.raw(MEASURAND).string(r.measurand());
+        g.raw(UNIT).string(r.unit());
+        g.raw(N).number(r.n());
+        g.raw(CENSORED).number(r.censored());
+        g.raw(MEDIAN).number(r.median());
+        g.raw(MAD_E).number(r.madE());
+        g.raw(N_IQR).number(r.nIqr());
+        g.raw(ROBUST_MEAN).number(r.robustMean());
+        g.raw(ROBUST_SD).number(r.robustSd());
+        g.raw(ITERATIONS).number(r.iterations());
+        g.raw(CONVERGED).bool(r.converged());
+        g.raw(ASSIGNED_VALUE).number(r.assignedValue());
+        g.raw(ASSIGNED_VALUE_UNCERTAINTY).number(r.assignedValueUncertainty());
+        g.raw(SIGMA_PT).number(r.sigmaPt());
+        g.raw(SIGMA_PT_SOURCE).string(r.sigmaPtSource() == null ? null
                 : r.sigmaPtSource() == MeasurandEvaluation.SigmaPtSource.GIVEN ? "given" : "robustSd");
-        g.writeObjectField("scoreUsed", r.scoreUsed() == null ? null : r.scoreUsed().jsonName());
-        g.writeObjectField("scoreUsedReason", r.scoreUsedReason());
-        g.writeNumberField("reportingDigits", digits);
-        g.writeObjectField("scoreDecimals", r.scoreDecimals());
-        g.writeObjectField("coverageFactor", NumberFormats.full(r.coverageFactor()));
-        g.writeBooleanField("informationOnly", r.informationOnly());
-        g.writeObjectFieldStart("printed");
-        g.writeObjectField("median", NumberFormats.plainStatistic(r.median(), digits));
-        g.writeObjectField("madE", NumberFormats.plainStatistic(r.madE(), digits));
-        g.writeObjectField("nIqr", NumberFormats.plainStatistic(r.nIqr(), digits));
-        g.writeObjectField("robustMean", NumberFormats.plainStatistic(r.robustMean(), digits));
-        g.writeObjectField("robustSd", NumberFormats.plainStatistic(r.robustSd(), digits));
-        g.writeObjectField("assignedValue", NumberFormats.plainStatistic(r.assignedValue(), digits));
-        g.writeObjectField("assignedValueUncertainty", NumberFormats.plainStatistic(r.assignedValueUncertainty(),
-                digits));
-        g.writeObjectField("sigmaPt", NumberFormats.plainStatistic(r.sigmaPt(), digits));
-        g.writeEndObject();
-        g.writeArrayFieldStart("warnings");
+        g.raw(SCORE_USED).string(r.scoreUsed() == null ? null : r.scoreUsed().jsonName());
+        g.raw(SCORE_USED_REASON).string(r.scoreUsedReason());
+        g.raw(REPORTING_DIGITS).number(digits);
+        g.raw(SCORE_DECIMALS).number(r.scoreDecimals());
+        g.raw(COVERAGE_FACTOR).string(NumberFormats.full(r.coverageFactor()));
+        g.raw(INFORMATION_ONLY).bool(r.informationOnly());
+        g.raw(PRINTED_MEDIAN).plainString(r.median(), statistic);
+        g.raw(MAD_E).plainString(r.madE(), statistic);
+        g.raw(N_IQR).plainString(r.nIqr(), statistic);
+        g.raw(ROBUST_MEAN).plainString(r.robustMean(), statistic);
+        g.raw(ROBUST_SD).plainString(r.robustSd(), statistic);
+        g.raw(ASSIGNED_VALUE).plainString(r.assignedValue(), statistic);
+        g.raw(ASSIGNED_VALUE_UNCERTAINTY).plainString(r.assignedValueUncertainty(), statistic);
+        g.raw(SIGMA_PT).plainString(r.sigmaPt(), statistic);
+        g.raw(WARNINGS);
+        boolean first = true;
         for (StatisticsWarning w : r.warnings()) {
-            g.writeStartObject();
-            g.writeStringField("code", w.code());
-            g.writeStringField("message", w.message());
-            g.writeEndObject();
+            if (!first) {
+                g.raw(',');
+            }
+            first = false;
+            g.raw(CODE).string(w.code()).raw(MESSAGE).string(w.message()).raw('}');
         }
-        g.writeEndArray();
-        g.writeArrayFieldStart("scores");
+        g.raw(SCORES);
+        int scoreDecimals = r.scoreDecimals();
+        first = true;
         for (MeasurandEvaluation.ParticipantScore s : r.scores()) {
-            g.writeStartObject();
-            g.writeStringField("participant", s.participant());
-            g.writeStringField("reported", s.reported());
-            g.writeObjectField("value", s.value());
-            g.writeObjectField("z", s.z());
-            g.writeObjectField("zPrime", s.zPrime());
-            g.writeObjectField("zeta", s.zeta());
-            g.writeObjectField("en", s.en());
-            g.writeObjectField("classification", s.classification());
-            g.writeBooleanField("informationOnly", r.informationOnly() && s.value() != null
+            if (!first) {
+                g.raw(',');
+            }
+            first = false;
+            g.raw(PARTICIPANT).string(s.participant());
+            g.raw(REPORTED).string(s.reported());
+            g.raw(VALUE).number(s.value());
+            g.raw(Z).number(s.z());
+            g.raw(Z_PRIME).number(s.zPrime());
+            g.raw(ZETA).number(s.zeta());
+            g.raw(EN).number(s.en());
+            g.raw(CLASSIFICATION).string(s.classification());
+            g.raw(INFORMATION_ONLY).bool(r.informationOnly() && s.value() != null
                     && (s.z() != null || s.zPrime() != null || s.zeta() != null || s.en() != null));
-            g.writeObjectFieldStart("printed");
-            g.writeObjectField("value", NumberFormats.plainResult(s.value(), digits));
-            g.writeObjectField("z", NumberFormats.plainScore(s.z(), r.scoreDecimals()));
-            g.writeObjectField("zPrime", NumberFormats.plainScore(s.zPrime(), r.scoreDecimals()));
-            g.writeObjectField("zeta", NumberFormats.plainScore(s.zeta(), r.scoreDecimals()));
-            g.writeObjectField("en", NumberFormats.plainScore(s.en(), r.scoreDecimals()));
-            g.writeEndObject();
-            g.writeEndObject();
+            g.raw(PRINTED_VALUE).plainString(s.value(), digits);
+            g.raw(Z).plainString(s.z(), scoreDecimals);
+            g.raw(Z_PRIME).plainString(s.zPrime(), scoreDecimals);
+            g.raw(ZETA).plainString(s.zeta(), scoreDecimals);
+            g.raw(EN).plainString(s.en(), scoreDecimals);
+            g.raw(END_SCORE);
         }
-        g.writeEndArray();
-        g.writeEndObject();
+        g.raw(END_MEASURAND);
     }
 
 }

@@ -18,7 +18,6 @@ import java.util.HashMap;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
-import java.util.regex.Pattern;
 import org.apache.commons.csv.CSVFormat;
 import org.apache.commons.csv.CSVParser;
 import org.apache.commons.csv.CSVRecord;
@@ -37,7 +36,6 @@ import org.roundtable.submission.intake.ResultCheck;
  */
 final class ResultColumns {
 
-    private static final Pattern PLAIN_DECIMAL = Pattern.compile("\\d+(\\.\\d+)?");
     /** Rows between two progress lines on stderr. */
     static final int PROGRESS_EVERY = 250_000;
 
@@ -51,6 +49,8 @@ final class ResultColumns {
     private long[] unscaled = new long[16];
     private boolean[] lessThan = new boolean[16];
     private final Map<Integer, String> oddReported = new HashMap<>();
+    /** While reading: the first row of each participant's result, for the duplicate check; dropped after. */
+    private FirstRows firstRows = new FirstRows();
     private final List<String> methods;
 
     private ResultColumns(List<String> methods) {
@@ -83,7 +83,7 @@ final class ResultColumns {
     }
 
     private void add(int participantIndex, String reported, String numberText, double v, boolean below, Double u,
-            Double k, int methodIndex) {
+            Double k, int methodIndex, boolean plainDecimal, long digits, boolean canonical) {
         if (size == value.length) {
             int grown = size + (size >> 1) + 16;
             participant = Arrays.copyOf(participant, grown);
@@ -105,9 +105,12 @@ final class ResultColumns {
         int places = dot < 0 ? 0 : numberText.length() - dot - 1;
         boolean rebuilt = false;
         // a plain decimal of at most 18 digits is kept as its digits and decimal places, and given back exactly
-        if (numberText.length() <= 19 && PLAIN_DECIMAL.matcher(numberText).matches()) {
-            long digits = Long.parseLong(dot < 0 ? numberText : numberText.substring(0, dot) + numberText.substring(dot + 1));
-            rebuilt = reported.equals((below ? "<" : "") + plain(digits, places));
+        // when it has no needless leading zeros and nothing stands between '<' and the number
+        if (plainDecimal) {
+            if (numberText.length() == 19 && dot < 0) {
+                digits = Long.parseLong(numberText); // 19 digits, more than the scan keeps
+            }
+            rebuilt = canonical && reported.length() == numberText.length() + (below ? 1 : 0);
             unscaled[size] = digits;
         }
         decimals[size] = (byte) places;
@@ -146,8 +149,6 @@ final class ResultColumns {
         List<String> participants = new ArrayList<>();
         Map<String, Integer> methodIndex = new HashMap<>();
         List<String> methods = new ArrayList<>();
-        Map<String, Integer> measurandIndex = new HashMap<>();
-        FirstRows firstRows = new FirstRows();
         Map<String, String> measurandNames = new HashMap<>();
         long rows = 0;
         try (BufferedReader reader = new BufferedReader(new InputStreamReader(Files.newInputStream(file),
@@ -173,12 +174,36 @@ final class ResultColumns {
             CSVFormat format = CSVFormat.RFC4180.builder().setIgnoreSurroundingSpaces(false)
                     .setDelimiter(semicolon ? ';' : ',').get();
             ResultCheck check = new ResultCheck(semicolon);
-            try (Reader body = reader; CSVParser parser = CSVParser.parse(body, format)) {
+            try (Reader body = reader; CSVParser parser = CSVParser.parse(body, format);
+                    RecordFeed feed = new RecordFeed(parser)) {
                 Map<String, Integer> index = null;
-                for (CSVRecord record : parser) {
+                int participantAt = 0;
+                int measurandAt = 0;
+                int unitAt = 0;
+                int valueAt = 0;
+                int uAt = 0;
+                int kAt = 0;
+                int methodAt = 0;
+                NumberText number = new NumberText();
+                // the rows of one measurand usually follow each other, and U and k repeat: what the row before
+                // found out is kept (the same checks, the same answers)
+                String lastMeasurandField = null;
+                String lastMeasurand = null;
+                ResultColumns lastColumns = null;
+                String lastUnit = null;
+                String lastMethod = null;
+                int lastMethodIndex = -1;
+                for (CSVRecord record = feed.next(); record != null; record = feed.next()) {
                     long row = record.getRecordNumber();
                     if (index == null) {
                         index = header(record);
+                        participantAt = index.get("participant");
+                        measurandAt = index.get("measurand");
+                        unitAt = index.get("unit");
+                        valueAt = index.get("value");
+                        uAt = index.get("expanded_uncertainty");
+                        kAt = index.get("coverage_factor");
+                        methodAt = index.get("method");
                         continue;
                     }
                     if (record.size() == 1 && record.get(0).isBlank()) {
@@ -188,14 +213,20 @@ final class ResultColumns {
                         throw new EvaluateCommand.BadInput("row " + row + ": has " + record.size()
                                 + " fields, the header has " + EvaluateCommand.COLUMNS.size());
                     }
-                    String participant = field(record, index, "participant");
-                    String measurand = measurandNames.computeIfAbsent(field(record, index, "measurand"),
-                            EvaluateCommand::measurandName);
-                    String unit = field(record, index, "unit");
-                    String valueCell = field(record, index, "value");
-                    String uCell = field(record, index, "expanded_uncertainty");
-                    String kCell = field(record, index, "coverage_factor");
-                    String method = field(record, index, "method");
+                    String participant = record.get(participantAt).trim();
+                    String measurandField = record.get(measurandAt).trim();
+                    String measurand;
+                    boolean sameMeasurand = measurandField.equals(lastMeasurandField);
+                    if (sameMeasurand) {
+                        measurand = lastMeasurand;
+                    } else {
+                        measurand = measurandNames.computeIfAbsent(measurandField, EvaluateCommand::measurandName);
+                    }
+                    String unit = record.get(unitAt).trim();
+                    String valueCell = record.get(valueAt).trim();
+                    String uCell = record.get(uAt).trim();
+                    String kCell = record.get(kAt).trim();
+                    String method = record.get(methodAt).trim();
                     requireNonEmpty(row, "participant", participant);
                     requireNonEmpty(row, "measurand", measurand);
                     requireNonEmpty(row, "unit", unit);
@@ -210,6 +241,11 @@ final class ResultColumns {
                     boolean below = numbers.lessThan();
                     String numberText = below ? reported.substring(1).trim() : reported;
                     double v = finite(row, "value", valueCell, numbers.value());
+                    // the shape of the number as written, for printing it back as it was reported
+                    number.scan(numberText);
+                    boolean plainValue = number.plain;
+                    long unscaledValue = number.unscaled;
+                    boolean canonicalValue = number.canonical;
                     Double u = numbers.expandedUncertainty() == null ? null
                             : finite(row, "expanded_uncertainty", uCell, numbers.expandedUncertainty());
                     Double k = numbers.coverageFactor() == null ? null : numbers.coverageFactor().doubleValue();
@@ -217,30 +253,55 @@ final class ResultColumns {
                         throw new EvaluateCommand.BadInput("row " + row
                                 + ", column coverage_factor: given without an expanded_uncertainty");
                     }
-                    String previousUnit = units.putIfAbsent(measurand, unit);
-                    if (previousUnit == null) {
-                        unitRow.put(measurand, (int) row);
-                    } else if (!previousUnit.equals(unit)) {
-                        throw new EvaluateCommand.BadInput("row " + row + ", column unit: '" + unit
-                                + "' differs from '" + previousUnit + "' (row " + unitRow.get(measurand)
-                                + ") for measurand '" + measurand + "'; one unit per measurand");
+                    if (!sameMeasurand || !unit.equals(lastUnit)) {
+                        String previousUnit = units.putIfAbsent(measurand, unit);
+                        if (previousUnit == null) {
+                            unitRow.put(measurand, (int) row);
+                        } else if (!previousUnit.equals(unit)) {
+                            throw new EvaluateCommand.BadInput("row " + row + ", column unit: '" + unit
+                                    + "' differs from '" + previousUnit + "' (row " + unitRow.get(measurand)
+                                    + ") for measurand '" + measurand + "'; one unit per measurand");
+                        }
                     }
-                    int p = participantIndex.computeIfAbsent(participant, code -> {
-                        participants.add(code);
-                        return participants.size() - 1;
-                    });
-                    int m = measurandIndex.computeIfAbsent(measurand, name -> measurandIndex.size());
-                    int earlier = firstRows.putIfAbsent(((long) p << 32) | m, (int) row);
+                    Integer known = participantIndex.get(participant);
+                    int p;
+                    if (known == null) {
+                        p = participants.size();
+                        participants.add(participant);
+                        participantIndex.put(participant, p);
+                    } else {
+                        p = known;
+                    }
+                    ResultColumns columns;
+                    if (sameMeasurand) {
+                        columns = lastColumns;
+                    } else {
+                        columns = byMeasurand.computeIfAbsent(measurand, name -> new ResultColumns(methods));
+                    }
+                    int earlier = columns.firstRows.putIfAbsent(p, (int) row);
                     if (earlier >= 0) {
                         throw new EvaluateCommand.BadInput("row " + row + ", column participant: duplicate result of '"
                                 + participant + "' for measurand '" + measurand + "' (first in row " + earlier + ")");
                     }
-                    int methodAt = method.isEmpty() ? -1 : methodIndex.computeIfAbsent(method, name -> {
-                        methods.add(name);
-                        return methods.size() - 1;
-                    });
-                    byMeasurand.computeIfAbsent(measurand, name -> new ResultColumns(methods))
-                            .add(p, reported, numberText, v, below, u, k, methodAt);
+                    int methodIndexOf;
+                    if (method.isEmpty()) {
+                        methodIndexOf = -1;
+                    } else if (method.equals(lastMethod)) {
+                        methodIndexOf = lastMethodIndex;
+                    } else {
+                        methodIndexOf = methodIndex.computeIfAbsent(method, name -> {
+                            methods.add(name);
+                            return methods.size() - 1;
+                        });
+                        lastMethod = method;
+                        lastMethodIndex = methodIndexOf;
+                    }
+                    columns.add(p, reported, numberText, v, below, u, k, methodIndexOf, plainValue, unscaledValue,
+                            canonicalValue);
+                    lastMeasurandField = measurandField;
+                    lastMeasurand = measurand;
+                    lastColumns = columns;
+                    lastUnit = unit;
                     rows++;
                     if (rows % PROGRESS_EVERY == 0) {
                         progress.println("progress: " + rows + " rows read");
@@ -252,6 +313,9 @@ final class ResultColumns {
                 }
                 if (byMeasurand.isEmpty()) {
                     throw new EvaluateCommand.BadInput("the file has a header and no results");
+                }
+                for (ResultColumns columns : byMeasurand.values()) {
+                    columns.firstRows = null;
                 }
             }
         } catch (UncheckedIOException e) {
@@ -302,10 +366,6 @@ final class ResultColumns {
         return index;
     }
 
-    private static String field(CSVRecord record, Map<String, Integer> index, String column) {
-        return record.get(index.get(column)).trim();
-    }
-
     private static void requireNonEmpty(long row, String column, String text) throws EvaluateCommand.BadInput {
         if (text.isEmpty()) {
             throw new EvaluateCommand.BadInput("row " + row + ", column " + column + ": must not be empty");
@@ -329,12 +389,182 @@ final class ResultColumns {
     }
 
     /**
-     * The first row of each (participant, measurand) pair: an open-addressing table of primitive keys (16 bytes a
-     * pair at most), so that a million results need no million boxed keys.
+     * A number's text as the grammar {@code [+-]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?} reads it, without a regular
+     * expression: whether it matches, and for a plain decimal ({@code \d+(\.\d+)?}) its digits and decimal places.
+     */
+    static final class NumberText {
+        /** A plain decimal {@code \d+(\.\d+)?} of at most 19 characters: {@link #unscaled} holds its digits. */
+        boolean plain;
+        /** A plain decimal without needless leading zeros, so that its digits and places give it back. */
+        boolean canonical;
+        /** Written with an exponent. */
+        boolean exponent;
+        long unscaled;
+        int places;
+
+        boolean scan(String text) {
+            int n = text.length();
+            int i = 0;
+            plain = false;
+            canonical = false;
+            exponent = false;
+            unscaled = 0;
+            places = 0;
+            boolean signed = i < n && (text.charAt(i) == '+' || text.charAt(i) == '-');
+            if (signed) {
+                i++;
+            }
+            int intStart = i;
+            long digits = 0;
+            int count = 0;
+            while (i < n && isDigit(text.charAt(i))) {
+                digits = count < 18 ? digits * 10 + (text.charAt(i) - '0') : digits;
+                count++;
+                i++;
+            }
+            int intDigits = i - intStart;
+            int fraction = 0;
+            boolean dot = i < n && text.charAt(i) == '.';
+            if (dot) {
+                i++;
+                while (i < n && isDigit(text.charAt(i))) {
+                    digits = count < 18 ? digits * 10 + (text.charAt(i) - '0') : digits;
+                    count++;
+                    fraction++;
+                    i++;
+                }
+            }
+            if (intDigits == 0 && fraction == 0) {
+                return false;
+            }
+            if (i < n && (text.charAt(i) == 'e' || text.charAt(i) == 'E')) {
+                i++;
+                if (i < n && (text.charAt(i) == '+' || text.charAt(i) == '-')) {
+                    i++;
+                }
+                int expStart = i;
+                while (i < n && isDigit(text.charAt(i))) {
+                    i++;
+                }
+                if (i == expStart) {
+                    return false;
+                }
+                exponent = true;
+            }
+            if (i != n) {
+                return false;
+            }
+            places = fraction;
+            if (!signed && !exponent && intDigits > 0 && (!dot || fraction > 0) && n <= 19) {
+                plain = true;
+                unscaled = digits;
+                canonical = intDigits == 1 || text.charAt(0) != '0';
+            }
+            return true;
+        }
+
+        private static boolean isDigit(char c) {
+            return c >= '0' && c <= '9';
+        }
+    }
+
+    /**
+     * The records of the parser, read and decoded on a thread of their own a batch ahead of the checks, in order;
+     * an exception of the parser is thrown by {@link #next} where the record would have come.
+     */
+    private static final class RecordFeed implements AutoCloseable {
+        private static final int BATCH = 1024;
+        private static final Object END = new Object();
+        private final java.util.concurrent.BlockingQueue<Object> queue =
+                new java.util.concurrent.ArrayBlockingQueue<>(16);
+        private final Thread thread;
+        private volatile boolean stopped;
+        private CSVRecord[] batch = new CSVRecord[0];
+        private int at;
+
+        RecordFeed(CSVParser parser) {
+            thread = new Thread(() -> {
+                try {
+                    CSVRecord[] records = new CSVRecord[BATCH];
+                    int n = 0;
+                    for (CSVRecord record : parser) {
+                        records[n++] = record;
+                        if (n == BATCH) {
+                            queue.put(records);
+                            records = new CSVRecord[BATCH];
+                            n = 0;
+                            if (stopped) {
+                                return;
+                            }
+                        }
+                    }
+                    if (n > 0) {
+                        queue.put(Arrays.copyOf(records, n));
+                    }
+                    queue.put(END);
+                } catch (InterruptedException e) {
+                    // stopped
+                } catch (RuntimeException | Error e) {
+                    if (!stopped) {
+                        try {
+                            queue.put(e);
+                        } catch (InterruptedException stop) {
+                            // stopped
+                        }
+                    }
+                }
+            }, "evaluate-read");
+            thread.setDaemon(true);
+            thread.start();
+        }
+
+        /** The next record, or null after the last. */
+        CSVRecord next() {
+            if (at < batch.length) {
+                return batch[at++];
+            }
+            Object item;
+            try {
+                item = queue.take();
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+                throw new UncheckedIOException(new java.io.InterruptedIOException("interrupted"));
+            }
+            if (item == END) {
+                queue.add(END);
+                return null;
+            }
+            if (item instanceof RuntimeException e) {
+                throw e;
+            }
+            if (item instanceof Error e) {
+                throw e;
+            }
+            batch = (CSVRecord[]) item;
+            at = 0;
+            return next();
+        }
+
+        /** Stops the reading thread (after bad input) and waits for it, before the file is closed. */
+        @Override
+        public void close() {
+            stopped = true;
+            thread.interrupt();
+            try {
+                thread.join();
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+            }
+        }
+    }
+
+    /**
+     * The first row of each participant's result of this measurand while the file is read: an open-addressing
+     * table of primitive keys (8 bytes a result at most), so that a million results need no million boxed keys.
      */
     private static final class FirstRows {
-        private long[] keys = new long[1 << 10];
-        private int[] rows = new int[1 << 10];
+        private int[] keys = new int[16];
+        private int[] rows = new int[16];
         private int size;
 
         FirstRows() {
@@ -342,7 +572,7 @@ final class ResultColumns {
         }
 
         /** Stores {@code row} for {@code key} unless present; returns the earlier row, or −1. */
-        int putIfAbsent(long key, int row) {
+        int putIfAbsent(int key, int row) {
             if (2 * (size + 1) > keys.length) {
                 grow();
             }
@@ -360,15 +590,15 @@ final class ResultColumns {
             }
         }
 
-        private static int slot(long key, int mask) {
-            long h = key * 0x9E3779B97F4A7C15L;
-            return (int) (h ^ (h >>> 32)) & mask;
+        private static int slot(int key, int mask) {
+            int h = key * 0x9E3779B9;
+            return (h ^ (h >>> 16)) & mask;
         }
 
         private void grow() {
-            long[] oldKeys = keys;
+            int[] oldKeys = keys;
             int[] oldRows = rows;
-            keys = new long[oldKeys.length * 2];
+            keys = new int[oldKeys.length * 2];
             rows = new int[oldRows.length * 2];
             Arrays.fill(rows, -1);
             int mask = keys.length - 1;
