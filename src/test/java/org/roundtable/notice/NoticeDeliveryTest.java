@@ -203,6 +203,52 @@ class NoticeDeliveryTest {
         assertThat(mailbox.to(address(auditor))).hasSize(2);
     }
 
+    @Test
+    void aDeadlineWithinADayAGrantGivenAndAGrantEndingNameTheTimeInTheRecipientsZone() {
+        // the three timed kinds the tests above check only by subject: the time in the reader's own zone, named,
+        // in the e-mail's text and HTML and in the notice list
+        long lab = world.laboratory();
+        String manager = person("lab-manager", lab, "Asia/Tokyo");
+        long round = world.round(RoundState.OPEN_FOR_RESULTS, lab);
+        world.sql("UPDATE round SET result_deadline = now() + interval '12 hours' WHERE id = ?", round);
+        schedule.runChecks();
+        sendMail();
+        Instant deadline = deadline(round);
+        assertThat(mailbox.to(address(manager))).singleElement().satisfies(m -> {
+            assertThat(m.subject()).contains("results due within a day");
+            assertThat(m.text()).contains(inZone(deadline, "Asia/Tokyo"));
+            assertThat(m.html()).contains(inZone(deadline, "Asia/Tokyo"));
+        });
+        assertThat(world.signIn(manager).request().get("/notices").then().statusCode(200).extract().asString())
+                .contains(inZone(deadline, "Asia/Tokyo"));
+
+        String auditor = person("auditor", null, "Pacific/Auckland");
+        long auditorId = world.userId(auditor);
+        long ending = world.grant(lab, auditor);
+        world.sql("UPDATE auditor_grant SET granted_at = now() - interval '60 days', valid_until = now() + interval '10 days' WHERE id = ?", ending);
+        Instant until = Instant.parse(world.text("SELECT to_char(valid_until AT TIME ZONE 'UTC', "
+                + "'YYYY-MM-DD\"T\"HH24:MI:SS\"Z\"') FROM auditor_grant WHERE id = ?", ending));
+        String name = world.text("SELECT name FROM laboratory WHERE id = ?", lab);
+        Instant given = Instant.parse("2027-06-30T22:00:00Z"); // 2027-07-01 10:00 in Auckland (NZST, UTC+12)
+        QuarkusTransaction.requiringNew().run(() -> notices.notify(NoticeKind.GRANT_GIVEN, "grant:zone-" + ending,
+                auditorId, Map.of("laboratory", name, "until", given)));
+        schedule.runChecks();
+        sendMail();
+        List<Mailbox.Message> toAuditor = mailbox.to(address(auditor));
+        assertThat(toAuditor).hasSize(2);
+        assertThat(toAuditor).anySatisfy(m -> {
+            assertThat(m.subject()).contains(name + " gave you access");
+            assertThat(m.text()).contains("2027-07-01 10:00 Pacific/Auckland");
+            assertThat(m.html()).contains("2027-07-01 10:00 Pacific/Auckland");
+        });
+        assertThat(toAuditor).anySatisfy(m -> {
+            assertThat(m.subject()).contains("Your access to " + name + " ends soon");
+            assertThat(m.text()).contains(inZone(until, "Pacific/Auckland"));
+        });
+        assertThat(world.signIn(auditor).request().get("/notices").then().statusCode(200).extract().asString())
+                .contains("2027-07-01 10:00 Pacific/Auckland").contains(inZone(until, "Pacific/Auckland"));
+    }
+
     private void checkOnTwoInstances() throws Exception {
         ExecutorService pool = Executors.newFixedThreadPool(2);
         try {
