@@ -327,8 +327,8 @@ public class ReportLifecycle {
     }
 
     /**
-     * Notices of a sign-off: the other coordinators when a second reviewer is needed; the laboratories of the round
-     * when the first sign-off of the final report ends the comment period in practice.
+     * Notices of a sign-off: the other coordinators when a second reviewer is needed. (That the comment period is
+     * ending is told by the notice checks before its end, notice.NoticeSchedule, not by a sign-off.)
      */
     private void notifySignOff(long roundId, RoundState state, int sequence, int version, boolean secondNeeded,
                                Signer signer) {
@@ -337,10 +337,6 @@ public class ReportLifecycle {
             notices.notifyCoordinators(NoticeKind.SIGN_OFF_WAITING, "sign-off:" + roundId + ":" + sequence,
                     signer.actor().name(), Map.of("round", code, "roundId", roundId, "version", version,
                             "signer", signer.displayName()));
-        }
-        if (state == RoundState.COMMENT_PERIOD && sequence == 0) {
-            notices.notifyLaboratoriesOfRound(NoticeKind.COMMENT_PERIOD_ENDING, "comment-period:" + roundId, roundId,
-                    false, Map.of("round", code, "roundId", roundId));
         }
     }
 

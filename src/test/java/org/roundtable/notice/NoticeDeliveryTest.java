@@ -204,6 +204,49 @@ class NoticeDeliveryTest {
     }
 
     @Test
+    void theEndOfACommentPeriodIsToldOnceToEachLaboratoryTwoDaysBeforeInTheReadersZone() throws Exception {
+        long first = world.laboratory();
+        long second = world.laboratory();
+        String berlin = person("lab-member", first, "Europe/Berlin");
+        String plain = person("lab-manager", second, null);
+        long round = world.round(RoundState.COMMENT_PERIOD, first, second);
+        String code = world.text("SELECT code FROM round WHERE id = ?", round);
+
+        // three days before the end: too early (the notice goes 48 hours before, the tests' and default setting)
+        world.sql("UPDATE round SET comment_period_ends_at = now() + interval '3 days' WHERE id = ?", round);
+        checkOnTwoInstances();
+        sendMail();
+        assertThat(mailbox.to(address(berlin))).isEmpty();
+
+        // within two days of the end: each laboratory once, although two instances check twice
+        world.sql("UPDATE round SET comment_period_ends_at = now() + interval '36 hours' WHERE id = ?", round);
+        Instant end = Instant.parse(world.text("SELECT to_char(comment_period_ends_at AT TIME ZONE 'UTC', "
+                + "'YYYY-MM-DD\"T\"HH24:MI:SS\"Z\"') FROM round WHERE id = ?", round));
+        checkOnTwoInstances();
+        checkOnTwoInstances();
+        sendMail();
+        assertThat(mailbox.to(address(berlin))).singleElement().satisfies(m -> {
+            assertThat(m.subject()).isEqualTo("Roundtable: Round " + code + ": the comment period is ending");
+            assertThat(m.text()).contains("ends at " + inZone(end, "Europe/Berlin"))
+                    .contains("/my-rounds/" + round + "/reports");
+            assertThat(m.html()).contains(inZone(end, "Europe/Berlin"));
+        });
+        assertThat(mailbox.to(address(plain))).singleElement()
+                .satisfies(m -> assertThat(m.text()).contains(inZone(end, "UTC")));
+        assertThat(world.text("SELECT count(*)::text FROM notice WHERE kind = 'comment-period-ending' AND object_key = ?",
+                "comment-period:" + round)).isEqualTo("2");
+
+        // a comment period that has ended already is not announced
+        long late = world.laboratory();
+        String lateMember = person("lab-member", late, "Europe/Berlin");
+        long ended = world.round(RoundState.COMMENT_PERIOD, late);
+        world.sql("UPDATE round SET comment_period_ends_at = now() - interval '1 hour' WHERE id = ?", ended);
+        checkOnTwoInstances();
+        sendMail();
+        assertThat(mailbox.to(address(lateMember))).isEmpty();
+    }
+
+    @Test
     void aDeadlineWithinADayAGrantGivenAndAGrantEndingNameTheTimeInTheRecipientsZone() {
         // the three timed kinds the tests above check only by subject: the time in the reader's own zone, named,
         // in the e-mail's text and HTML and in the notice list
