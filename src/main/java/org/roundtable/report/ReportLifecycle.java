@@ -145,12 +145,13 @@ public class ReportLifecycle {
 
     /**
      * Everything about a round's reports, for its coordinators; {@code documents} is one page of the issued
-     * documents, newest first ({@code documentsPaging}).
+     * documents, newest first ({@code documentsPaging}); the end of the comment period once it is open, with the
+     * round's time zone.
      */
     public record Overview(long roundId, String roundCode, String state, boolean secondReviewerRequired,
                            int nextSignOffSequence, List<RunChoice> runs, List<IssueView> issues,
                            List<SignOffView> signOffs, List<CommentView> comments, List<DocumentView> documents,
-                           Paging documentsPaging) {
+                           Paging documentsPaging, OffsetDateTime commentPeriodEndsAt, String timeZone) {
 
         /** Whether an issue job is running (its page then follows the progress by itself). */
         public boolean issuing() {
@@ -179,7 +180,8 @@ public class ReportLifecycle {
 
     /** A laboratory's view of a round's reports: documents it may read, its own comments and their answers. */
     public record LaboratoryView(long roundId, String roundCode, String state, String participantCode,
-                                 boolean commentPeriodOpen, List<DocumentView> documents, List<CommentView> comments) {
+                                 boolean commentPeriodOpen, List<DocumentView> documents, List<CommentView> comments,
+                                 OffsetDateTime commentPeriodEndsAt, String timeZone) {
     }
 
     /** Who acts: the audit actor and the name printed on a report. */
@@ -216,7 +218,8 @@ public class ReportLifecycle {
         List<RunChoice> runs = runRows.stream().map(r -> new RunChoice(((Number) r[0]).intValue(), Timestamps.utc(r[1])))
                 .toList();
         return new Overview(roundId, round.code(), round.state(), schemes.secondReviewerRequired(round.schemeId()),
-                nextSequence(roundId), runs, issues(roundId), signOffs(roundId), comments(roundId, null), docs, paging);
+                nextSequence(roundId), runs, issues(roundId), signOffs(roundId), comments(roundId, null), docs, paging,
+                rounds.commentPeriodEnd(roundId).orElse(null), round.timeZone());
     }
 
     /** Records a request to issue the preliminary reports and queues the job that issues them. */
@@ -390,7 +393,8 @@ public class ReportLifecycle {
                         || d.kind() == DocumentKind.LABORATORY && Long.valueOf(laboratory).equals(d.laboratoryId()))
                 .map(d -> view(d, Map.of(laboratory, code))).toList();
         return new LaboratoryView(roundId, round.code(), round.state(), code,
-                RoundState.COMMENT_PERIOD.name().equals(round.state()), docs, comments(roundId, laboratory));
+                RoundState.COMMENT_PERIOD.name().equals(round.state()), docs, comments(roundId, laboratory),
+                rounds.commentPeriodEnd(roundId).orElse(null), round.timeZone());
     }
 
     /** A laboratory's comment on the preliminary round report, during the comment period. */

@@ -84,9 +84,17 @@ class ReportPagesBrowserTest {
         assertThat(browser.findElement(By.id("documents")).getText()).contains(code + "-R-P1");
         submit(By.id("open-comment-period"));
         assertThat(browser.findElement(By.id("round-state")).getText()).isEqualTo("Comment period");
+        String zone = world.text("SELECT deadline_time_zone FROM round WHERE id = ?", round);
+        assertThat(browser.findElement(By.id("comment-period-end")).getText()).startsWith("The comment period ends")
+                .contains(zone);
         signOut();
 
         signIn(member, labPage);
+        assertThat(browser.findElement(By.id("comment-period-end")).getText()).startsWith("The comment period ends")
+                .contains(zone);
+        ((org.openqa.selenium.JavascriptExecutor) browser).executeScript(
+                "document.getElementById('comment-period-end').scrollIntoView(true); window.scrollBy(0, -120);");
+        Browser.screenshot(browser, "notices/10-comment-period-end-laboratory");
         assertThat(browser.findElement(By.id("my-documents")).getText()).contains(code + "-R-P1").contains("your laboratory report");
         browser.findElement(By.id("comment-body")).sendKeys("Please confirm the Cr assigned value.");
         browser.findElement(By.id("send-comment")).click();
