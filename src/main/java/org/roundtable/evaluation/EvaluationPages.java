@@ -70,8 +70,12 @@ public class EvaluationPages {
         /** Why the score was chosen, with the symbols as people write them. */
         public String scoreUsedReason() {
             String reason = outcome.scoreUsedReason();
-            return reason == null ? "" : NumberFormats.minusSigns(reason.replace("sigma_pt", "σpt")
-                    .replace("<=", "≤").replace(">=", "≥"));
+            return reason == null ? "" : WarningTexts.forPeople("", reason, digits);
+        }
+
+        /** The warnings' texts for people: the trade's symbols, numbers at the measurand's digits (WarningTexts). */
+        public List<String> warnings() {
+            return outcome.warnings().stream().map(w -> WarningTexts.forPeople(w, digits)).toList();
         }
 
         /** The verdict filter's choices. */

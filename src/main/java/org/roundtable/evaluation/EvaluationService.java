@@ -12,6 +12,7 @@ import org.roundtable.platform.Timestamps;
 import org.roundtable.audit.Actor;
 import org.roundtable.audit.AuditTrail;
 import org.roundtable.platform.DomainException;
+import org.roundtable.platform.Labels;
 import org.roundtable.platform.Secrets;
 import org.roundtable.scheme.EvaluationPlan;
 import org.roundtable.scheme.PlanStore;
@@ -173,7 +174,8 @@ public class EvaluationService {
         OffsetDateTime now = OffsetDateTime.now(clock).withOffsetSameInstant(ZoneOffset.UTC);
         RoundEvaluator.Header header = new RoundEvaluator.Header(preview, codeVersion, actor.name(), now);
         RoundEvaluator.Result result = entityManager.unwrap(Session.class).doReturningWork(connection ->
-                RoundEvaluator.run(connection, context, header, measurandStep(lateUnscored, adjusted), progress));
+                RoundEvaluator.run(connection, context, header, measurandStep(lateUnscored, adjusted,
+                        reportingDigits(roundId)), progress));
         audit.record(new AuditTrail.Event(actor, preview ? "evaluation.preview" : "evaluation.run", "round",
                 Long.toString(roundId), null, result.outputsSha256(), String.format(Locale.ROOT,
                 "version %d, plan version %d, inputs %s, %d measurand(s)", result.version(), planVersion.version(),
@@ -211,7 +213,17 @@ public class EvaluationService {
 
     /** The evaluation of one measurand of one item with the round's blunder marks and qualification decisions. */
     public RoundEvaluator.Step measurandStep(boolean lateUnscored, EvaluationAdjustments.Loaded adjusted) {
-        return (mp, unit, item, results) -> evaluate(mp, unit, item, results, lateUnscored, adjusted);
+        return measurandStep(lateUnscored, adjusted, Map.of());
+    }
+
+    /**
+     * As {@link #measurandStep(boolean, EvaluationAdjustments.Loaded)}, the warnings' quantities printed at each
+     * measurand's reporting digits + 1 ({@code digits} by element; a measurand missing there: 4 significant digits).
+     */
+    public RoundEvaluator.Step measurandStep(boolean lateUnscored, EvaluationAdjustments.Loaded adjusted,
+                                             Map<String, Integer> digits) {
+        return (mp, unit, item, results) -> evaluate(mp, unit, item, results, lateUnscored, adjusted,
+                digits.get(mp.element()));
     }
 
     /**
@@ -300,7 +312,7 @@ public class EvaluationService {
 
     private EvaluationViews.MeasurandOutcome evaluate(EvaluationPlan.MeasurandPlan mp, String unit, String item,
                                                       List<Row> rows, boolean lateUnscored,
-                                                      EvaluationAdjustments.Loaded adjusted) {
+                                                      EvaluationAdjustments.Loaded adjusted, Integer digits) {
         List<Row> used = new ArrayList<>();
         Map<Long, String> excluded = new LinkedHashMap<>();
         // blunders: in `used` (they are scored) but flagged out of every statistic; reason per laboratory
@@ -362,13 +374,13 @@ public class EvaluationService {
                     assigned = consensus.assignedValue();
                     assignedU = MeasurandEvaluation.DEFAULT_COVERAGE_FACTOR * consensus.assignedValueUncertainty();
                     extra.add(new EvaluationViews.Warning("subset-consensus", String.format(Locale.ROOT,
-                            "x_pt is the Algorithm A consensus of %d result(s) of %s, u(x_pt) = 1.25·s*/√p of that"
+                            "xpt is the Algorithm A consensus of %d result(s) of %s, u(xpt) = 1.25·s*/√p of that"
                             + " subset; their own zeta and En are biased towards zero", consensus.n(),
-                            group ? "method group " + mp.methodGroup() : "the expert laboratories")));
+                            group ? "method group " + groupLabel(mp.methodGroup()) : "the expert laboratories")));
                     subsetN = consensus.n();
                 } else {
                     extra.add(new EvaluationViews.Warning("no-subset-consensus", "The subset ("
-                            + (group ? "method group " + mp.methodGroup() : "expert laboratories") + ", "
+                            + (group ? "method group " + groupLabel(mp.methodGroup()) : "expert laboratories") + ", "
                             + subset.size() + " result(s)) gives no consensus value; not scored"));
                 }
             }
@@ -429,16 +441,19 @@ public class EvaluationService {
                     components.add("u_hom");
                     components.add("u_stab");
                     extra.add(new EvaluationViews.Warning("u-hom-u-stab-added", String.format(Locale.ROOT,
-                            "u(x_pt) includes u_hom = s_s = %s %s and u_stab = |ȳ1 − ȳ2|/√3 = %s/√3 = %s %s"
-                            + " (qualification decision ADD_HOMOGENEITY_AND_STABILITY_UNCERTAINTY): u(x_pt) ="
-                            + " sqrt(u_char² + u_hom² + u_stab²) = sqrt(%s² + %s² + %s²) = %s (ISO 13528:2015, clause 7"
+                            "u(xpt) includes uhom = ss = %s %s and ustab = |ȳ1 − ȳ2|/√3 = %s/√3 = %s %s"
+                            + " (qualification decision “%s”): u(xpt) ="
+                            + " √(uchar² + uhom² + ustab²) = √(%s² + %s² + %s²) = %s %s (ISO 13528:2015, clause 7"
                             + " and Annex B; ISO Guide 35:2017; from memory)",
-                            Double.toString(ss), unit, Double.toString(decision.stabilityDifference()),
-                            Double.toString(uStab), unit, Double.toString(uChar), Double.toString(ss),
-                            Double.toString(uStab), Double.toString(combined))));
+                            WarningTexts.quantity(ss, digits), unit,
+                            WarningTexts.quantity(decision.stabilityDifference(), digits),
+                            WarningTexts.quantity(uStab, digits), unit,
+                            Labels.of("Decision", "ADD_HOMOGENEITY_AND_STABILITY_UNCERTAINTY"),
+                            WarningTexts.quantity(uChar, digits), WarningTexts.quantity(ss, digits),
+                            WarningTexts.quantity(uStab, digits), WarningTexts.quantity(combined, digits), unit)));
                 } else {
                     extra.add(new EvaluationViews.Warning("u-hom-u-stab-not-added", "The qualification decision adds"
-                            + " u_hom and u_stab to u(x_pt), but the plan's assigned value is a consensus of the round"
+                            + " uhom and ustab to u(xpt), but the plan's assigned value is a consensus of the round"
                             + " (measured on the items as they were during the round) or missing: they are not added"));
                 }
             } else if (decision.decision().equals(QualificationService.Decision.ADD_HOMOGENEITY_UNCERTAINTY.name())) {
@@ -448,26 +463,28 @@ public class EvaluationService {
                     assignedU = MeasurandEvaluation.DEFAULT_COVERAGE_FACTOR * combined;
                     components.add("u_hom");
                     extra.add(new EvaluationViews.Warning("u-hom-added", String.format(Locale.ROOT,
-                            "u(x_pt) includes u_hom = s_s = %s %s (qualification decision ADD_HOMOGENEITY_UNCERTAINTY):"
-                            + " u(x_pt) = sqrt(u_char² + u_hom²) = sqrt(%s² + %s²) = %s (ISO 13528:2015, clause 7)",
-                            Double.toString(ss), unit, Double.toString(uChar), Double.toString(ss),
-                            Double.toString(combined))));
+                            "u(xpt) includes uhom = ss = %s %s (qualification decision “%s”):"
+                            + " u(xpt) = √(uchar² + uhom²) = √(%s² + %s²) = %s %s (ISO 13528:2015, clause 7)",
+                            WarningTexts.quantity(ss, digits), unit, Labels.of("Decision", "ADD_HOMOGENEITY_UNCERTAINTY"),
+                            WarningTexts.quantity(uChar, digits), WarningTexts.quantity(ss, digits),
+                            WarningTexts.quantity(combined, digits), unit)));
                 } else {
-                    extra.add(new EvaluationViews.Warning("u-hom-not-added", "The qualification decision adds u_hom"
-                            + " to u(x_pt), but the plan's assigned value is a consensus of the round (its spread"
-                            + " already contains the items' inhomogeneity) or missing: u_hom is not added"));
+                    extra.add(new EvaluationViews.Warning("u-hom-not-added", "The qualification decision adds uhom"
+                            + " to u(xpt), but the plan's assigned value is a consensus of the round (its spread"
+                            + " already contains the items' inhomogeneity) or missing: uhom is not added"));
                 }
             } else if (sigma != null) {
                 double wide = Math.sqrt(sigma * sigma + ss * ss);
                 extra.add(new EvaluationViews.Warning("sigma-pt-widened", String.format(Locale.ROOT,
-                        "sigma_pt widened by the between-item SD (qualification decision WIDEN_SIGMA_PT):"
-                        + " sqrt(%s² + s_s²) with s_s = %s gives %s %s (ISO 13528:2015, Annex B)",
-                        Double.toString(sigma), Double.toString(ss), Double.toString(wide), unit)));
+                        "σpt widened by the between-item standard deviation ss (qualification decision “%s”):"
+                        + " √(%s² + ss²) with ss = %s %s gives %s %s (ISO 13528:2015, Annex B)",
+                        Labels.of("Decision", "WIDEN_SIGMA_PT"), WarningTexts.quantity(sigma, digits),
+                        WarningTexts.quantity(ss, digits), unit, WarningTexts.quantity(wide, digits), unit)));
                 sigma = wide;
                 widened = true;
             } else {
                 extra.add(new EvaluationViews.Warning("sigma-pt-not-widened", "The qualification decision widens"
-                        + " sigma_pt, but sigma_pt is not known before the round's data (the round's robust SD, which"
+                        + " σpt, but σpt is not known before the round's data (the round's robust SD, which"
                         + " already contains the items' inhomogeneity, or no assigned value to take it from): not"
                         + " widened"));
             }
@@ -486,7 +503,8 @@ public class EvaluationService {
         }
         if (result.scoreUsed() == ScoreKind.Z_PRIME) {
             extra.add(new EvaluationViews.Warning("uncertainty-of-assigned-value-large",
-                    "u(x_pt) > 0.3·sigma_pt: z' is used instead of z (ISO 13528:2015, 9.2.1); " + result.scoreUsedReason()));
+                    "u(xpt) > 0.3·σpt: z′ is used instead of z (ISO 13528:2015, 9.2.1); "
+                            + WarningTexts.forPeople("", result.scoreUsedReason(), digits)));
         }
         List<EvaluationViews.MethodGroupStatistics> groups = methodGroups(retained, rules);
         Double allowed = number(mp.allowedMethodGroupDifference());
@@ -498,8 +516,9 @@ public class EvaluationService {
                         - centres.stream().mapToDouble(Double::doubleValue).min().orElseThrow();
                 if (spread > allowed) {
                     extra.add(new EvaluationViews.Warning("method-groups-differ", String.format(Locale.ROOT,
-                            "The method groups' robust means differ by %s %s, more than the %s the plan allows",
-                            Double.toString(spread), unit, Double.toString(allowed))));
+                            "The method groups' robust means differ by %s %s, more than the %s %s the plan allows",
+                            WarningTexts.quantity(spread, digits), unit, WarningTexts.quantity(allowed, digits),
+                            unit)));
                 }
             }
         }
@@ -509,7 +528,8 @@ public class EvaluationService {
             if (subsetFailed && (w.code().equals("zeta-en-biased"))) {
                 continue;
             }
-            warnings.add(new EvaluationViews.Warning(w.code(), w.message()));
+            // the statistics core writes plain-text symbols (sigma_pt, u(x_pt)); people read the trade's
+            warnings.add(new EvaluationViews.Warning(w.code(), WarningTexts.forPeople(w.code(), w.message(), digits)));
         }
         warnings.addAll(extra);
 
@@ -629,7 +649,7 @@ public class EvaluationService {
             case "%" -> MassFractionUnit.PERCENT;
             case "mg/kg" -> MassFractionUnit.MILLIGRAMS_PER_KILOGRAM;
             case "g/kg" -> MassFractionUnit.GRAMS_PER_KILOGRAM;
-            default -> throw new DomainException.Conflict("Horwitz sigma_pt needs a mass fraction unit, not " + unit + ".");
+            default -> throw new DomainException.Conflict("Horwitz σpt needs a mass fraction unit, not " + unit + ".");
         };
     }
 
@@ -638,6 +658,12 @@ public class EvaluationService {
     }
 
     // ---- reading and storing ----------------------------------------------------------------------------------
+
+    /** A plan's method group as people read it (its label; the text as given where it has none). */
+    private static String groupLabel(String methodGroup) {
+        return methodGroup != null && Labels.has("MethodGroup", methodGroup) ? Labels.of("MethodGroup", methodGroup)
+                : String.valueOf(methodGroup);
+    }
 
     /** The reporting digits (decimals) of each measurand of the round's scheme, by element. */
     @Transactional

@@ -18,8 +18,9 @@ import java.util.Map;
 
 /**
  * The notices nobody's request causes: result deadlines within 7 days and within a day (laboratories without
- * results), deadlines passed with results missing (coordinators), grants ending within 14 days and ended (auditors),
- * and the purge of notices older than the kept months.
+ * results), deadlines passed with results missing (coordinators), comment periods ending within
+ * {@link NoticeSettings#commentPeriodNoticeHours()} (every laboratory of the round, once per round and laboratory),
+ * grants ending within 14 days and ended (auditors), and the purge of notices older than the kept months.
  * <p>
  * Every instance runs these checks. Like the closing of rounds at their deadline (submission.DeadlineClosing, which
  * relies on the round's row lock and state check), they are safe to run anywhere and again: each notice's
@@ -38,8 +39,11 @@ public class NoticeSchedule {
     private final EntityManager entityManager;
     private final Clock clock;
     private final Admission admission;
+    private final NoticeSettings settings;
 
-    public NoticeSchedule(NoticeService notices, EntityManager entityManager, Clock clock, Admission admission) {
+    public NoticeSchedule(NoticeService notices, EntityManager entityManager, Clock clock, Admission admission,
+                          NoticeSettings settings) {
+        this.settings = settings;
         this.admission = admission;
         this.notices = notices;
         this.entityManager = entityManager;
@@ -68,6 +72,7 @@ public class NoticeSchedule {
         OffsetDateTime now = Timestamps.now(clock);
         int created = QuarkusTransaction.requiringNew().call(() -> deadlinesAhead(now));
         created += QuarkusTransaction.requiringNew().call(() -> deadlinesPassed(now));
+        created += QuarkusTransaction.requiringNew().call(() -> commentPeriodsEnding(now));
         created += QuarkusTransaction.requiringNew().call(() -> grants(now));
         int purged = QuarkusTransaction.requiringNew().call(notices::purge);
         if (created > 0 || purged > 0) {
@@ -127,6 +132,26 @@ public class NoticeSchedule {
             params.put("missing", missing);
             params.put("codes", named);
             created += notices.notifyCoordinators(NoticeKind.DEADLINE_PASSED, "round:" + round, null, params);
+        }
+        return created;
+    }
+
+    private int commentPeriodsEnding(OffsetDateTime now) {
+        @SuppressWarnings("unchecked")
+        List<Object[]> rows = entityManager.createNativeQuery("""
+                SELECT r.id, r.code, r.comment_period_ends_at, p.laboratory_id
+                  FROM round r JOIN round_participant p ON p.round_id = r.id
+                 WHERE r.state = 'COMMENT_PERIOD' AND r.comment_period_ends_at > :now
+                   AND r.comment_period_ends_at <= :ahead
+                 ORDER BY r.id, p.laboratory_id
+                """).setParameter("now", now)
+                .setParameter("ahead", now.plusHours(settings.commentPeriodNoticeHours())).getResultList();
+        int created = 0;
+        for (Object[] r : rows) {
+            long round = ((Number) r[0]).longValue();
+            Map<String, Object> params = Map.of("round", r[1], "roundId", round, "until", Timestamps.utc(r[2]));
+            created += notices.notifyLaboratory(NoticeKind.COMMENT_PERIOD_ENDING, "comment-period:" + round,
+                    ((Number) r[3]).longValue(), params);
         }
         return created;
     }

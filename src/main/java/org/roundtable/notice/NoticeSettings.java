@@ -27,6 +27,13 @@ public interface NoticeSettings {
     @WithDefault("12")
     int keepMonths();
 
+    /**
+     * How many hours before the end of a round's comment period its laboratories are told that it is ending
+     * (env {@code ROUNDTABLE_COMMENT_PERIOD_NOTICE_HOURS}).
+     */
+    @WithDefault("48")
+    int commentPeriodNoticeHours();
+
     /** How often the scheduled checks run (deadlines, grants, the purge); {@code off} to not run them. */
     @WithDefault("5m")
     String checkInterval();

@@ -55,8 +55,9 @@ final class NoticeTexts {
                     List.of("The round coordinator answered a comment of your laboratory on the preliminary report of round "
                             + round + ". Read the answer on the round's reports page."));
             case COMMENT_PERIOD_ENDING -> new Text("Round " + round + ": the comment period is ending",
-                    List.of("The round coordinator has begun signing off the final report of round " + round + ".",
-                            "Comments on the preliminary report sent from now on may come too late to be considered."));
+                    List.of("The comment period on the preliminary report of round " + round + " ends at "
+                                    + time(p, "until", zone) + ".",
+                            "Send your laboratory's comments on the round's reports page before then."));
             case SIGN_OFF_WAITING -> new Text("Round " + round + ": a report waits for your sign-off",
                     List.of(p.getOrDefault("signer", "A coordinator") + " signed off the next report of round " + round
                             + " for evaluation run " + p.getOrDefault("version", "?") + ".",

@@ -77,6 +77,28 @@ public final class NumberFormats {
         return text;
     }
 
+    /**
+     * For people: {@code significant} significant digits (half away from zero, never an exponent, U+2212 for
+     * negatives), for numbers that are not a measurand's quantity — a share in per cent, a ratio, a p-value.
+     * {@code 0.01335989289173295} at 3 digits prints as {@code 0.0134}; {@code 1234.5} at 4 as {@code 1235}, at 3
+     * as {@code 1230}.
+     */
+    public static String significant(Double value, int significant) {
+        if (value == null || !Double.isFinite(value)) {
+            return NONE;
+        }
+        BigDecimal exact = BigDecimal.valueOf(value);
+        if (exact.signum() == 0) {
+            return "0";
+        }
+        BigDecimal rounded = exact.round(new java.math.MathContext(significant, RoundingMode.HALF_UP));
+        if (rounded.scale() < 0) {
+            rounded = rounded.setScale(0, RoundingMode.HALF_UP);
+        }
+        String text = rounded.toPlainString();
+        return text.startsWith("-") ? MINUS + text.substring(1) : text;
+    }
+
     /** A laboratory's result (or any value stated like one) at the measurand's reporting digits. */
     public static String result(Double value, int reportingDigits) {
         return decimal(value, reportingDigits);

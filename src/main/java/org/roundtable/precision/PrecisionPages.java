@@ -27,6 +27,8 @@ import org.jboss.resteasy.reactive.RestForm;
 import org.jboss.resteasy.reactive.multipart.FileUpload;
 import org.roundtable.account.CurrentUser;
 import org.roundtable.account.Role;
+import org.roundtable.platform.Confirmation;
+import org.roundtable.platform.Confirmations;
 import org.roundtable.platform.DomainException;
 import org.roundtable.platform.FormActions;
 import org.roundtable.platform.NumberFormats;
@@ -92,18 +94,21 @@ public class PrecisionPages {
     private final SubmissionService submissions;
     private final SubmissionQueries queries;
     private final CurrentUser currentUser;
+    private final Confirmations confirmations;
 
     @Context
     HttpServerRequest request;
 
     public PrecisionPages(PrecisionExperimentService studies, PrecisionReportService reports, RoundAccess rounds,
-                          SubmissionService submissions, SubmissionQueries queries, CurrentUser currentUser) {
+                          SubmissionService submissions, SubmissionQueries queries, CurrentUser currentUser,
+                          Confirmations confirmations) {
         this.studies = studies;
         this.reports = reports;
         this.rounds = rounds;
         this.submissions = submissions;
         this.queries = queries;
         this.currentUser = currentUser;
+        this.confirmations = confirmations;
     }
 
     // ---- coordinators -------------------------------------------------------------------------------------
@@ -166,11 +171,13 @@ public class PrecisionPages {
     @Consumes(MediaType.APPLICATION_FORM_URLENCODED)
     @RolesAllowed(Role.COORDINATOR_NAME)
     public Response reportStep(@PathParam("studyId") long studyId, @PathParam("step") String step,
-                               @FormParam("confirm") String confirm) {
+                               @FormParam("confirmed") String confirmed) {
+        if (!Confirmation.confirmed(confirmed)) {
+            // the second step names the consequence; only its button (confirmed=yes) takes the step
+            return FormActions.attempt(() -> confirmations.page(confirmationOf(studyId, step), null),
+                    error -> Templates.study(page(studyId), error, null));
+        }
         return act(studyId, () -> {
-            if (!"yes".equals(confirm)) {
-                throw new DomainException.BadRequest("Tick the confirmation box: this step cannot be undone.");
-            }
             return switch (step) {
                 case "draft" -> "Draft report " + reports.issueDraft(studyId, currentUser.actor()).reportId() + " is issued.";
                 case "comment-period" -> {
@@ -181,6 +188,29 @@ public class PrecisionPages {
                 default -> throw new DomainException.NotFound("The report step");
             };
         });
+    }
+
+    /** The second step of a report step of the study, naming what follows; an unknown step is "not found". */
+    private Confirmation confirmationOf(long studyId, String step) {
+        PrecisionExperimentService.StudyView study = studies.view(studyId);
+        String name = study.roundCode();
+        String action = "/precision-experiments/" + studyId + "/report/" + step;
+        String back = "/precision-experiments/" + studyId;
+        return switch (step == null ? "" : step) {
+            case "draft" -> new Confirmation("Issue the draft report of " + name + " for comment?",
+                    "The draft report is made from the latest evaluation run and every laboratory of the experiment "
+                            + "can read it. Issued reports are never changed: a later evaluation needs a new report.",
+                    action, List.of(), null, false, null, "Issue the draft report", back);
+            case "comment-period" -> new Confirmation("Open the comment period of " + name + "?",
+                    "Laboratories may comment on the draft report; after the comment period only the final report "
+                            + "can follow. The experiment does not go back to the draft.",
+                    action, List.of(), null, false, null, "Open the comment period", back);
+            case "final" -> new Confirmation("Issue the final report of " + name + "?",
+                    "The final report is made from the latest evaluation run and replaces the draft for every "
+                            + "laboratory of the experiment. It is never changed afterwards.",
+                    action, List.of(), null, false, null, "Issue the final report", back);
+            default -> throw new DomainException.NotFound("The report step");
+        };
     }
 
     /** The latest issued report in the browser (coordinators; enrolled laboratories). */

@@ -171,6 +171,24 @@ public class IssuedDocuments {
         return rows.stream().map(IssuedDocuments::read).toList();
     }
 
+    /** How many documents the round has issued (for paging {@link #pageOfRound}). */
+    @Transactional
+    public long countOfRound(long roundId) {
+        return ((Number) entityManager.createNativeQuery("SELECT count(*) FROM issued_document WHERE round_id = :v")
+                .setParameter("v", roundId).getSingleResult()).longValue();
+    }
+
+    /** One page of the round's issued documents, newest first: {@code limit} rows after the first {@code offset}. */
+    @Transactional
+    public List<IssuedDocument> pageOfRound(long roundId, int offset, int limit) {
+        @SuppressWarnings("unchecked")
+        List<Object[]> rows = entityManager.createNativeQuery(COLUMNS
+                        + "WHERE d.round_id = :v ORDER BY d.issued_at DESC, d.id DESC LIMIT :limit OFFSET :offset")
+                .setParameter("v", roundId).setParameter("limit", limit).setParameter("offset", offset)
+                .getResultList();
+        return rows.stream().map(IssuedDocuments::read).toList();
+    }
+
     /** The evaluation run (row id) a document reports, if any. */
     @Transactional
     public Optional<Long> evaluationRunOf(long documentId) {

@@ -325,7 +325,7 @@ public class ReportAssembler {
         return new MeasurandSection(id, o.element(), manyItems ? o.itemLabel() : "", o.unit(), digits, o.n(),
                 nan(o.assignedValue()), assignedValueWords(o.assignedValueMethod()), nan(o.assignedValueUncertainty()),
                 nan(o.sigmaPt()), sigmaPtWords(o.sigmaPtMethod(), o.sigmaPtSource()), robust, groups,
-                o.warnings().stream().map(EvaluationViews.Warning::message).toList(), kind,
+                o.warnings().stream().map(w -> org.roundtable.evaluation.WarningTexts.forPeople(w, digits)).toList(), kind,
                 o.scoreUsedReason(), results,
                 o.rules() == null ? org.roundtable.platform.NumberFormats.DEFAULT_SCORE_DECIMALS
                         : o.rules().decimalsOfScores());

@@ -14,7 +14,9 @@ import org.roundtable.job.JobProgress;
 import org.roundtable.job.JobService;
 import org.roundtable.notice.NoticeKind;
 import org.roundtable.notice.NoticeService;
+import org.roundtable.platform.DisplaySettings;
 import org.roundtable.platform.DomainException;
+import org.roundtable.platform.Paging;
 import org.roundtable.platform.Secrets;
 import org.roundtable.platform.Timestamps;
 import org.roundtable.report.model.LaboratoryReport;
@@ -87,11 +89,13 @@ public class ReportLifecycle {
     private final Clock clock;
     private final NoticeService notices;
     private final ReportRenderPool renderPool;
+    private final DisplaySettings display;
 
     public ReportLifecycle(EntityManager entityManager, ReportAssembler assembler, IssuedDocuments documents,
                            ReportVisibility visibility, RoundService rounds, RoundAccess roundAccess,
                            SchemeService schemes, JobService jobs, AuditorGrantService grants, AuditTrail audit,
-                           CurrentUser currentUser, Clock clock, NoticeService notices, ReportRenderPool renderPool) {
+                           CurrentUser currentUser, Clock clock, NoticeService notices, ReportRenderPool renderPool,
+                           DisplaySettings display) {
         this.entityManager = entityManager;
         this.assembler = assembler;
         this.documents = documents;
@@ -106,6 +110,7 @@ public class ReportLifecycle {
         this.clock = clock;
         this.notices = notices;
         this.renderPool = renderPool;
+        this.display = display;
     }
 
     // ---- views and requests ------------------------------------------------------------------------------
@@ -138,14 +143,24 @@ public class ReportLifecycle {
     public record RunChoice(int version, OffsetDateTime createdAt) {
     }
 
-    /** Everything about a round's reports, for its coordinators. */
+    /**
+     * Everything about a round's reports, for its coordinators; {@code documents} is one page of the issued
+     * documents, newest first ({@code documentsPaging}); the end of the comment period once it is open, with the
+     * round's time zone.
+     */
     public record Overview(long roundId, String roundCode, String state, boolean secondReviewerRequired,
                            int nextSignOffSequence, List<RunChoice> runs, List<IssueView> issues,
-                           List<SignOffView> signOffs, List<CommentView> comments, List<DocumentView> documents) {
+                           List<SignOffView> signOffs, List<CommentView> comments, List<DocumentView> documents,
+                           Paging documentsPaging, OffsetDateTime commentPeriodEndsAt, String timeZone) {
 
         /** Whether an issue job is running (its page then follows the progress by itself). */
         public boolean issuing() {
             return issues.stream().anyMatch(i -> !i.done() && "RUNNING".equals(i.jobStatus()));
+        }
+
+        /** The coordinators' page of the round's reports (the pages of the documents table link it). */
+        public String documentsPath() {
+            return "/rounds/" + roundId + "/reports";
         }
     }
 
@@ -165,7 +180,8 @@ public class ReportLifecycle {
 
     /** A laboratory's view of a round's reports: documents it may read, its own comments and their answers. */
     public record LaboratoryView(long roundId, String roundCode, String state, String participantCode,
-                                 boolean commentPeriodOpen, List<DocumentView> documents, List<CommentView> comments) {
+                                 boolean commentPeriodOpen, List<DocumentView> documents, List<CommentView> comments,
+                                 OffsetDateTime commentPeriodEndsAt, String timeZone) {
     }
 
     /** Who acts: the audit actor and the name printed on a report. */
@@ -178,11 +194,23 @@ public class ReportLifecycle {
 
     // ---- coordinators ------------------------------------------------------------------------------------
 
+    /** The overview with the first page of the issued documents. */
     @Transactional
     public Overview overview(long roundId) {
+        return overview(roundId, 1);
+    }
+
+    /**
+     * The overview with page {@code page} (null: the first) of the issued documents, counted and cut in SQL at
+     * the page-size budget.
+     */
+    @Transactional
+    public Overview overview(long roundId, Integer page) {
         RoundService.RoundView round = rounds.get(roundId);
         Map<Long, String> codes = roundAccess.participantCodes(roundId);
-        List<DocumentView> docs = documents.ofRound(roundId).stream().map(d -> view(d, codes)).toList();
+        Paging paging = Paging.of(page, display.pageSize(), documents.countOfRound(roundId));
+        List<DocumentView> docs = documents.pageOfRound(roundId, paging.offset(), paging.size()).stream()
+                .map(d -> view(d, codes)).toList();
         @SuppressWarnings("unchecked")
         List<Object[]> runRows = entityManager.createNativeQuery(
                         "SELECT version, created_at FROM evaluation_run WHERE round_id = :r AND NOT preview ORDER BY version")
@@ -190,7 +218,8 @@ public class ReportLifecycle {
         List<RunChoice> runs = runRows.stream().map(r -> new RunChoice(((Number) r[0]).intValue(), Timestamps.utc(r[1])))
                 .toList();
         return new Overview(roundId, round.code(), round.state(), schemes.secondReviewerRequired(round.schemeId()),
-                nextSequence(roundId), runs, issues(roundId), signOffs(roundId), comments(roundId, null), docs);
+                nextSequence(roundId), runs, issues(roundId), signOffs(roundId), comments(roundId, null), docs, paging,
+                rounds.commentPeriodEnd(roundId).orElse(null), round.timeZone());
     }
 
     /** Records a request to issue the preliminary reports and queues the job that issues them. */
@@ -301,8 +330,8 @@ public class ReportLifecycle {
     }
 
     /**
-     * Notices of a sign-off: the other coordinators when a second reviewer is needed; the laboratories of the round
-     * when the first sign-off of the final report ends the comment period in practice.
+     * Notices of a sign-off: the other coordinators when a second reviewer is needed. (That the comment period is
+     * ending is told by the notice checks before its end, notice.NoticeSchedule, not by a sign-off.)
      */
     private void notifySignOff(long roundId, RoundState state, int sequence, int version, boolean secondNeeded,
                                Signer signer) {
@@ -311,10 +340,6 @@ public class ReportLifecycle {
             notices.notifyCoordinators(NoticeKind.SIGN_OFF_WAITING, "sign-off:" + roundId + ":" + sequence,
                     signer.actor().name(), Map.of("round", code, "roundId", roundId, "version", version,
                             "signer", signer.displayName()));
-        }
-        if (state == RoundState.COMMENT_PERIOD && sequence == 0) {
-            notices.notifyLaboratoriesOfRound(NoticeKind.COMMENT_PERIOD_ENDING, "comment-period:" + roundId, roundId,
-                    false, Map.of("round", code, "roundId", roundId));
         }
     }
 
@@ -368,7 +393,8 @@ public class ReportLifecycle {
                         || d.kind() == DocumentKind.LABORATORY && Long.valueOf(laboratory).equals(d.laboratoryId()))
                 .map(d -> view(d, Map.of(laboratory, code))).toList();
         return new LaboratoryView(roundId, round.code(), round.state(), code,
-                RoundState.COMMENT_PERIOD.name().equals(round.state()), docs, comments(roundId, laboratory));
+                RoundState.COMMENT_PERIOD.name().equals(round.state()), docs, comments(roundId, laboratory),
+                rounds.commentPeriodEnd(roundId).orElse(null), round.timeZone());
     }
 
     /** A laboratory's comment on the preliminary round report, during the comment period. */

@@ -65,8 +65,8 @@ public class ReportPages {
     @GET
     @Path("rounds/{roundId}/reports")
     @RolesAllowed(Role.COORDINATOR_NAME)
-    public TemplateInstance roundReports(@PathParam("roundId") long roundId) {
-        return Templates.roundReports(lifecycle.overview(roundId), null, null);
+    public TemplateInstance roundReports(@PathParam("roundId") long roundId, @QueryParam("page") Integer page) {
+        return Templates.roundReports(lifecycle.overview(roundId, page), null, null);
     }
 
     @POST

@@ -7,6 +7,7 @@ import jakarta.ws.rs.POST;
 import jakarta.ws.rs.Path;
 import jakarta.ws.rs.PathParam;
 import jakarta.ws.rs.Produces;
+import jakarta.ws.rs.QueryParam;
 import jakarta.ws.rs.core.MediaType;
 import jakarta.ws.rs.core.Response;
 import org.roundtable.account.Role;
@@ -17,7 +18,8 @@ import java.util.List;
  * JSON API of a round's reports for coordinators (issue, comment period, answers, sign-off, final, amendments,
  * the issue jobs' progress) and, for reading issued documents, auditors (final and amended reports, and laboratory
  * reports of laboratories that granted them). Issuing answers 202: a background job does the work; its progress is
- * in {@code GET .../reports} under {@code issues}.
+ * in {@code GET .../reports} under {@code issues}; its {@code documents} are one page ({@code ?page=N},
+ * {@code documentsPaging}); {@code GET .../documents} lists them all.
  */
 @Path("/api/v1/rounds")
 @Produces(MediaType.APPLICATION_JSON)
@@ -32,8 +34,8 @@ public class ReportResource {
     @GET
     @Path("{roundId}/reports")
     @RolesAllowed(Role.COORDINATOR_NAME)
-    public ReportLifecycle.Overview overview(@PathParam("roundId") long roundId) {
-        return lifecycle.overview(roundId);
+    public ReportLifecycle.Overview overview(@PathParam("roundId") long roundId, @QueryParam("page") Integer page) {
+        return lifecycle.overview(roundId, page);
     }
 
     @POST

@@ -430,10 +430,27 @@ public class RoundService {
         round.state = next;
         round.stateChangedAt = now();
         entityManager.flush();
+        if (action == RoundAction.OPEN_COMMENT_PERIOD) {
+            // the period's end, from the round's length setting; the notice job tells laboratories before it
+            entityManager.createNativeQuery("UPDATE round SET comment_period_ends_at = CAST(:at AS timestamptz)"
+                    + " + comment_period_days * interval '1 day' WHERE id = :id").setParameter("at", round.stateChangedAt)
+                    .setParameter("id", roundId).executeUpdate();
+            detail = (detail == null ? "" : detail + " ") + "comment period ends " + commentPeriodEnd(roundId).orElseThrow();
+        }
         audit.record(new AuditTrail.Event(actor, "round." + action.name().toLowerCase(Locale.ROOT).replace('_', '-'),
                 "round", round.id.toString(), before, hash(round),
                 "from=" + from + " to=" + next + (detail == null ? "" : " " + detail)));
         return next;
+    }
+
+    /** When the round's comment period on the preliminary report ends, once it has been opened. */
+    @Transactional
+    public java.util.Optional<OffsetDateTime> commentPeriodEnd(long roundId) {
+        @SuppressWarnings("unchecked")
+        java.util.List<Object> rows = entityManager.createNativeQuery(
+                        "SELECT comment_period_ends_at FROM round WHERE id = :id AND comment_period_ends_at IS NOT NULL")
+                .setParameter("id", roundId).getResultList();
+        return rows.stream().findFirst().map(org.roundtable.platform.Timestamps::utc);
     }
 
     /** The round's current state, read under the round's row lock (for the report feature's checks). */

@@ -42,6 +42,48 @@ class EvaluationPagesBrowserTest {
         }
     }
 
+    @Inject
+    EvaluationService evaluations;
+
+    @Test
+    void theWarningsOfAMeasurandReadInTheTradesWordsWithNumbersAtSensibleDigits() {
+        // invented Mn results in two method groups whose centres differ by more than the plan allows; the spark OES
+        // group gives the assigned value, so u(x_pt) is large against σpt and z′ is used (three warnings at least)
+        String[] values = {"10.13", "10.21", "10.62", "11.07", "11.19"};
+        long[] labs = new long[values.length];
+        for (int i = 0; i < labs.length; i++) {
+            labs[i] = world.laboratory();
+        }
+        long round = world.round(RoundState.CLOSED, new org.roundtable.scheme.EvaluationPlan(java.util.List.of(
+                new org.roundtable.scheme.EvaluationPlan.MeasurandPlan("Mn", "CONSENSUS_METHOD_GROUP", "SPARK_OES",
+                        null, null, null, null, "FIXED", "0.5", null, null, null, null, null, null, "3", "0.3", null,
+                        null, null, null))), org.roundtable.scheme.Round.LatePolicy.REFUSE, labs);
+        for (int i = 0; i < labs.length; i++) {
+            world.reportResult(round, labs[i], "Mn", values[i], null, i < 3 ? "spark-oes" : "xrf", false);
+        }
+        EvaluationViews.Run run = evaluations.run(round, false,
+                new org.roundtable.audit.Actor("evaluation-test", "coordinator", null));
+        EvaluationViews.MeasurandOutcome mn = run.measurands().get(0);
+        assertThat(mn.warnings()).extracting(EvaluationViews.Warning::code)
+                .contains("subset-consensus", "method-groups-differ", "uncertainty-of-assigned-value-large");
+
+        browser = Browser.start();
+        Browser.signIn(browser, base, world.user("coordinator", null));
+        browser.get(base + "rounds/" + round + "/evaluation/" + run.run().version() + "/measurands/Mn-" + mn.itemLabel());
+        String warnings = browser.findElement(By.id("warnings")).getText();
+        assertThat(warnings).contains("σpt").contains("u(xpt)").contains("differ by");
+        String visible = browser.findElement(By.tagName("body")).getText();
+        java.util.regex.Matcher number = java.util.regex.Pattern.compile("\\d+\\.\\d+").matcher(visible);
+        while (number.find()) {
+            assertThat(new java.math.BigDecimal(number.group()).stripTrailingZeros().precision())
+                    .as("significant digits of %s on the page", number.group()).isLessThanOrEqualTo(6);
+        }
+        assertThat(visible).doesNotContain("sigma_pt").doesNotContainPattern("[A-Za-z]+_[A-Za-z]+");
+        ((org.openqa.selenium.JavascriptExecutor) browser).executeScript(
+                "document.getElementById('warnings').scrollIntoView(true); window.scrollBy(0, -90);");
+        Browser.screenshot(browser, "foundation/40-evaluation-warnings");
+    }
+
     @Test
     void coordinatorPreviewsTheRoundAndReadsEveryScoreWhileLaboratoriesAreRefused() {
         // invented Cr results around 18.1 %, one far off; σpt 0.10 % by the simple plan

@@ -334,7 +334,8 @@ class EvaluationRulesTest {
         assertThat(cr.warnings()).extracting(EvaluationViews.Warning::code).contains("u-hom-added",
                 "uncertainty-of-assigned-value-large");
         assertThat(cr.warnings().stream().filter(w -> w.code().equals("u-hom-added")).findFirst().orElseThrow()
-                .message()).contains("u_hom = s_s = 0.0116904");
+                .message()).contains("uhom = ss = 0.012 %") // s_s at Cr's 2 reporting digits + 1
+                .contains("“Add the homogeneity uncertainty to u(xpt)”").doesNotContain("u_hom", "_UNCERTAINTY");
         assertThat(cr.rules().qualificationDecision()).isEqualTo("ADD_HOMOGENEITY_UNCERTAINTY");
         assertThat(cr.rules().assignedValueUncertaintyComponents()).containsExactly("u_char", "u_hom");
     }
@@ -389,8 +390,8 @@ class EvaluationRulesTest {
         assertThat(cr.warnings()).extracting(EvaluationViews.Warning::code).contains("u-hom-u-stab-added")
                 .doesNotContain("u-hom-added");
         assertThat(cr.warnings().stream().filter(w -> w.code().equals("u-hom-u-stab-added")).findFirst().orElseThrow()
-                .message()).contains("u_hom = s_s = 0.0116904").contains("u_stab = |ȳ1 − ȳ2|/√3 = 0.01")
-                .contains("= 0.0063508");
+                .message()).contains("uhom = ss = 0.012 %").contains("ustab = |ȳ1 − ȳ2|/√3 = 0.01")
+                .contains("= 0.006 %").doesNotContain("u_stab", "0.0063508");
         assertThat(cr.rules().qualificationDecision()).isEqualTo("ADD_HOMOGENEITY_AND_STABILITY_UNCERTAINTY");
         assertThat(cr.rules().assignedValueUncertaintyComponents()).containsExactly("u_char", "u_hom", "u_stab");
         // the decision is kept in the run's inputs: s_s, then |ȳ1 − ȳ2| as a fifth field

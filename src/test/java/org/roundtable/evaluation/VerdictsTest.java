@@ -133,7 +133,7 @@ class VerdictsTest {
         EvaluationViews.MeasurandOutcome mn = evaluations.run(round, false, COORDINATOR).measurands().get(0);
 
         assertThat(mn.warnings()).filteredOn(w -> w.code().equals("below-minimum")).singleElement()
-                .satisfies(w -> assertThat(w.message()).contains("reference or certified value", "fixed sigma_pt",
+                .satisfies(w -> assertThat(w.message()).contains("reference or certified value", "fixed σpt",
                         "information only"));
         assertThat(mn.scores()).allSatisfy(s -> {
             assertThat(s.z()).isNull();

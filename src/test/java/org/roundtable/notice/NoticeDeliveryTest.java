@@ -203,6 +203,95 @@ class NoticeDeliveryTest {
         assertThat(mailbox.to(address(auditor))).hasSize(2);
     }
 
+    @Test
+    void theEndOfACommentPeriodIsToldOnceToEachLaboratoryTwoDaysBeforeInTheReadersZone() throws Exception {
+        long first = world.laboratory();
+        long second = world.laboratory();
+        String berlin = person("lab-member", first, "Europe/Berlin");
+        String plain = person("lab-manager", second, null);
+        long round = world.round(RoundState.COMMENT_PERIOD, first, second);
+        String code = world.text("SELECT code FROM round WHERE id = ?", round);
+
+        // three days before the end: too early (the notice goes 48 hours before, the tests' and default setting)
+        world.sql("UPDATE round SET comment_period_ends_at = now() + interval '3 days' WHERE id = ?", round);
+        checkOnTwoInstances();
+        sendMail();
+        assertThat(mailbox.to(address(berlin))).isEmpty();
+
+        // within two days of the end: each laboratory once, although two instances check twice
+        world.sql("UPDATE round SET comment_period_ends_at = now() + interval '36 hours' WHERE id = ?", round);
+        Instant end = Instant.parse(world.text("SELECT to_char(comment_period_ends_at AT TIME ZONE 'UTC', "
+                + "'YYYY-MM-DD\"T\"HH24:MI:SS\"Z\"') FROM round WHERE id = ?", round));
+        checkOnTwoInstances();
+        checkOnTwoInstances();
+        sendMail();
+        assertThat(mailbox.to(address(berlin))).singleElement().satisfies(m -> {
+            assertThat(m.subject()).isEqualTo("Roundtable: Round " + code + ": the comment period is ending");
+            assertThat(m.text()).contains("ends at " + inZone(end, "Europe/Berlin"))
+                    .contains("/my-rounds/" + round + "/reports");
+            assertThat(m.html()).contains(inZone(end, "Europe/Berlin"));
+        });
+        assertThat(mailbox.to(address(plain))).singleElement()
+                .satisfies(m -> assertThat(m.text()).contains(inZone(end, "UTC")));
+        assertThat(world.text("SELECT count(*)::text FROM notice WHERE kind = 'comment-period-ending' AND object_key = ?",
+                "comment-period:" + round)).isEqualTo("2");
+
+        // a comment period that has ended already is not announced
+        long late = world.laboratory();
+        String lateMember = person("lab-member", late, "Europe/Berlin");
+        long ended = world.round(RoundState.COMMENT_PERIOD, late);
+        world.sql("UPDATE round SET comment_period_ends_at = now() - interval '1 hour' WHERE id = ?", ended);
+        checkOnTwoInstances();
+        sendMail();
+        assertThat(mailbox.to(address(lateMember))).isEmpty();
+    }
+
+    @Test
+    void aDeadlineWithinADayAGrantGivenAndAGrantEndingNameTheTimeInTheRecipientsZone() {
+        // the three timed kinds the tests above check only by subject: the time in the reader's own zone, named,
+        // in the e-mail's text and HTML and in the notice list
+        long lab = world.laboratory();
+        String manager = person("lab-manager", lab, "Asia/Tokyo");
+        long round = world.round(RoundState.OPEN_FOR_RESULTS, lab);
+        world.sql("UPDATE round SET result_deadline = now() + interval '12 hours' WHERE id = ?", round);
+        schedule.runChecks();
+        sendMail();
+        Instant deadline = deadline(round);
+        assertThat(mailbox.to(address(manager))).singleElement().satisfies(m -> {
+            assertThat(m.subject()).contains("results due within a day");
+            assertThat(m.text()).contains(inZone(deadline, "Asia/Tokyo"));
+            assertThat(m.html()).contains(inZone(deadline, "Asia/Tokyo"));
+        });
+        assertThat(world.signIn(manager).request().get("/notices").then().statusCode(200).extract().asString())
+                .contains(inZone(deadline, "Asia/Tokyo"));
+
+        String auditor = person("auditor", null, "Pacific/Auckland");
+        long auditorId = world.userId(auditor);
+        long ending = world.grant(lab, auditor);
+        world.sql("UPDATE auditor_grant SET granted_at = now() - interval '60 days', valid_until = now() + interval '10 days' WHERE id = ?", ending);
+        Instant until = Instant.parse(world.text("SELECT to_char(valid_until AT TIME ZONE 'UTC', "
+                + "'YYYY-MM-DD\"T\"HH24:MI:SS\"Z\"') FROM auditor_grant WHERE id = ?", ending));
+        String name = world.text("SELECT name FROM laboratory WHERE id = ?", lab);
+        Instant given = Instant.parse("2027-06-30T22:00:00Z"); // 2027-07-01 10:00 in Auckland (NZST, UTC+12)
+        QuarkusTransaction.requiringNew().run(() -> notices.notify(NoticeKind.GRANT_GIVEN, "grant:zone-" + ending,
+                auditorId, Map.of("laboratory", name, "until", given)));
+        schedule.runChecks();
+        sendMail();
+        List<Mailbox.Message> toAuditor = mailbox.to(address(auditor));
+        assertThat(toAuditor).hasSize(2);
+        assertThat(toAuditor).anySatisfy(m -> {
+            assertThat(m.subject()).contains(name + " gave you access");
+            assertThat(m.text()).contains("2027-07-01 10:00 Pacific/Auckland");
+            assertThat(m.html()).contains("2027-07-01 10:00 Pacific/Auckland");
+        });
+        assertThat(toAuditor).anySatisfy(m -> {
+            assertThat(m.subject()).contains("Your access to " + name + " ends soon");
+            assertThat(m.text()).contains(inZone(until, "Pacific/Auckland"));
+        });
+        assertThat(world.signIn(auditor).request().get("/notices").then().statusCode(200).extract().asString())
+                .contains("2027-07-01 10:00 Pacific/Auckland").contains(inZone(until, "Pacific/Auckland"));
+    }
+
     private void checkOnTwoInstances() throws Exception {
         ExecutorService pool = Executors.newFixedThreadPool(2);
         try {

@@ -58,6 +58,10 @@ class NoticeOutboxTest {
             public String checkInterval() {
                 return settings.checkInterval();
             }
+
+            public int commentPeriodNoticeHours() {
+                return settings.commentPeriodNoticeHours();
+            }
         };
     }
 

@@ -39,6 +39,19 @@ class NumberFormatsTest {
         assertEquals(NumberFormats.NONE, NumberFormats.decimal(Double.NaN, 2));
     }
 
+    @ParameterizedTest(name = "{0} at {1} significant digits prints {2}")
+    @CsvSource({
+            "0.01335989289173295, 3, 0.0134",
+            "12.5, 2, 13",
+            "1234.5, 4, 1235",
+            "1234.5, 3, 1230",
+            "-0.000123456, 2, \u22120.00012",
+            "40.0, 3, 40.0",
+    })
+    void sharesAndRatiosPrintWithSignificantDigits(double value, int significant, String expected) {
+        assertEquals(expected, NumberFormats.significant(value, significant));
+    }
+
     @Test
     void signedScoresShowPlusOnlyAboveZero() {
         assertEquals("+1.25", NumberFormats.signedScore(1.25, 2));

@@ -20,7 +20,7 @@ import org.roundtable.testing.World;
 /**
  * In Chromium: a laboratory enters its replicates on its study page; the coordinator evaluates, sees the planted
  * straggler and outlier flagged at their levels, excludes the outlier with a reason, evaluates again, issues the
- * draft report behind its confirmation and reads it; the laboratory reads the draft. Screenshots under
+ * draft report behind its second step (the confirm tag) and reads it; the laboratory reads the draft. Screenshots under
  * target/screenshots/precision/.
  */
 @QuarkusTest
@@ -107,13 +107,25 @@ class PrecisionPagesBrowserTest {
         scrollTo("decisions");
         Browser.screenshot(browser, "precision/coordinator-after-decision");
 
-        // issuing is irreversible: refused without the confirmation box (the browser's required check is bypassed here)
+        // issuing is irreversible: with htmx the first button opens the second step in a dialog that names the
+        // consequence; keeping things as they are issues nothing
+        browser.findElement(By.cssSelector("button[data-action=report-draft]")).click();
+        Browser.waitFor(browser, By.cssSelector("#confirm-dialog[open] #confirm-consequence"));
+        assertThat(browser.findElement(By.cssSelector("#confirm-dialog #confirm-consequence")).getText())
+                .contains("every laboratory of the experiment can read it");
+        Browser.screenshot(browser, "foundation/30-precision-draft-dialog");
+        browser.findElement(By.cssSelector("#confirm-dialog #confirm-back")).click();
+        assertThat(browser.findElements(By.cssSelector("#confirm-dialog[open]"))).isEmpty();
+        assertThat(world.text("SELECT count(*)::text FROM issued_document WHERE round_id = ?", id)).isEqualTo("0");
+        // without JavaScript the first post answers the second step as a page of its own; its button issues
+        org.openqa.selenium.WebElement before = browser.findElement(By.tagName("html"));
         ((org.openqa.selenium.JavascriptExecutor) browser).executeScript(
-                "document.getElementById('confirm-draft').removeAttribute('required')");
-        Browser.submit(browser, By.cssSelector("#step-draft button[type=submit]"));
-        Browser.waitFor(browser, By.cssSelector("p.notice-error"));
-        browser.findElement(By.id("confirm-draft")).click();
-        Browser.submit(browser, By.cssSelector("#step-draft button[type=submit]"));
+                "document.querySelector('button[data-action=report-draft]').form.submit();");
+        new org.openqa.selenium.support.ui.WebDriverWait(browser, java.time.Duration.ofSeconds(20))
+                .until(org.openqa.selenium.support.ui.ExpectedConditions.stalenessOf(before));
+        assertThat(browser.findElement(By.id("confirm-title")).getText()).startsWith("Issue the draft report of");
+        Browser.screenshot(browser, "foundation/31-precision-draft-second-step");
+        Browser.submit(browser, By.id("confirm-do"));
         Browser.waitFor(browser, By.cssSelector("p.notice-ok"));
         assertThat(browser.findElement(By.cssSelector("p.notice-ok")).getText()).contains("Draft report");
         browser.get(home + "precision-experiments/" + id + "/report");

@@ -84,9 +84,17 @@ class ReportPagesBrowserTest {
         assertThat(browser.findElement(By.id("documents")).getText()).contains(code + "-R-P1");
         submit(By.id("open-comment-period"));
         assertThat(browser.findElement(By.id("round-state")).getText()).isEqualTo("Comment period");
+        String zone = world.text("SELECT deadline_time_zone FROM round WHERE id = ?", round);
+        assertThat(browser.findElement(By.id("comment-period-end")).getText()).startsWith("The comment period ends")
+                .contains(zone);
         signOut();
 
         signIn(member, labPage);
+        assertThat(browser.findElement(By.id("comment-period-end")).getText()).startsWith("The comment period ends")
+                .contains(zone);
+        ((org.openqa.selenium.JavascriptExecutor) browser).executeScript(
+                "document.getElementById('comment-period-end').scrollIntoView(true); window.scrollBy(0, -120);");
+        Browser.screenshot(browser, "notices/10-comment-period-end-laboratory");
         assertThat(browser.findElement(By.id("my-documents")).getText()).contains(code + "-R-P1").contains("your laboratory report");
         browser.findElement(By.id("comment-body")).sendKeys("Please confirm the Cr assigned value.");
         browser.findElement(By.id("send-comment")).click();
@@ -201,6 +209,47 @@ class ReportPagesBrowserTest {
         assertThat(browser.findElement(By.id("verify-newer")).getAttribute("href")).contains("/verify?sha256=");
         Browser.screenshot(browser, "auditor/02-verify-superseded");
         java.nio.file.Files.deleteIfExists(file);
+    }
+
+    @Test
+    void theIssuedDocumentsArePagedNewestFirstAndThePageLinksReachTheOlderOnes() {
+        browser = Browser.start();
+        long[] ids = ReportAssemblerTest.evaluatedRound(world, evaluations);
+        long round = ids[0];
+        String code = world.text("SELECT code FROM round WHERE id = ?", round);
+        lifecycle.publishWithoutJobs(round, 1, "", new ReportLifecycle.Signer(
+                new org.roundtable.audit.Actor("browser-test", "coordinator", null), "Dr. Test Coordinator"));
+        long total = Long.parseLong(world.text("SELECT count(*)::text FROM issued_document WHERE round_id = ?", round));
+        assertThat(total).as("a preliminary and a final report for each of 10 laboratories and for the round")
+                .isEqualTo(22);
+        String page = "/rounds/" + round + "/reports";
+        signIn(world.user("coordinator", null), page);
+
+        java.util.List<String> first = documentRows();
+        assertThat(first).hasSize(5); // the tests' page-size budget
+        assertThat(first.get(0)).as("the newest document first").contains(code + "-R-F");
+        assertThat(browser.findElement(By.cssSelector(".pager")).getText()).contains("Rows 1–5 of 22.")
+                .contains("Page 1 of 5");
+
+        Browser.submit(browser, By.cssSelector(".pager a[rel=next]"));
+        assertThat(browser.getCurrentUrl()).endsWith(page + "?page=2");
+        java.util.List<String> second = documentRows();
+        assertThat(second).hasSize(5).doesNotContainAnyElementsOf(first)
+                .allSatisfy(row -> assertThat(row).contains("Final"));
+        assertThat(browser.findElement(By.cssSelector(".pager")).getText()).contains("Rows 6–10 of 22.")
+                .contains("Page 2 of 5");
+        ((org.openqa.selenium.JavascriptExecutor) browser).executeScript(
+                "document.getElementById('documents').scrollIntoView(true); window.scrollBy(0, -90);");
+        Browser.screenshot(browser, "foundation/20-report-documents-page-2");
+
+        browser.get(base + page.substring(1) + "?page=5");
+        assertThat(documentRows()).hasSize(2).allSatisfy(row -> assertThat(row).contains("-P1").contains("Preliminary"));
+        assertThat(browser.findElements(By.cssSelector(".pager a[rel=next]"))).isEmpty();
+    }
+
+    private java.util.List<String> documentRows() {
+        return browser.findElements(By.cssSelector("#documents tbody tr")).stream()
+                .map(org.openqa.selenium.WebElement::getText).toList();
     }
 
     /** Submits a form by its button, waits for the answering page, then for its success notice. */
