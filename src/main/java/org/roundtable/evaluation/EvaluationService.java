@@ -448,7 +448,7 @@ public class EvaluationService {
             } else if (sigma != null) {
                 double wide = Math.sqrt(sigma * sigma + ss * ss);
                 extra.add(new EvaluationViews.Warning("sigma-pt-widened", String.format(Locale.ROOT,
-                        "sigma_pt widened by the between-item SD (qualification decision WIDEN_SIGMA_PT):"
+                        "sigma_pt widened by the between-item SD (qualification decision: widen σpt):"
                         + " sqrt(%s² + s_s²) with s_s = %s gives %s %s (ISO 13528:2015, Annex B)",
                         Double.toString(sigma), Double.toString(ss), Double.toString(wide), unit)));
                 sigma = wide;
