@@ -158,7 +158,9 @@ class CoordinatorGuideBrowserTest {
             assertThat(walk.text(By.cssSelector(".comment .answer"))).contains("cannot change");
 
             // task 11: sign off, issue the final report
+            new Select(walk.find(By.id("sign-version"))).selectByVisibleText("run 2");
             walk.clickForNotice(By.id("sign-off"));
+            assertThat(walk.find(By.cssSelector("#sign-offs tbody tr td:nth-child(2)")).getText()).isEqualTo("2");
             assertThat(walk.text(By.id("sign-offs"))).contains("Marta Ilves");
             walk.click(By.id("issue-final"));
             walk.clickForNotice(By.id("confirm-do"));
@@ -166,7 +168,7 @@ class CoordinatorGuideBrowserTest {
             walk.open("/rounds/" + roundId + "/reports");
             assertThat(walk.text(By.id("round-state"))).isEqualTo("Final report issued");
             assertThat(walk.text(By.id("documents"))).contains(code + "-R-F");
-            walk.show(By.id("documents"));
+            walk.top();
             walk.image("12-final");
         }
     }
