@@ -42,7 +42,8 @@ import org.roundtable.submission.DemoSubmissions;
  * Problems planted where a user would meet them: carbon by spark OES reads about 0.02 % higher than by
  * combustion (a method-group difference, flagged); in the second round Dunmore enters sulfur in mg/kg as % ("87"
  * instead of 0.0087) and confirms the range warning — an outlier; in the third round Salzach slips a decimal in Mn;
- * in the first round Mures reports five hours late (flagged, not scored); in the second round Ebro does not report;
+ * in the open round Veldhaven slips a decimal in Ni (inside the expected range, so nothing warns; the blunder the
+ * coordinator guide marks); in the first round Mures reports five hours late (flagged, not scored); in the second round Ebro does not report;
  * "less than" results for V (two consistent, one not); Pomorze's Mn drifts from questionable to unsatisfactory over
  * the three rounds, and its corrective action is recorded after the third; each round has homogeneity data for Mn
  * and one marginal measurand, for which the coordinator decides to widen σpt by s_s.
@@ -105,6 +106,7 @@ public class DemoScenario {
     static final int DECIMAL_SLIP_LAB = 12;     // Salzach: Mn ×10, third round
     static final int LATE_LAB = 17;             // Mures: five hours late, first round
     static final int MISSING_LAB = 19;          // Ebro: no results in the second round
+    static final int BLUNDER_LAB = 11;          // Veldhaven: Ni ×10 in the open round (the coordinator guide's blunder)
 
     private final DemoSchemes schemes;
     private final DemoSubmissions submissions;
@@ -262,6 +264,9 @@ public class DemoScenario {
             }
             if (r == 2 && lab == DECIMAL_SLIP_LAB && m.element().equals("Mn")) {
                 text = round(value * 10, m.digits() - 1);
+            }
+            if (r == 3 && lab == BLUNDER_LAB && m.element().equals("Ni")) {
+                text = round(value * 10, m.digits() - 1); // inside the expected range: no warning stops it
             }
             boolean withUncertainty = lab % 3 == 0 && !text.startsWith("<");
             out.add(new DemoSubmissions.Result(m.element(), m.unit(), text, method,

@@ -81,6 +81,9 @@ class DemoScenarioStepsTest {
         assertThat(Double.parseDouble(sulfur)).as("mg/kg typed as %").isGreaterThan(10);
         String manganese = value(DemoScenario.steelResults(2, DemoScenario.DECIMAL_SLIP_LAB), "Mn");
         assertThat(Double.parseDouble(manganese)).as("a decimal slipped").isGreaterThan(5);
+        String nickel = value(DemoScenario.steelResults(3, DemoScenario.BLUNDER_LAB), "Ni");
+        assertThat(Double.parseDouble(nickel)).as("a decimal slipped, inside the range 0.006–5.0").isBetween(1.0, 5.0);
+        assertThat(DemoScenario.OPEN_ROUND_REPORTED).contains(DemoScenario.BLUNDER_LAB);
         assertThat(value(DemoScenario.steelResults(0, 4), "V")).isEqualTo("<0.005");
         assertThat(value(DemoScenario.steelResults(0, 20), "V")).isEqualTo("<0.002");
         // the drifting laboratory's Mn bias grows over the past rounds: 0.047, 0.055, 0.069 against σpt 0.020

@@ -169,9 +169,14 @@ public final class Browser {
      * tests' password, and waits until the browser has left the sign-in page.
      */
     public static void signIn(WebDriver driver, Object base, String username) {
+        signIn(driver, base, username, World.PASSWORD);
+    }
+
+    /** As {@link #signIn(WebDriver, Object, String)} with the given password (the demo's, for instance). */
+    public static void signIn(WebDriver driver, Object base, String username, String password) {
         driver.get(base + "login");
         driver.findElement(org.openqa.selenium.By.id("username")).sendKeys(username);
-        driver.findElement(org.openqa.selenium.By.id("password")).sendKeys(World.PASSWORD);
+        driver.findElement(org.openqa.selenium.By.id("password")).sendKeys(password);
         submit(driver, org.openqa.selenium.By.cssSelector("form[action='/login'] button[type=submit]"));
         waitForUrl(driver, url -> !url.contains("/login"));
     }
@@ -185,6 +190,27 @@ public final class Browser {
             Files.write(file, png);
         } catch (IOException e) {
             throw new IllegalStateException("could not save screenshot " + name, e);
+        }
+    }
+
+    /**
+     * A screenshot for a guide in docs/: saved as {@link #screenshot} does under target/screenshots/guides/, and,
+     * when the system property {@code guides.images} names a folder (mvn test -Dguides.images=docs/images), also
+     * as {@code <folder>/<guide>/<name>.png}, the image the guide links.
+     */
+    public static void guideImage(WebDriver driver, String guide, String name) {
+        screenshot(driver, "guides/" + guide + "/" + name);
+        String folder = System.getProperty("guides.images");
+        if (folder == null || folder.isBlank()) {
+            return;
+        }
+        try {
+            Path target = Path.of(folder, guide, name + ".png");
+            Files.createDirectories(target.getParent());
+            Files.copy(Path.of("target", "screenshots", "guides", guide, name + ".png"), target,
+                    java.nio.file.StandardCopyOption.REPLACE_EXISTING);
+        } catch (IOException e) {
+            throw new IllegalStateException("could not copy the guide image " + name, e);
         }
     }
 
