@@ -146,7 +146,7 @@ class NegativeResultsTest {
         assertThat(mn.assignedValue()).isNegative();
         assertThat(mn.sigmaPt()).isNull();
         assertThat(mn.warnings()).filteredOn(w -> w.code().equals("no-sigma-pt")).singleElement()
-                .satisfies(w -> assertThat(w.message()).contains("Horwitz", "not defined", "fixed sigma_pt"));
+                .satisfies(w -> assertThat(w.message()).contains("Horwitz", "not defined", "fixed σpt"));
         assertThat(mn.warnings()).noneMatch(w -> w.code().equals("sigma-pt-data-derived"));
         assertThat(mn.scores()).allSatisfy(s -> {
             assertThat(s.z()).isNull();
