@@ -40,8 +40,9 @@ import java.util.Map;
  */
 public final class HistoryBenchmark {
 
-    static final int LABS = Integer.getInteger("bench.labs", 1_000);
-    static final int ROUNDS = Integer.getInteger("bench.rounds", 40);
+    public static final int LABS = Integer.getInteger("bench.labs", 1_000);
+    public static final int ROUNDS = Integer.getInteger("bench.rounds", 40);
+    public static final String SCHEME_NAME = "Low-alloy steel by spark OES";
     static final String[] ELEMENTS = {"C", "Si", "Mn", "P", "S", "Cr", "Ni", "Mo", "Cu", "V", "Ti", "Nb", "Al", "B", "N"};
 
     private HistoryBenchmark() {
@@ -229,15 +230,19 @@ public final class HistoryBenchmark {
         return "\"" + s.replace("\\", "\\\\").replace("\"", "\\\"").replace("\n", "\\n") + "\"";
     }
 
-    /** One scheme (id 1), ROUNDS publications (document id = round id), LABS × ROUNDS × 15 scores, the field summary. */
-    private static void fill(Connection c) throws Exception {
+    /**
+     * One scheme (id 1), ROUNDS publications (document id = round id), LABS × ROUNDS × 15 scores (laboratory ids 1 to
+     * LABS), the field summary; commits and analyses. Also used by the pages benchmark's history part, which times the
+     * real pages over HTTP.
+     */
+    public static void fill(Connection c) throws Exception {
         c.setAutoCommit(false);
         String elements = "ARRAY['" + String.join("','", ELEMENTS) + "']";
         try (Statement s = c.createStatement()) {
             s.execute("SET session_replication_role = replica");
             s.execute("INSERT INTO history_publication (document_id, round_id, scheme_id, scheme_name, round_code, report_id, "
                     + "status, report_sha256, evaluation_run_id, evaluation_version, issued_at) "
-                    + "SELECT r, r, 1, 'Low-alloy steel by spark OES', 'LAS-' || r, 'RT-LAS-' || r, 'FINAL', "
+                    + "SELECT r, r, 1, '" + SCHEME_NAME + "', 'LAS-' || r, 'RT-LAS-' || r, 'FINAL', "
                     + "md5(r::text) || md5((r + 1)::text), r, 1, timestamptz '2016-01-15' + (r * interval '91 days') "
                     + "FROM generate_series(1, " + ROUNDS + ") r");
             // z follows a smooth pseudo-random pattern per laboratory, round and measurand, |z| mostly below 3
