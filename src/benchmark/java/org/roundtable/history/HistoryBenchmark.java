@@ -21,7 +21,8 @@ import java.util.Map;
 
 /**
  * The history page and the field view against PostgreSQL at the sizes of issue 18 (server time without the
- * template's rendering).
+ * template's rendering; the real pages through HTTP are timed by the pages benchmark's history part,
+ * {@code PagesBenchmark history}, on {@link #fill}).
  *
  * <p>Starts an embedded PostgreSQL 17, runs the real migrations and fills the history's tables (not timed) for one
  * scheme of {@code bench.labs} (default 1,000) laboratories × {@code bench.rounds} (40: ten years of four rounds) ×

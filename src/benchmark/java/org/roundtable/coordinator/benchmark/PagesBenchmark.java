@@ -289,6 +289,10 @@ public final class PagesBenchmark {
                 throw new IllegalStateException(page.path() + " does not show " + page.marker());
             }
             bytes = answer.body().length;
+            if (i == runs - 1 && Boolean.getBoolean("bench.keepHtml")) {
+                // -Dbench.keepHtml=true: the last answer of each page beside pages.json, to see where its size goes
+                Files.write(Path.of(page.name().replaceAll("[^A-Za-z0-9]+", "-") + ".html"), answer.body());
+            }
             if (i >= 0) {
                 millis[i] = ms;
             }
