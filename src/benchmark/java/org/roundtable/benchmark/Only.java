@@ -8,7 +8,7 @@ import java.util.Locale;
  * Runs one benchmark of the {@code benchmark} profile unless {@code -Dbench.only=name[,name...]} names others:
  * {@code Only <name> <main class> <arguments...>}. Every execution of the profile starts through it, so
  * {@code mvn -Pbenchmark verify -Dbench.only=pages} runs the pages benchmark alone. Names: statistics, reports,
- * audit-chain, evaluation, evaluate-cli, history, faults, submissions, pages.
+ * audit-chain, evaluation, evaluate-cli, history, faults, submissions, pages, history-pages.
  */
 public final class Only {
 

@@ -21,7 +21,8 @@ import java.util.Map;
 
 /**
  * The history page and the field view against PostgreSQL at the sizes of issue 18 (server time without the
- * template's rendering).
+ * template's rendering; the real pages through HTTP are timed by the pages benchmark's history part,
+ * {@code PagesBenchmark history}, on {@link #fill}).
  *
  * <p>Starts an embedded PostgreSQL 17, runs the real migrations and fills the history's tables (not timed) for one
  * scheme of {@code bench.labs} (default 1,000) laboratories × {@code bench.rounds} (40: ten years of four rounds) ×
@@ -40,8 +41,9 @@ import java.util.Map;
  */
 public final class HistoryBenchmark {
 
-    static final int LABS = Integer.getInteger("bench.labs", 1_000);
-    static final int ROUNDS = Integer.getInteger("bench.rounds", 40);
+    public static final int LABS = Integer.getInteger("bench.labs", 1_000);
+    public static final int ROUNDS = Integer.getInteger("bench.rounds", 40);
+    public static final String SCHEME_NAME = "Low-alloy steel by spark OES";
     static final String[] ELEMENTS = {"C", "Si", "Mn", "P", "S", "Cr", "Ni", "Mo", "Cu", "V", "Ti", "Nb", "Al", "B", "N"};
 
     private HistoryBenchmark() {
@@ -229,15 +231,19 @@ public final class HistoryBenchmark {
         return "\"" + s.replace("\\", "\\\\").replace("\"", "\\\"").replace("\n", "\\n") + "\"";
     }
 
-    /** One scheme (id 1), ROUNDS publications (document id = round id), LABS × ROUNDS × 15 scores, the field summary. */
-    private static void fill(Connection c) throws Exception {
+    /**
+     * One scheme (id 1), ROUNDS publications (document id = round id), LABS × ROUNDS × 15 scores (laboratory ids 1 to
+     * LABS), the field summary; commits and analyses. Also used by the pages benchmark's history part, which times the
+     * real pages over HTTP.
+     */
+    public static void fill(Connection c) throws Exception {
         c.setAutoCommit(false);
         String elements = "ARRAY['" + String.join("','", ELEMENTS) + "']";
         try (Statement s = c.createStatement()) {
             s.execute("SET session_replication_role = replica");
             s.execute("INSERT INTO history_publication (document_id, round_id, scheme_id, scheme_name, round_code, report_id, "
                     + "status, report_sha256, evaluation_run_id, evaluation_version, issued_at) "
-                    + "SELECT r, r, 1, 'Low-alloy steel by spark OES', 'LAS-' || r, 'RT-LAS-' || r, 'FINAL', "
+                    + "SELECT r, r, 1, '" + SCHEME_NAME + "', 'LAS-' || r, 'RT-LAS-' || r, 'FINAL', "
                     + "md5(r::text) || md5((r + 1)::text), r, 1, timestamptz '2016-01-15' + (r * interval '91 days') "
                     + "FROM generate_series(1, " + ROUNDS + ") r");
             // z follows a smooth pseudo-random pattern per laboratory, round and measurand, |z| mostly below 3

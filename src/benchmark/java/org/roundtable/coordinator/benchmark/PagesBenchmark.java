@@ -10,6 +10,7 @@ import org.roundtable.audit.AuditEntry;
 import org.roundtable.evaluation.EvaluationService;
 import org.roundtable.evaluation.RoundEvaluator;
 import org.roundtable.evaluation.benchmark.EvaluationBenchmark;
+import org.roundtable.history.HistoryBenchmark;
 import org.roundtable.platform.EmbeddedDatabase;
 import org.roundtable.platform.Secrets;
 
@@ -60,6 +61,10 @@ import java.util.regex.Pattern;
  * processes ({@code databaseCpuMillis}) used per request, from {@code /proc}: on a shared machine the wall-clock time
  * waits for the cores, the CPU time much less.
  *
+ * <p>With the argument {@code history} (execution {@code run-history-pages-benchmark}, {@code -Dbench.only=history-pages})
+ * it times the history page and the field view of issue 18 instead, on a database of their own
+ * ({@link #historyPages}).
+ *
  * <p>Writes {@code pages.json} in the working directory ({@code target/benchmarks} under {@code -Pbenchmark}): a list
  * of {@code {name, serverMillis, htmlKiB}} with the path, the fastest and slowest run and the load average.
  */
@@ -70,6 +75,8 @@ public final class PagesBenchmark {
     static final int AUDIT_ENTRIES = Integer.getInteger("bench.auditEntries", 1_000_000);
     static final int WARM_UPS = Integer.getInteger("bench.pageWarmUps", 20);
     static final int RUNS = 15;
+    /** Timed runs of each history page (more than {@link #RUNS}, so that the p95 is not simply the slowest run). */
+    static final int HISTORY_RUNS = Integer.getInteger("bench.historyRuns", 40);
     static final String USERNAME = "bench-coordinator";
 
     private PagesBenchmark() {
@@ -83,6 +90,10 @@ public final class PagesBenchmark {
         Path jar = Path.of(System.getProperty("bench.jar", "../quarkus-app/quarkus-run.jar")).toAbsolutePath();
         if (!Files.exists(jar)) {
             throw new IllegalStateException("package the application first: " + jar);
+        }
+        if (args.length > 0 && args[0].equals("history")) {
+            historyPages(jar);
+            return;
         }
         Path work = Files.createTempDirectory("roundtable-pages-bench");
         int dbPort = freePort();
@@ -145,23 +156,95 @@ public final class PagesBenchmark {
                 pages.add(new Page("audit page, older entries", "/audit?before=500000", "audit-entries"));
                 List<Map<String, Object>> figures = new ArrayList<>();
                 for (Page page : pages) {
-                    figures.add(time(client, base, page, token, app.pid(), postmasterPid(work.resolve("pg"))));
+                    figures.add(time(client, base, page, token, app.pid(), postmasterPid(work.resolve("pg")), RUNS));
                 }
-                String json = new ObjectMapper().writerWithDefaultPrettyPrinter().writeValueAsString(figures);
-                Files.writeString(Path.of("pages.json"), json);
-                System.out.println("Pages: " + json);
-                for (Map<String, Object> f : figures) {
-                    System.out.printf("%-36s %8.1f ms (CPU %6.1f + %6.1f ms) %8.1f KiB%s%n", f.get("name"),
-                            (Double) f.get("serverMillis"), (Double) f.get("serverCpuMillis"),
-                            (Double) f.get("databaseCpuMillis"), (Double) f.get("htmlKiB"), ((Double) f.get("serverMillis")) < 300
-                                    && ((Double) f.get("htmlKiB")) < 300 ? "" : "   (misses the target)");
-                }
+                write(figures);
             } finally {
                 app.destroy();
                 app.waitFor();
             }
         } finally {
             deleteRecursively(work);
+        }
+    }
+
+    /**
+     * The history part (issue 18), alone on its own database: the history tables of {@link HistoryBenchmark#fill} (one
+     * scheme of {@link HistoryBenchmark#LABS} laboratories × {@link HistoryBenchmark#ROUNDS} rounds × 15 measurands),
+     * the laboratories they name, and a coordinator; then "history page" (a laboratory's 600 results with their charts,
+     * {@code /laboratories/{id}/history}) and "field view" ({@code /schemes/1/field}) timed end to end as the other
+     * pages, {@link #HISTORY_RUNS} runs each. Replaces its entries in {@code pages.json}, keeping the others.
+     */
+    private static void historyPages(Path jar) throws Exception {
+        Path work = Files.createTempDirectory("roundtable-history-pages-bench");
+        int dbPort = freePort();
+        try (EmbeddedPostgres postgres = EmbeddedDatabase.start(work.resolve("pg"), dbPort)) {
+            String jdbc = postgres.getJdbcUrl("postgres", "postgres");
+            Flyway.configure().dataSource(jdbc, "postgres", "").locations("classpath:db/migration")
+                    .placeholders(Map.of("appRole", "roundtable_app")).load().migrate();
+            long start = System.nanoTime();
+            String token;
+            try (Connection c = DriverManager.getConnection(jdbc, "postgres", "")) {
+                c.setAutoCommit(false);
+                try (Statement s = c.createStatement()) {
+                    // ids 1 to LABS in a new database: the laboratories the history's scores name
+                    s.execute("INSERT INTO laboratory (name, organisation, country) SELECT 'Laboratory ' || l, "
+                            + "'Benchmark organisation', 'DE' FROM generate_series(1, " + HistoryBenchmark.LABS + ") l");
+                }
+                token = coordinatorSession(c);
+                c.commit();
+                HistoryBenchmark.fill(c);
+            }
+            System.out.printf("History of %,d laboratories x %d rounds x 15 measurands filled in %.1f s%n",
+                    HistoryBenchmark.LABS, HistoryBenchmark.ROUNDS, (System.nanoTime() - start) / 1e9);
+            int port = freePort();
+            Process app = startApplication(jar, jdbc, port, work);
+            try {
+                waitUntilReady(port);
+                HttpClient client = HttpClient.newBuilder().connectTimeout(Duration.ofSeconds(10))
+                        .followRedirects(HttpClient.Redirect.NEVER).build();
+                String base = "http://127.0.0.1:" + port;
+                long lab = HistoryBenchmark.LABS / 2;
+                List<Page> pages = List.of(
+                        new Page("history page", "/laboratories/" + lab + "/history", "Laboratory " + lab),
+                        new Page("field view", "/schemes/1/field", HistoryBenchmark.SCHEME_NAME));
+                List<Map<String, Object>> figures = new ArrayList<>();
+                for (Page page : pages) {
+                    figures.add(time(client, base, page, token, app.pid(), postmasterPid(work.resolve("pg")), HISTORY_RUNS));
+                }
+                write(figures);
+            } finally {
+                app.destroy();
+                app.waitFor();
+            }
+        } finally {
+            deleteRecursively(work);
+        }
+    }
+
+    /** Writes the figures into {@code pages.json}, replacing entries of the same name and keeping the others. */
+    @SuppressWarnings("unchecked")
+    private static void write(List<Map<String, Object>> figures) throws IOException {
+        ObjectMapper mapper = new ObjectMapper();
+        Path file = Path.of("pages.json");
+        List<Map<String, Object>> all = new ArrayList<>();
+        if (Files.exists(file)) {
+            List<String> names = figures.stream().map(f -> (String) f.get("name")).toList();
+            for (Map<String, Object> old : (List<Map<String, Object>>) mapper.readValue(file.toFile(), List.class)) {
+                if (!names.contains(old.get("name"))) {
+                    all.add(old);
+                }
+            }
+        }
+        all.addAll(figures);
+        String json = mapper.writerWithDefaultPrettyPrinter().writeValueAsString(all);
+        Files.writeString(file, json);
+        System.out.println("Pages: " + mapper.writerWithDefaultPrettyPrinter().writeValueAsString(figures));
+        for (Map<String, Object> f : figures) {
+            System.out.printf("%-36s %8.1f ms (p95 %6.1f; CPU %6.1f + %6.1f ms) %8.1f KiB%s%n", f.get("name"),
+                    (Double) f.get("serverMillis"), (Double) f.get("p95Millis"), (Double) f.get("serverCpuMillis"),
+                    (Double) f.get("databaseCpuMillis"), (Double) f.get("htmlKiB"), ((Double) f.get("serverMillis")) < 300
+                            && ((Double) f.get("htmlKiB")) < 300 ? "" : "   (misses the target)");
         }
     }
 
@@ -182,12 +265,12 @@ public final class PagesBenchmark {
 
     /** Times one page: warm-ups, then the median of the runs; fails when the page does not answer 200. */
     private static Map<String, Object> time(HttpClient client, String base, Page page, String token, long appPid,
-                                            long postmaster) throws Exception {
-        double[] millis = new double[RUNS];
+                                            long postmaster, int runs) throws Exception {
+        double[] millis = new double[runs];
         int bytes = 0;
         double appCpu = 0;
         double databaseCpu = 0;
-        for (int i = -WARM_UPS; i < RUNS; i++) {
+        for (int i = -WARM_UPS; i < runs; i++) {
             if (i == 0) {
                 appCpu = cpuMillis(appPid);
                 databaseCpu = cpuMillisWithChildren(postmaster);
@@ -206,6 +289,10 @@ public final class PagesBenchmark {
                 throw new IllegalStateException(page.path() + " does not show " + page.marker());
             }
             bytes = answer.body().length;
+            if (i == runs - 1 && Boolean.getBoolean("bench.keepHtml")) {
+                // -Dbench.keepHtml=true: the last answer of each page beside pages.json, to see where its size goes
+                Files.write(Path.of(page.name().replaceAll("[^A-Za-z0-9]+", "-") + ".html"), answer.body());
+            }
             if (i >= 0) {
                 millis[i] = ms;
             }
@@ -219,8 +306,11 @@ public final class PagesBenchmark {
         f.put("path", page.path());
         f.put("minMillis", round(sorted[0]));
         f.put("maxMillis", round(sorted[sorted.length - 1]));
-        f.put("serverCpuMillis", round((cpuMillis(appPid) - appCpu) / RUNS));
-        f.put("databaseCpuMillis", round((cpuMillisWithChildren(postmaster) - databaseCpu) / RUNS));
+        // nearest rank (with 15 runs the slowest)
+        f.put("p95Millis", round(sorted[(int) Math.ceil(0.95 * runs) - 1]));
+        f.put("runs", runs);
+        f.put("serverCpuMillis", round((cpuMillis(appPid) - appCpu) / runs));
+        f.put("databaseCpuMillis", round((cpuMillisWithChildren(postmaster) - databaseCpu) / runs));
         f.put("loadAverage", round(ManagementFactory.getOperatingSystemMXBean().getSystemLoadAverage()));
         System.out.printf("%s: %.1f ms, %.1f KiB%n", page.name(), sorted[sorted.length / 2], bytes / 1024.0);
         return f;
