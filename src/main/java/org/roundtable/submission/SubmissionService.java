@@ -63,6 +63,7 @@ public class SubmissionService {
     public record Upload(Channel channel, UploadFormat format, byte[] content, String fileName, String contentType) {
     }
 
+    private final org.roundtable.platform.Admission admission;
     private final RoundAccess rounds;
     private final SubmissionRules rules;
     private final IdempotencyStore idempotency;
@@ -87,7 +88,8 @@ public class SubmissionService {
 
     public SubmissionService(RoundAccess rounds, SubmissionRules rules, IdempotencyStore idempotency, AuditTrail audit,
                              CurrentUser currentUser, EntityManager entityManager, ObjectMapper mapper,
-                             SessionKey sessionKey, Clock clock) {
+                             SessionKey sessionKey, Clock clock, org.roundtable.platform.Admission admission) {
+        this.admission = admission;
         this.rounds = rounds;
         this.rules = rules;
         this.idempotency = idempotency;
@@ -240,7 +242,7 @@ public class SubmissionService {
                 throw new DomainException.NotFound("The round");
             }
             SubmissionRules.Basis basis = rules.current(roundId, head);
-            Payload accepted = (basis == early ? earlyReading : read(basis, upload)).accepted();
+            Payload accepted = (basis == early ? earlyReading : readAgain(basis, upload)).accepted();
             RoundAccess.SubmissionWindow window = head.window();
             if (idempotencyKey != null) {
                 // a retry gets its original receipt even if the round closed in between
@@ -286,6 +288,17 @@ public class SubmissionService {
                 throw refusal;
             }
             return payload;
+        }
+    }
+
+    /**
+     * Reads the upload again under the lock, with rules that were not kept yet or have changed since it was prepared:
+     * in an upload slot, as the first reading was, so that many submissions arriving while the rules are cold (the
+     * first ones of a round, or just after its plan changed) are not parsed all at once.
+     */
+    private Reading readAgain(SubmissionRules.Basis basis, Upload upload) {
+        try (org.roundtable.platform.Admission.Slot ignored = admission.uploadSlot()) {
+            return read(basis, upload);
         }
     }
 
@@ -417,7 +430,7 @@ public class SubmissionService {
                 throw new DomainException.NotFound("The laboratory's submission");
             }
             SubmissionRules.Basis basis = rules.current(roundId, head);
-            Payload accepted = (basis == early ? earlyReading : read(basis, upload)).accepted();
+            Payload accepted = (basis == early ? earlyReading : readAgain(basis, upload)).accepted();
             RoundAccess.SubmissionWindow window = head.window();
             if (!window.closedBeforeIssue()) {
                 throw new DomainException.Conflict("Corrections are made after the round closes and before a report is"
