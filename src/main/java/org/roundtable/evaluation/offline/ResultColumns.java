@@ -390,26 +390,22 @@ final class ResultColumns {
 
     /**
      * A number's text as the grammar {@code [+-]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?} reads it, without a regular
-     * expression: whether it matches, and for a plain decimal ({@code \d+(\.\d+)?}) its digits and decimal places.
+     * expression: whether it matches, and for a plain decimal ({@code \d+(\.\d+)?}) its digits.
      */
     static final class NumberText {
         /** A plain decimal {@code \d+(\.\d+)?} of at most 19 characters: {@link #unscaled} holds its digits. */
         boolean plain;
         /** A plain decimal without needless leading zeros, so that its digits and places give it back. */
         boolean canonical;
-        /** Written with an exponent. */
-        boolean exponent;
         long unscaled;
-        int places;
 
         boolean scan(String text) {
             int n = text.length();
             int i = 0;
             plain = false;
             canonical = false;
-            exponent = false;
+            boolean exponent = false;
             unscaled = 0;
-            places = 0;
             boolean signed = i < n && (text.charAt(i) == '+' || text.charAt(i) == '-');
             if (signed) {
                 i++;
@@ -454,7 +450,6 @@ final class ResultColumns {
             if (i != n) {
                 return false;
             }
-            places = fraction;
             if (!signed && !exponent && intDigits > 0 && (!dot || fraction > 0) && n <= 19) {
                 plain = true;
                 unscaled = digits;
